@@ -1,0 +1,48 @@
+import { createHash } from 'node:crypto';
+import { spawn } from 'node:child_process';
+import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+
+/** Everything the web bundle is made from; a change in any of them means a rebuild. */
+const INPUTS = ['app', 'components', 'constants', 'hooks', 'shared', 'fonts', 'assets', 'app.json', 'package-lock.json', 'tsconfig.json', 'metro.config.cjs'];
+const STAMP = '.rotaloom-build-hash';
+
+function hashInputs(rootDir: string): string {
+  const hash = createHash('sha256');
+  const visit = (rel: string) => {
+    const abs = path.join(rootDir, rel);
+    if (!existsSync(abs)) return;
+    if (statSync(abs).isDirectory()) {
+      for (const name of readdirSync(abs).sort()) visit(path.join(rel, name));
+    } else {
+      hash.update(rel).update('\0').update(readFileSync(abs)).update('\0');
+    }
+  };
+  INPUTS.forEach(visit);
+  return hash.digest('hex');
+}
+
+/** Runs `expo export -p web` into dist/ unless the last build was made from the same sources. */
+export async function buildWebIfChanged(rootDir: string, outDir = path.join(rootDir, 'dist')): Promise<'built' | 'up to date'> {
+  const hash = hashInputs(rootDir);
+  const stampFile = path.join(outDir, STAMP);
+  if (existsSync(path.join(outDir, 'index.html')) && existsSync(stampFile) && readFileSync(stampFile, 'utf8') === hash) {
+    return 'up to date';
+  }
+  console.log('[web] building the web app (expo export -p web) …');
+  const started = Date.now();
+  await new Promise<void>((resolve, reject) => {
+    const child = spawn(path.join(rootDir, 'node_modules', '.bin', 'expo'), ['export', '-p', 'web', '--output-dir', outDir, '--clear'], {
+      cwd: rootDir,
+      env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1', EXPO_OFFLINE: '1' },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let output = '';
+    child.stdout.on('data', (d) => (output += d));
+    child.stderr.on('data', (d) => (output += d));
+    child.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`expo export failed (exit ${code}):\n${output.slice(-4000)}`))));
+  });
+  writeFileSync(stampFile, hash);
+  console.log(`[web] built in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  return 'built';
+}

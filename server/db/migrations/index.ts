@@ -1,0 +1,11 @@
+import type { QueryInterface } from 'sequelize';
+import * as m0001 from './0001-workspaces-users-people';
+
+export interface Migration {
+  name: string;
+  up(q: QueryInterface): Promise<void>;
+  down(q: QueryInterface): Promise<void>;
+}
+
+/** In order; a migration once shipped is never edited, only followed by a new one. */
+export const migrations: Migration[] = [{ name: '0001-workspaces-users-people', ...m0001 }];

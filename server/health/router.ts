@@ -1,0 +1,24 @@
+import { Router } from 'express';
+import type { Sequelize } from 'sequelize';
+
+/** `/api/health`: the app version and whether the database answers within a second. */
+export function healthRouter(deps: { sequelize: Sequelize; version: string }): Router {
+  const router = Router();
+  router.get('/', async (_req, res) => {
+    const database = await databaseAnswers(deps.sequelize);
+    res.status(database ? 200 : 503).json({ status: database ? 'ok' : 'degraded', version: deps.version, database: database ? 'up' : 'down' });
+  });
+  return router;
+}
+
+async function databaseAnswers(sequelize: Sequelize): Promise<boolean> {
+  try {
+    await Promise.race([
+      sequelize.query('SELECT 1'),
+      new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 1_000)),
+    ]);
+    return true;
+  } catch {
+    return false;
+  }
+}
