@@ -1,0 +1,2 @@
+export * from './willowmere';
+export * from './make-roster';

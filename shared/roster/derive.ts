@@ -1,0 +1,133 @@
+/**
+ * Facts derived from a validated roster that both the compiler (solver/roster/compile.ts)
+ * and the independent scorer (solver/roster/score-roster.ts) need: real shift times,
+ * night/weekend flags, rolling windows and fair shares. They are definitions of the
+ * format (documented in docs/roster-format.md), not rule evaluation, so sharing them does
+ * not weaken the scorer's independence from the model.
+ */
+import { format } from 'date-fns';
+import type { Person, Roster, Shift } from './schema';
+import { daysBetween, hoursBetween, isoWeekday, localDateTimeToInstant, parseLocalDate, wallMinutes } from './time';
+
+export type ShiftFacts = {
+  index: number;
+  id: string;
+  patternLabel: string;
+  startMs: number;
+  endMs: number;
+  /** Real elapsed hours (a night across a DST change is 7 or 9 h on the wall clock's 8). */
+  hours: number;
+  /** Local date the shift starts on; the shift counts for that day. */
+  date: string;
+  /** Days from the period's first day to `date`. */
+  day: number;
+  night: boolean;
+  weekend: boolean;
+};
+
+/** Night time 23:00–06:00 local: 7 h including 00:00–05:00 as Art. 2(3) requires (value from memory of national defaults). */
+export const NIGHT_WINDOW = { startMinute: 23 * 60, endMinute: 6 * 60 } as const;
+/** A shift is a night shift when at least 3 h of it fall in night time (Art. 2(4)(a), night worker's "three hours"). */
+export const NIGHT_MIN_MINUTES = 180;
+
+/** Derived night flag: wall-clock overlap of the shift with 23:00–06:00 windows. */
+export function isNightShift(shift: Pick<Shift, 'start' | 'end' | 'night'>): boolean {
+  if (shift.night !== undefined) return shift.night;
+  const a = wallMinutes(shift.start);
+  const b = wallMinutes(shift.end);
+  const dayMin = 24 * 60;
+  let overlap = 0;
+  // Night windows start at 23:00 of the day before the shift's first day through its last day.
+  for (let d = Math.floor(a / dayMin) - 1; d * dayMin <= b; d++) {
+    const ws = d * dayMin + NIGHT_WINDOW.startMinute;
+    const we = (d + 1) * dayMin + NIGHT_WINDOW.endMinute;
+    overlap += Math.max(0, Math.min(b, we) - Math.max(a, ws));
+  }
+  return overlap >= NIGHT_MIN_MINUTES;
+}
+
+export function periodDays(roster: Pick<Roster, 'period'>): number {
+  return daysBetween(roster.period.start, roster.period.end) + 1;
+}
+
+export function shiftFacts(roster: Pick<Roster, 'period' | 'shifts'>): ShiftFacts[] {
+  const tz = roster.period.timeZone;
+  return roster.shifts.map((s, index) => {
+    const startMs = localDateTimeToInstant(s.start, tz);
+    const endMs = localDateTimeToInstant(s.end, tz);
+    const date = s.start.slice(0, 10);
+    const wd = isoWeekday(date);
+    return {
+      index,
+      id: s.id,
+      patternLabel: s.patternLabel,
+      startMs,
+      endMs,
+      hours: hoursBetween(startMs, endMs),
+      date,
+      day: daysBetween(roster.period.start, date),
+      night: isNightShift(s),
+      weekend: wd === 6 || wd === 7,
+    };
+  });
+}
+
+/**
+ * Rolling windows of `length` days, each wholly inside the period: [first, last] day
+ * indices. A period shorter than the window is one window (the whole period).
+ */
+export function rollingWindows(totalDays: number, length: number): { first: number; last: number }[] {
+  if (totalDays <= length) return [{ first: 0, last: totalDays - 1 }];
+  const out: { first: number; last: number }[] = [];
+  for (let d = 0; d + length <= totalDays; d++) out.push({ first: d, last: d + length - 1 });
+  return out;
+}
+
+/** Contracted hours over the period: hours/week × days/7; undefined when the person has no contract. */
+export function contractedTarget(person: Person, totalDays: number): number | undefined {
+  return person.contractedHoursPerWeek === undefined ? undefined : (person.contractedHoursPerWeek * totalDays) / 7;
+}
+
+/**
+ * Fair share of a kind of shift (nights or weekends) per person: the number of such seats,
+ * split among the people who could take at least one of them (skill only), in proportion to
+ * contracted hours (people without a contract weigh as the mean contract, or 1 if nobody has
+ * one), rounded up. Returns person index → share; people who could take none are absent.
+ */
+export function fairShares(roster: Roster, facts: ShiftFacts[], pick: (f: ShiftFacts) => boolean): Map<number, number> {
+  const shiftIndex = new Map(roster.shifts.map((s, i) => [s.id, i]));
+  const seats = roster.seats.filter((seat) => pick(facts[shiftIndex.get(seat.shift)!]));
+  const eligible: number[] = [];
+  roster.people.forEach((p, i) => {
+    if (seats.some((seat) => seat.skill === null || p.skills.includes(seat.skill))) eligible.push(i);
+  });
+  const out = new Map<number, number>();
+  if (seats.length === 0 || eligible.length === 0) return out;
+  const contracts = eligible.map((i) => roster.people[i].contractedHoursPerWeek).filter((c): c is number => c !== undefined);
+  const mean = contracts.length ? contracts.reduce((a, b) => a + b, 0) / contracts.length : 1;
+  const weights = eligible.map((i) => roster.people[i].contractedHoursPerWeek ?? mean);
+  const sum = weights.reduce((a, b) => a + b, 0);
+  eligible.forEach((i, k) => {
+    // Tiny epsilon so that an exact 3.0000000001 from float division is not rounded up to 4.
+    const share = sum > 0 ? (seats.length * weights[k]) / sum : seats.length / eligible.length;
+    out.set(i, Math.ceil(share - 1e-9));
+  });
+  return out;
+}
+
+/** "Mon 4 Jan" for a local date. */
+export function formatDay(date: string): string {
+  const p = parseLocalDate(date)!;
+  return format(new Date(p.y, p.m - 1, p.d, 12), 'EEE d MMM');
+}
+
+/** "the late shift on Mon 4 Jan". */
+export function describeShift(f: Pick<ShiftFacts, 'patternLabel' | 'date'>): string {
+  return `the ${f.patternLabel} shift on ${formatDay(f.date)}`;
+}
+
+/** Hours as people say them: "9 h", "7.5 h". */
+export function formatHours(h: number): string {
+  const r = Math.round(h * 100) / 100;
+  return `${r} h`;
+}

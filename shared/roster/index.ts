@@ -1,0 +1,4 @@
+export * from './schema';
+export * from './time';
+export * from './derive';
+export * from './patterns';
