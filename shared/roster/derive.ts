@@ -7,7 +7,7 @@
  */
 import { format } from 'date-fns';
 import type { Person, Roster, Shift } from './schema';
-import { daysBetween, hoursBetween, isoWeekday, localDateTimeToInstant, parseLocalDate, wallMinutes } from './time';
+import { daysBetween, isoWeekday, localDateTimeToInstant, parseLocalDate, wallMinutes } from './time';
 
 export type ShiftFacts = {
   index: number;
@@ -15,7 +15,9 @@ export type ShiftFacts = {
   patternLabel: string;
   startMs: number;
   endMs: number;
-  /** Real elapsed hours (a night across a DST change is 7 or 9 h on the wall clock's 8). */
+  /** Real elapsed minutes, an integer (a night across a DST change is 7 or 9 h on the wall clock's 8). */
+  minutes: number;
+  /** minutes / 60. Rules sum minutes (integers) and divide once, so every evaluator gets the same floats. */
   hours: number;
   /** Local date the shift starts on; the shift counts for that day. */
   date: string;
@@ -63,7 +65,8 @@ export function shiftFacts(roster: Pick<Roster, 'period' | 'shifts'>): ShiftFact
       patternLabel: s.patternLabel,
       startMs,
       endMs,
-      hours: hoursBetween(startMs, endMs),
+      minutes: Math.round((endMs - startMs) / 60_000),
+      hours: Math.round((endMs - startMs) / 60_000) / 60,
       date,
       day: daysBetween(roster.period.start, date),
       night: isNightShift(s),
