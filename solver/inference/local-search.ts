@@ -1,0 +1,190 @@
+/**
+ * Local improvement of an assignment on the big-M model: single-variable moves
+ * (iterated conditional modes) and swap / ejection moves over keys (a takes the
+ * key held by b, b moves to its best value given that). Every accepted step
+ * raises the big-M score, so hard-constraint breaches are repaired first and a
+ * feasible assignment never becomes infeasible.
+ */
+import type { Engine } from './engine';
+import { engineScore } from './engine';
+import { CountingOp } from './ops';
+
+/** Small deterministic PRNG (mulberry32). */
+export function rng(seed: number): () => number {
+  let a = seed >>> 0 || 0x9e3779b9;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+export function shuffle<T>(a: T[], r: () => number): T[] {
+  for (let i = a.length - 1; i > 0; i--) {
+    const j = Math.floor(r() * (i + 1));
+    [a[i], a[j]] = [a[j]!, a[i]!];
+  }
+  return a;
+}
+
+const EPS = 1e-9;
+
+export class LocalSearch {
+  readonly x: Int32Array;
+  private acc: Float64Array;
+  private acc2: Float64Array;
+  /** key group → variables currently holding it. */
+  private holders = new Map<number, Set<number>>();
+  /** Cached sums for counting operators (index → sum). */
+  private sums: Float64Array;
+  private counting: boolean[];
+
+  constructor(private E: Engine, x: ArrayLike<number>, private random: () => number) {
+    this.x = Int32Array.from(x);
+    let maxK = 1;
+    for (let i = 0; i < E.n; i++) if (E.card[i]! > maxK) maxK = E.card[i]!;
+    this.acc = new Float64Array(maxK);
+    this.acc2 = new Float64Array(maxK);
+    this.sums = new Float64Array(E.ops.length);
+    this.counting = E.ops.map((op) => op instanceof CountingOp);
+    for (let i = 0; i < E.n; i++) this.hold(i, this.x[i]!, true);
+    E.ops.forEach((op, oi) => {
+      if (op instanceof CountingOp) this.sums[oi] = this.countSum(op, -1);
+    });
+  }
+
+  private countSum(op: CountingOp, skip: number): number {
+    let s = 0;
+    for (let j = 0; j < op.vars.length; j++) if (j !== skip) s += this.weightOf(op, j, this.x[op.vars[j]!]!);
+    return s;
+  }
+  private weightOf(op: CountingOp, slot: number, v: number): number {
+    const sup = op.support[slot]!;
+    for (let k = 0; k < sup.length; k++) if (sup[k] === v) return op.wts[slot]![k]!;
+    return 0;
+  }
+  private hold(i: number, v: number, add: boolean): void {
+    const g = this.E.keys.group[i]![v]!;
+    if (g === 0) return;
+    let s = this.holders.get(g);
+    if (!s) this.holders.set(g, (s = new Set()));
+    if (add) s.add(i);
+    else s.delete(i);
+  }
+
+  /** acc[v] = score as a function of x_i = v, others fixed, up to a constant. */
+  local(i: number, acc: Float64Array): void {
+    const E = this.E, K = E.card[i]!;
+    acc.set(E.theta[i]!.subarray(0, K));
+    for (const [oi, s] of E.adj[i]!) {
+      const op = E.ops[oi]!;
+      if (this.counting[oi]) {
+        const c = op as CountingOp;
+        const s0 = this.sums[oi]! - this.weightOf(c, s, this.x[i]!);
+        const S = c.S, g = c.g;
+        const base = g[s0 > S ? S : s0]!;
+        const sup = c.support[s]!, w = c.wts[s]!;
+        for (let k = 0; k < sup.length; k++) {
+          const t = s0 + w[k]!;
+          acc[sup[k]!]! += g[t > S ? S : t]! - base;
+        }
+      } else op.cond(s, this.x, acc);
+    }
+  }
+
+  set(i: number, v: number): void {
+    const old = this.x[i]!;
+    if (old === v) return;
+    for (const [oi, s] of this.E.adj[i]!) {
+      if (this.counting[oi]) {
+        const c = this.E.ops[oi] as CountingOp;
+        this.sums[oi]! += this.weightOf(c, s, v) - this.weightOf(c, s, old);
+      }
+    }
+    this.hold(i, old, false);
+    this.x[i] = v;
+    this.hold(i, v, true);
+  }
+
+  /** One pass of single-variable moves; returns the total gain. */
+  icmPass(order: number[]): number {
+    let gain = 0;
+    const acc = this.acc;
+    for (const i of order) {
+      const K = this.E.card[i]!;
+      this.local(i, acc);
+      const cur = this.x[i]!;
+      let best = cur;
+      for (let v = 0; v < K; v++) if (acc[v]! > acc[best]! + EPS) best = v;
+      if (best !== cur) {
+        gain += acc[best]! - acc[cur]!;
+        this.set(i, best);
+      }
+    }
+    return gain;
+  }
+
+  /** One pass of key swaps / ejections; returns the total gain. */
+  swapPass(order: number[], candidates = 3): number {
+    let gain = 0;
+    const E = this.E, acc = this.acc, acc2 = this.acc2;
+    for (const a of order) {
+      const K = E.card[a]!;
+      this.local(a, acc);
+      const cur = this.x[a]!;
+      const base = acc[cur]!;
+      const cands: number[] = [];
+      for (let v = 0; v < K; v++) {
+        if (v === cur || E.keys.group[a]![v] === 0) continue;
+        const hs = this.holders.get(E.keys.group[a]![v]!);
+        if (!hs || hs.size === 0) continue;
+        cands.push(v);
+      }
+      cands.sort((p, q) => acc[q]! - acc[p]!);
+      for (const v of cands.slice(0, candidates)) {
+        const hs = this.holders.get(E.keys.group[a]![v]!);
+        if (!hs) continue;
+        const b = hs.values().next().value as number | undefined;
+        if (b === undefined || b === a) continue;
+        const da = acc[v]! - base;
+        this.set(a, v);
+        this.local(b, acc2);
+        const xb = this.x[b]!;
+        let vb = xb;
+        for (let u = 0; u < E.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
+        const db = acc2[vb]! - acc2[xb]!;
+        if (da + db > EPS) {
+          this.set(b, vb);
+          gain += da + db;
+          break;
+        }
+        this.set(a, cur);
+      }
+    }
+    return gain;
+  }
+
+  /** Moves and swaps until no gain or the deadline passes. Returns the big-M score. */
+  run(deadline: number, maxRounds = 100): number {
+    const order = shuffle(Array.from({ length: this.E.n }, (_, i) => i), this.random);
+    for (let r = 0; r < maxRounds; r++) {
+      let g = this.icmPass(order);
+      if (Date.now() > deadline) break;
+      if (g <= EPS) {
+        g += this.swapPass(order);
+        if (g <= EPS || Date.now() > deadline) break;
+      }
+    }
+    return engineScore(this.E, this.x);
+  }
+}
+
+/** Improve x in place with moves and swaps; returns the big-M score. */
+export function improve(E: Engine, x: Int32Array, seed: number, deadline: number): number {
+  const ls = new LocalSearch(E, x, rng(seed));
+  const s = ls.run(deadline);
+  x.set(ls.x);
+  return s;
+}
