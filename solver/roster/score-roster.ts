@@ -95,6 +95,8 @@ export function scoreRoster(roster: Roster, assignment: RosterAssignment): Roste
   const hardCounts = Object.fromEntries(TERM_NAMES.map((t) => [t, 0])) as Record<TermName, number>;
   const violations: RosterViolation[] = [];
   const name = (p: number) => roster.people[p].name;
+  const skillName = new Map(roster.skills.map((k) => [k.id, k.name]));
+  const sk = (id: string) => skillName.get(id) ?? id;
   const hit = (term: TermName, hard: boolean, points: number, message: string, people: number[], seats: number[]) => {
     if (hard) hardCounts[term]++;
     else terms[term] += points;
@@ -140,7 +142,7 @@ export function scoreRoster(roster: Roster, assignment: RosterAssignment): Roste
     const p = holder[s];
     const f = facts[shiftIdx.get(seat.shift)!];
     if (p >= 0 && seat.skill !== null && !roster.people[p].skills.includes(seat.skill))
-      hit('skills', true, -Infinity, `${name(p)} lacks the skill "${seat.skill}" that a seat on ${describeShift(f)} needs`, [p], [s]);
+      hit('skills', true, -Infinity, `${name(p)} lacks ${sk(seat.skill)}, which a seat on ${describeShift(f)} needs`, [p], [s]);
   });
   for (const pin of roster.pins) {
     const s = seatIdx.get(pin.seat)!;
@@ -158,7 +160,7 @@ export function scoreRoster(roster: Roster, assignment: RosterAssignment): Roste
       if (p < 0) {
         const seat = roster.seats[s];
         const f = facts[shiftIdx.get(seat.shift)!];
-        breach('coverage', 1, `a ${seat.skill ? `${seat.skill} ` : ''}seat on ${describeShift(f)} is open`, [], [s]);
+        breach('coverage', 1, `a ${seat.skill ? `${sk(seat.skill)} ` : ''}seat on ${describeShift(f)} is open`, [], [s]);
       }
     });
   }
@@ -286,7 +288,7 @@ export function scoreRoster(roster: Roster, assignment: RosterAssignment): Roste
       facts.forEach((f, i) => {
         if (q.patternLabel !== undefined && f.patternLabel !== q.patternLabel) return;
         const have = seatsOfShift[i].filter((s) => holder[s] >= 0 && roster.people[holder[s]].skills.includes(q.skill)).length;
-        if (have < q.min) breach('skillMix', q.min - have, `${describeShift(f)} has ${have} with ${q.skill}; at least ${q.min}`, [], seatsOfShift[i]);
+        if (have < q.min) breach('skillMix', q.min - have, `${describeShift(f)} has ${have} with ${sk(q.skill)}; at least ${q.min}`, [], seatsOfShift[i]);
       });
     }
   }
