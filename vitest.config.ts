@@ -1,10 +1,11 @@
 import { defineConfig } from 'vitest/config';
 import { fileURLToPath } from 'node:url';
+import path from 'node:path';
 
 // Unit and API tests; the browser tests have their own config (tests/e2e/vitest.config.ts)
 // because they need the built app and a running server.
 export default defineConfig({
-  resolve: { alias: { '@': fileURLToPath(new URL('.', import.meta.url)) } },
+  resolve: { alias: { '@': path.dirname(fileURLToPath(import.meta.url)) } },
   test: {
     include: ['tests/**/*.test.ts'],
     exclude: ['tests/e2e/**', 'node_modules/**'],

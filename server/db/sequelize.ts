@@ -8,7 +8,9 @@ export function createSequelize(db: Env['db'], options: { logging?: boolean } = 
     dialect: 'mariadb',
     logging: options.logging ? (sql) => console.log(sql) : false,
     pool: { max: 10, min: 0, idle: 10_000 },
-    dialectOptions: { timezone: 'Etc/GMT0', connectTimeout: 5_000 },
+    // Dates are stored in UTC; rosters carry their own IANA time zone.
+    timezone: '+00:00',
+    dialectOptions: { connectTimeout: 5_000 },
     define: { underscored: true },
   });
 }

@@ -1,14 +1,15 @@
-import { Router } from 'express';
+import type { Router } from 'express';
+import { ApiRoutes } from '../http/routes';
 import type { Sequelize } from 'sequelize';
 
 /** `/api/health`: the app version and whether the database answers within a second. */
 export function healthRouter(deps: { sequelize: Sequelize; version: string }): Router {
-  const router = Router();
-  router.get('/', async (_req, res) => {
+  const routes = new ApiRoutes('/health');
+  routes.get('/', 'public', async (_req, res) => {
     const database = await databaseAnswers(deps.sequelize);
     res.status(database ? 200 : 503).json({ status: database ? 'ok' : 'degraded', version: deps.version, database: database ? 'up' : 'down' });
   });
-  return router;
+  return routes.router;
 }
 
 async function databaseAnswers(sequelize: Sequelize): Promise<boolean> {

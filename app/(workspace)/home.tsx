@@ -1,0 +1,3 @@
+import { OverviewScreen } from '@/components/home/overview-screen';
+
+export default OverviewScreen;

@@ -1,0 +1,3 @@
+import { NotFoundScreen } from '@/components/not-found-screen';
+
+export default NotFoundScreen;

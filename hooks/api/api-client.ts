@@ -1,0 +1,51 @@
+/** One field at fault, as the API reports it (`body.email`). */
+export interface ApiFieldError {
+  path: string;
+  message: string;
+}
+
+export class ApiError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields: ApiFieldError[] = [],
+  ) {
+    super(message);
+  }
+  /** The message for one form field, matched on the last part of its path. */
+  fieldMessage(name: string): string | undefined {
+    return this.fields.find((f) => f.path === name || f.path.endsWith(`.${name}`))?.message;
+  }
+}
+
+/** Same-origin JSON calls to `/api`, with the session cookie and errors turned into ApiError. */
+export async function apiFetch<T>(path: string, init: { method?: string; body?: unknown; signal?: AbortSignal } = {}): Promise<T> {
+  let res: Response;
+  try {
+    res = await fetch(`/api${path}`, {
+      method: init.method ?? 'GET',
+      credentials: 'same-origin',
+      headers: init.body === undefined ? { accept: 'application/json' } : { accept: 'application/json', 'content-type': 'application/json' },
+      body: init.body === undefined ? undefined : JSON.stringify(init.body),
+      signal: init.signal,
+    });
+  } catch {
+    throw new ApiError(0, 'network', 'Rotaloom could not be reached. Check your connection and try again.');
+  }
+  const text = await res.text();
+  const data = text ? safeJson(text) : undefined;
+  if (!res.ok) {
+    const error = (data as { error?: { code?: string; message?: string; fields?: ApiFieldError[] } } | undefined)?.error;
+    throw new ApiError(res.status, error?.code ?? 'unknown', error?.message ?? `The server answered ${res.status}`, error?.fields ?? []);
+  }
+  return data as T;
+}
+
+function safeJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return undefined;
+  }
+}

@@ -1,0 +1,61 @@
+import path from 'node:path';
+import type { Server } from 'node:http';
+import { readEnv, rootDir } from '../env';
+import { createApp } from '../app';
+import { startFakes } from '../../fakes';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../db/seed';
+import { ensureDebianPackages, MARIADB } from './system-packages';
+import { startMariaDb } from './mariadb';
+import { prepareDatabase } from './database';
+import { buildWebIfChanged } from './web-build';
+
+const log = (line: string) => console.log(`[rotaloom] ${line}`);
+
+/** `npm start`: MariaDB, migrations, demo seed, fakes, web build and the server, stopped cleanly on Ctrl-C. */
+async function main(): Promise<void> {
+  const env = readEnv({ ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development' });
+  ensureDebianPackages(MARIADB);
+  const [db, web] = await Promise.all([
+    startMariaDb({ dataDir: path.join(env.dataDir, 'mariadb'), port: env.db.port }),
+    buildWebIfChanged(rootDir),
+  ]);
+  log(`web app ${web}`);
+  const cleanups: Array<() => Promise<unknown>> = [() => db.stop()];
+  let stopping = false;
+  const stop = async (code: number) => {
+    if (stopping) return;
+    stopping = true;
+    log('stopping …');
+    for (const cleanup of cleanups.reverse()) await cleanup().catch((err) => console.error(err));
+    process.exit(code);
+  };
+  process.on('SIGINT', () => void stop(0));
+  process.on('SIGTERM', () => void stop(0));
+  try {
+    const sequelize = await prepareDatabase(env.db, log);
+    cleanups.push(() => sequelize.close());
+    const fakes = await startFakes();
+    cleanups.push(() => fakes.stop());
+    log(`mail fake: SMTP on 127.0.0.1:${fakes.mail.smtpPort}, messages at http://127.0.0.1:${fakes.mail.httpPort}/messages`);
+    const app = createApp({ env, sequelize });
+    const server: Server = await new Promise((resolve, reject) => {
+      const s = app.listen(env.port, env.host, () => resolve(s));
+      s.once('error', reject);
+    });
+    cleanups.push(() => new Promise((resolve) => server.close(resolve)));
+    console.log('');
+    console.log(`  Rotaloom is running at ${env.publicUrl}`);
+    console.log(`  Demo sign-in (password ${DEMO_PASSWORD}):`);
+    for (const a of DEMO_ACCOUNTS) console.log(`    ${a.role.padEnd(12)} ${a.email}`);
+    console.log('  Press Ctrl-C to stop (MariaDB is stopped with it).');
+    console.log('');
+  } catch (err) {
+    console.error(`[rotaloom] could not start: ${err instanceof Error ? err.message : String(err)}`);
+    await stop(1);
+  }
+}
+
+main().catch((err) => {
+  console.error(`[rotaloom] could not start: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(1);
+});

@@ -1,0 +1,59 @@
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
+
+export const PHONE = { width: 390, height: 844 } as const;
+export const WIDE = { width: 1280, height: 800 } as const;
+
+export function baseUrl(): string {
+  const url = process.env.ROTALOOM_E2E_URL;
+  if (!url) throw new Error('Browser tests need a running app: run them through `npm test` (it sets ROTALOOM_E2E_URL)');
+  return url;
+}
+
+export async function launch(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-quic', '--no-first-run', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export interface WatchedPage {
+  context: BrowserContext;
+  page: Page;
+  /** Console errors, page errors and failed or 4xx/5xx requests seen so far, as readable lines. */
+  problems: string[];
+  close(): Promise<void>;
+}
+
+/**
+ * A page that records everything that went wrong, so a test can end with
+ * `expect(problems).toEqual([])`: any unexpected console error or failed request fails it.
+ */
+export async function openPage(browser: Browser, viewport: { width: number; height: number }, allow: RegExp[] = []): Promise<WatchedPage> {
+  const context = await browser.newContext({ viewport, deviceScaleFactor: 1, baseURL: baseUrl() });
+  const page = await context.newPage();
+  const problems: string[] = [];
+  const allowed = (line: string) => allow.some((re) => re.test(line));
+  const note = (line: string) => {
+    if (!allowed(line)) problems.push(line);
+  };
+  page.on('console', (msg) => {
+    if (msg.type() === 'error') note(`console: ${msg.text()}`);
+  });
+  page.on('pageerror', (err) => note(`page error: ${err.message}`));
+  page.on('requestfailed', (req) => note(`request failed: ${req.method()} ${req.url()} ${req.failure()?.errorText ?? ''}`));
+  page.on('response', (res) => {
+    if (res.status() >= 400) note(`HTTP ${res.status()}: ${res.request().method()} ${res.url()}`);
+  });
+  return { context, page, problems, close: () => context.close() };
+}
+
+const shotDir = path.resolve(process.env.ROTALOOM_SCREENSHOT_DIR ?? '.data/screenshots');
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  mkdirSync(shotDir, { recursive: true });
+  const file = path.join(shotDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: false });
+  return file;
+}

@@ -1,0 +1,59 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('signed-out pages at %s size', (label, viewport) => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('shows the landing page with the product name, its own fonts and a sign-in form', async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    await page.goto('/');
+    await page.getByRole('heading', { name: /Rosters your team can trust/ }).waitFor();
+    expect(await page.getByLabel('Rotaloom').first().isVisible()).toBe(true);
+    expect(await page.getByLabel('E-mail').isVisible()).toBe(true);
+    expect(await page.getByLabel('Password').isVisible()).toBe(true);
+    // The committed TTF files, not a system fallback: the browser reports the face as loaded.
+    const loaded = await page.evaluate(async () => {
+      await document.fonts.ready;
+      return ['AtkinsonHyperlegible', 'Fraunces-SemiBold'].map((f) => document.fonts.check(`16px "${f}"`));
+    });
+    expect(loaded).toEqual([true, true]);
+    // Nothing wider than the screen (a phone must not scroll sideways).
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+    expect(overflow).toBeLessThanOrEqual(0);
+    await screenshot(page, `landing-${label}`);
+    expect(problems).toEqual([]);
+    await close();
+  });
+
+  it('checks the sign-in form before sending anything', async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    await page.goto('/');
+    await page.getByLabel('E-mail').fill('not-an-address');
+    await page.getByTestId('sign-in-submit').click();
+    await page.getByText('This is not an e-mail address').waitFor();
+    await page.getByText('Enter your password').waitFor();
+    expect(problems).toEqual([]);
+    await close();
+  });
+
+  it('shows its own not-found page for an unknown address', async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    await page.goto('/no/such/page');
+    await page.getByRole('heading', { name: 'This page is not on the roster' }).waitFor();
+    await screenshot(page, `not-found-${label}`);
+    await page.getByText('Back to the start').click();
+    await page.getByRole('heading', { name: /Rosters your team can trust/ }).waitFor();
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
