@@ -93,22 +93,24 @@ export function makeRoster(options: MakeRosterOptions = {}): Roster {
   const rnd = seededRandom(seed);
   const pick = <T>(xs: readonly T[]) => xs[Math.floor(rnd() * xs.length)];
   const contracts = [20, 24, 30, 36, 37.5];
-  const people = Array.from({ length: n }, (_, i) => {
-    // Night leads and medication holders spread evenly through the list so every subset has some.
-    const skills: string[] = [];
-    if (i % 6 === 0 || i % 6 === 3) skills.push('medication');
-    if (i % 6 === 0 || i % 9 === 1) skills.push('night-lead');
-    if (i % 5 === 0 || i % 5 === 2 || i % 6 === 0) skills.push('first-aid');
-    return {
-      id: `p${String(i + 1).padStart(3, '0')}`,
-      name: `${FIRST[i % FIRST.length]} ${LAST[(i * 7 + Math.floor(i / FIRST.length)) % LAST.length]}`,
-      skills,
-      contractedHoursPerWeek: contracts[(i * 3 + 1) % contracts.length],
-    };
-  });
-  const avgContract = people.reduce((a, p) => a + p.contractedHoursPerWeek, 0) / Math.max(1, n);
-  const period = rest.period ?? { start, end: addLocalDays(start, weeks * 7 - 1), timeZone };
+  const base = Array.from({ length: n }, (_, i) => ({
+    id: `p${String(i + 1).padStart(3, '0')}`,
+    name: `${FIRST[i % FIRST.length]} ${LAST[(i * 7 + Math.floor(i / FIRST.length)) % LAST.length]}`,
+    skills: [] as string[],
+    contractedHoursPerWeek: contracts[(i * 3 + 1) % contracts.length],
+  }));
+  const avgContract = base.reduce((a, p) => a + p.contractedHoursPerWeek, 0) / Math.max(1, n);
   const pats = (patterns ?? defaultPatterns(n, avgContract, load)).map((p) => shiftPatternSchema.parse(p));
+  // Skill holders in proportion to the skilled seats a day (plus one first-aider per shift for the
+  // skill mix rule): about one holder per 4 such seats a week, plus one spare, spread over the list.
+  const perDay = new Map<string, number>([['first-aid', pats.length]]);
+  for (const p of pats) for (const g of p.seats) if (g.skill) perDay.set(g.skill, (perDay.get(g.skill) ?? 0) + (g.count * p.weekdays.length) / 7);
+  FIXTURE_SKILLS.forEach((skill, k) => {
+    const holders = Math.min(n, Math.ceil(((perDay.get(skill.id) ?? 0) * 7) / 4) + 1);
+    for (let h = 0; h < holders; h++) base[Math.floor((h * n) / holders + k) % n].skills.push(skill.id);
+  });
+  const people = base.map((p) => ({ ...p, skills: [...new Set(p.skills)] }));
+  const period = rest.period ?? { start, end: addLocalDays(start, weeks * 7 - 1), timeZone };
   const { shifts, seats } = generateShifts(pats, period);
 
   const wishes: NonNullable<RosterInput['wishes']> = [];
