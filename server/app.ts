@@ -5,14 +5,25 @@ import type { Env } from './env';
 import { apiNotFound, errorHandler } from './http/errors';
 import { healthRouter } from './health/router';
 import { webRouter } from './web/static';
+import { createSessionMiddleware } from './auth/session';
+import { createPassport } from './auth/passport';
+import { loadAuthContext } from './auth/load-context';
+import { requireCsrfHeader } from './auth/csrf';
+import { authRouter } from './auth/router';
+import { membersRouter, invitationsRouter } from './members/router';
+import { workspacesRouter } from './workspaces/router';
+import { createMailer, type Mailer } from './mail/mailer';
+import { devMailRouter } from './dev/mail-page';
 
 export interface AppDeps {
   env: Env;
   sequelize: Sequelize;
+  /** Defaults to SMTP from env (or an in-memory outbox outside production). */
+  mailer?: Mailer;
 }
 
 /** Builds the Express app without listening, so tests drive it with supertest. */
-export function createApp({ env, sequelize }: AppDeps): Express {
+export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -32,9 +43,21 @@ export function createApp({ env, sequelize }: AppDeps): Express {
 
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
+  // Session, then the user (passport), then req.auth (workspace and role), then the CSRF header check.
+  const passport = createPassport(env);
+  api.use(createSessionMiddleware(env, sequelize).middleware);
+  api.use(passport.initialize());
+  api.use(passport.session());
+  api.use(loadAuthContext);
+  api.use(requireCsrfHeader);
+  api.use('/auth', authRouter({ env, passport, mailer }));
+  api.use('/workspaces', workspacesRouter());
+  api.use('/members', membersRouter());
+  api.use('/invitations', invitationsRouter({ env, mailer }));
   api.use('/health', healthRouter({ sequelize, version: env.version }));
   api.use(apiNotFound);
   app.use('/api', api);
+  if (env.nodeEnv !== 'production') app.use('/dev', devMailRouter(env, mailer));
 
   app.use(webRouter(env.webDir));
   app.use(errorHandler);

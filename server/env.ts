@@ -19,6 +19,24 @@ const envSchema = z.object({
   ROTALOOM_SESSION_SECRET: z.string().min(16).default('rotaloom-dev-secret-change-me'),
   ROTALOOM_WEB_DIR: z.string().default(path.join(rootDir, 'dist')),
   ROTALOOM_DATA_DIR: z.string().default(path.join(rootDir, '.data')),
+  // E-mail over SMTP (the local fake in development and tests); without a host, mail is kept in memory.
+  ROTALOOM_SMTP_HOST: z.string().optional(),
+  ROTALOOM_SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
+  ROTALOOM_SMTP_SECURE: z.enum(['true', 'false']).default('false'),
+  ROTALOOM_SMTP_USER: z.string().optional(),
+  ROTALOOM_SMTP_PASSWORD: z.string().optional(),
+  ROTALOOM_MAIL_FROM: z.string().default('Rotaloom <no-reply@rotaloom.invalid>'),
+  // Where the dev-only mail page reads the fake mailbox (never used in production).
+  ROTALOOM_MAIL_FAKE_URL: z.string().url().optional(),
+  // Google sign-in: both id and secret turn it on; the URLs point it at the local fake instead of Google.
+  ROTALOOM_GOOGLE_CLIENT_ID: z.string().optional(),
+  ROTALOOM_GOOGLE_CLIENT_SECRET: z.string().optional(),
+  ROTALOOM_GOOGLE_AUTH_URL: z.string().url().optional(),
+  ROTALOOM_GOOGLE_TOKEN_URL: z.string().url().optional(),
+  ROTALOOM_GOOGLE_PROFILE_URL: z.string().url().optional(),
+  // Failed sign-ins allowed per 15 minutes, per account and per client address.
+  ROTALOOM_SIGNIN_MAX_PER_ACCOUNT: z.coerce.number().int().min(1).default(10),
+  ROTALOOM_SIGNIN_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(50),
 });
 
 export interface Env {
@@ -31,6 +49,13 @@ export interface Env {
   webDir: string;
   dataDir: string;
   version: string;
+  mail: {
+    smtp: { host: string; port: number; secure: boolean; user?: string; password?: string } | null;
+    from: string;
+    fakeUrl: string | null;
+  };
+  google: { clientId: string; clientSecret: string; authUrl?: string; tokenUrl?: string; profileUrl?: string } | null;
+  signInLimits: { perAccount: number; perAddress: number };
 }
 
 /** Reads and checks the environment once; a bad value stops the process with the variable named. */
@@ -60,6 +85,24 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
     webDir: e.ROTALOOM_WEB_DIR,
     dataDir: e.ROTALOOM_DATA_DIR,
     version: appVersion(),
+    mail: {
+      smtp: e.ROTALOOM_SMTP_HOST
+        ? { host: e.ROTALOOM_SMTP_HOST, port: e.ROTALOOM_SMTP_PORT, secure: e.ROTALOOM_SMTP_SECURE === 'true', user: e.ROTALOOM_SMTP_USER, password: e.ROTALOOM_SMTP_PASSWORD }
+        : null,
+      from: e.ROTALOOM_MAIL_FROM,
+      fakeUrl: e.ROTALOOM_MAIL_FAKE_URL ?? null,
+    },
+    google:
+      e.ROTALOOM_GOOGLE_CLIENT_ID && e.ROTALOOM_GOOGLE_CLIENT_SECRET
+        ? {
+            clientId: e.ROTALOOM_GOOGLE_CLIENT_ID,
+            clientSecret: e.ROTALOOM_GOOGLE_CLIENT_SECRET,
+            authUrl: e.ROTALOOM_GOOGLE_AUTH_URL,
+            tokenUrl: e.ROTALOOM_GOOGLE_TOKEN_URL,
+            profileUrl: e.ROTALOOM_GOOGLE_PROFILE_URL,
+          }
+        : null,
+    signInLimits: { perAccount: e.ROTALOOM_SIGNIN_MAX_PER_ACCOUNT, perAddress: e.ROTALOOM_SIGNIN_MAX_PER_ADDRESS },
   };
 }
 

@@ -26,7 +26,8 @@ export async function apiFetch<T>(path: string, init: { method?: string; body?: 
     res = await fetch(`/api${path}`, {
       method: init.method ?? 'GET',
       credentials: 'same-origin',
-      headers: init.body === undefined ? { accept: 'application/json' } : { accept: 'application/json', 'content-type': 'application/json' },
+      // X-Rotaloom-CSRF: the server refuses state-changing calls without it (server/auth/csrf.ts).
+      headers: init.body === undefined ? { accept: 'application/json', 'x-rotaloom-csrf': '1' } : { accept: 'application/json', 'content-type': 'application/json', 'x-rotaloom-csrf': '1' },
       body: init.body === undefined ? undefined : JSON.stringify(init.body),
       signal: init.signal,
     });

@@ -8,6 +8,8 @@ export type ErrorCode =
   | 'not_found'
   | 'conflict'
   | 'unprocessable'
+  | 'gone'
+  | 'rate_limited'
   | 'payload_too_large'
   | 'internal';
 

@@ -1,5 +1,6 @@
 import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-workspaces-users-people';
+import * as m0002 from './0002-accounts';
 
 export interface Migration {
   name: string;
@@ -8,4 +9,7 @@ export interface Migration {
 }
 
 /** In order; a migration once shipped is never edited, only followed by a new one. */
-export const migrations: Migration[] = [{ name: '0001-workspaces-users-people', ...m0001 }];
+export const migrations: Migration[] = [
+  { name: '0001-workspaces-users-people', ...m0001 },
+  { name: '0002-accounts', ...m0002 },
+];

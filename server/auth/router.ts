@@ -1,0 +1,227 @@
+import type { Request, Response, NextFunction, Router } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import type { Env } from '../env';
+import { User } from '../db/models';
+import { ApiRoutes } from '../http/routes';
+import { HttpError } from '../http/errors';
+import { validate } from '../http/validate';
+import type { Mailer } from '../mail/mailer';
+import { confirmEmailMail, passwordChangedMail, passwordResetMail } from '../mail/templates';
+import {
+  changeEmailSchema,
+  changePasswordSchema,
+  confirmEmailSchema,
+  forgotPasswordSchema,
+  resetPasswordSchema,
+  signInSchema,
+  signUpSchema,
+  updateProfileSchema,
+} from '../../shared/auth/schemas';
+import type { Authenticator } from './passport';
+import { SESSION_COOKIE } from './session';
+import { checkPassword } from './passwords';
+import {
+  CONFIRM_VALID_MS,
+  RESET_VALID_MS,
+  consumeToken,
+  emailTaken,
+  endSessions,
+  findUserWithPassword,
+  firstWorkspaceName,
+  issueToken,
+  normalizeEmail,
+  recentTokenCount,
+  recordSignInAttempt,
+  resolveMembership,
+  sessionView,
+  setPassword,
+  signInRetryAfter,
+  signUp,
+} from './service';
+
+export interface AuthDeps {
+  env: Env;
+  passport: Authenticator;
+  mailer: Mailer;
+}
+
+/** Signs the user in on this request (a fresh session id) and picks their workspace, preferring `workspaceId`. */
+export async function logIn(req: Request, user: Express.User, workspaceId?: number): Promise<void> {
+  await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+  const membership = await resolveMembership(user.id, workspaceId);
+  if (membership) {
+    req.session.workspaceId = membership.workspaceId;
+    req.auth = { userId: user.id, ...membership };
+  }
+}
+
+/** The session as GET /api/auth/session returns it, for the request's user and workspace. */
+export async function currentSession(req: Request) {
+  if (!req.user) throw new HttpError(401, 'unauthenticated', 'Please sign in');
+  return sessionView(req.user.id, req.auth?.workspaceId ?? null, req.auth?.personId ?? null);
+}
+
+/** Mail goes out after the answer, so a known and an unknown address take the same time; failures are logged without the link. */
+export function sendLater(mailer: Mailer, mail: Parameters<Mailer['send']>[0], what: string): void {
+  mailer.send(mail).catch((err: unknown) => console.error(`Could not send the ${what} e-mail: ${err instanceof Error ? err.message : String(err)}`));
+}
+
+/** Only paths on our own site: an open redirect would let a link send people anywhere after signing in. */
+export const safeReturnTo = (value: unknown): string | undefined =>
+  typeof value === 'string' && /^\/(?![/\\])[^\s]*$/.test(value) && value.length <= 500 ? value : undefined;
+
+const SAME_MESSAGE = 'The e-mail address or the password is not right';
+
+export function authRouter({ env, passport, mailer }: AuthDeps): Router {
+  const routes = new ApiRoutes('/auth');
+  // Sign-up and password-reset requests per address, on top of the per-account sign-in limits.
+  const perAddress = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: env.nodeEnv === 'test' ? 1000 : 30,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', 'Too many requests from this address; try again in a few minutes')),
+  });
+
+  routes.get('/session', 'signed-in', async (req, res) => {
+    res.json(await currentSession(req));
+  });
+
+  routes.get('/providers', 'public', (_req, res) => {
+    res.json({ password: true, google: Boolean(env.google) });
+  });
+
+  routes.post('/sign-in', 'public', validate({ body: signInSchema }), async (req, res, next) => {
+    const { email } = req.body as { email: string; password: string };
+    const address = req.ip ?? 'unknown';
+    const retryAfter = await signInRetryAfter(email, address, env.signInLimits);
+    if (retryAfter !== null) {
+      res.set('Retry-After', String(retryAfter));
+      const minutes = Math.ceil(retryAfter / 60);
+      throw new HttpError(429, 'rate_limited', `Too many failed sign-ins; try again in ${minutes} minute${minutes === 1 ? '' : 's'}`, [
+        { path: 'body.email', message: 'Too many failed sign-ins for now' },
+      ]);
+    }
+    const user = await new Promise<Express.User | false>((resolve, reject) => {
+      passport.authenticate('local', { session: false }, (err: unknown, found: Express.User | false) => (err ? reject(err) : resolve(found)))(req, res, next);
+    });
+    await recordSignInAttempt(email, address, Boolean(user));
+    // One message whether the address is unknown or the password wrong, so sign-in reveals no accounts.
+    if (!user) throw new HttpError(401, 'unauthenticated', SAME_MESSAGE, [{ path: 'body.password', message: SAME_MESSAGE }]);
+    await logIn(req, user);
+    res.json(await currentSession(req));
+  });
+
+  routes.post('/sign-up', 'public', perAddress, validate({ body: signUpSchema }), async (req, res) => {
+    const { user, workspace } = await signUp(req.body);
+    await logIn(req, user, workspace.id);
+    const token = await issueToken(user.id, 'confirm-email', CONFIRM_VALID_MS, user.email);
+    sendLater(mailer, confirmEmailMail({ to: user.email, displayName: user.displayName, workspaceName: workspace.name, url: `${env.publicUrl}/confirm-email?token=${token}`, validForMs: CONFIRM_VALID_MS, change: false }), 'address confirmation');
+    res.status(201).json(await currentSession(req));
+  });
+
+  routes.post('/sign-out', 'public', async (req, res) => {
+    if (req.session) await new Promise<void>((resolve, reject) => req.session.destroy((err) => (err ? reject(err) : resolve())));
+    res.clearCookie(SESSION_COOKIE, { path: '/', httpOnly: true, sameSite: 'lax' });
+    res.status(204).end();
+  });
+
+  routes.post('/forgot-password', 'public', perAddress, validate({ body: forgotPasswordSchema }), async (req, res) => {
+    const user = await User.findOne({ where: { email: normalizeEmail(req.body.email) } });
+    // At most three links an hour to one inbox; the answer is the same either way.
+    if (user && (await recentTokenCount(user.id, 'password-reset')) < 3) {
+      const token = await issueToken(user.id, 'password-reset', RESET_VALID_MS);
+      const workspaceName = await firstWorkspaceName(user.id);
+      sendLater(mailer, passwordResetMail({ to: user.email, displayName: user.displayName, workspaceName, url: `${env.publicUrl}/reset-password?token=${token}`, validForMs: RESET_VALID_MS }), 'password reset');
+    }
+    res.status(202).json({ message: 'If an account uses this address, a link to choose a new password is on its way. It works for one hour.' });
+  });
+
+  routes.post('/reset-password', 'public', perAddress, validate({ body: resetPasswordSchema }), async (req, res) => {
+    const { token, password } = req.body as { token: string; password: string };
+    const row = await User.sequelize!.transaction(async (transaction) => {
+      const used = await consumeToken(token, 'password-reset', transaction);
+      // Following the e-mailed link shows the address is theirs.
+      await setPassword(used.userId, password, { verifyEmail: true }, transaction);
+      return used;
+    });
+    await endSessions(row.userId);
+    const user = await User.findByPk(row.userId);
+    if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
+    await logIn(req, { id: user.id, email: user.email, displayName: user.displayName });
+    res.json(await currentSession(req));
+  });
+
+  routes.post('/confirm-email', 'public', validate({ body: confirmEmailSchema }), async (req, res) => {
+    const email = await User.sequelize!.transaction(async (transaction) => {
+      const used = await consumeToken(req.body.token, 'confirm-email', transaction);
+      const user = await User.findByPk(used.userId, { transaction });
+      if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
+      const next = used.email ?? user.email;
+      if (next !== user.email && (await emailTaken(next, user.id))) {
+        throw new HttpError(409, 'conflict', 'Another account uses this address now', [{ path: 'body.token', message: 'Another account uses this address now' }]);
+      }
+      await user.update({ email: next, emailVerified: true }, { transaction });
+      return next;
+    });
+    res.json({ email, emailVerified: true });
+  });
+
+  routes.patch('/profile', 'signed-in', validate({ body: updateProfileSchema }), async (req, res) => {
+    await User.update({ displayName: req.body.displayName }, { where: { id: req.user!.id } });
+    res.json(await currentSession(req));
+  });
+
+  /** A password account must prove it knows the current password; a Google-only account may set its first one. */
+  async function requireCurrentPassword(userId: number, given: string | undefined, field: string): Promise<User> {
+    const user = await findUserWithPassword(userId);
+    if (user.passwordHash && !(await checkPassword(given ?? '', user.passwordHash))) {
+      throw new HttpError(400, 'validation_failed', 'This is not your current password', [{ path: field, message: 'This is not your current password' }]);
+    }
+    return user;
+  }
+
+  routes.post('/change-password', 'signed-in', validate({ body: changePasswordSchema }), async (req, res) => {
+    const user = await requireCurrentPassword(req.user!.id, req.body.currentPassword, 'body.currentPassword');
+    await setPassword(user.id, req.body.newPassword, { verifyEmail: false });
+    await endSessions(user.id, req.sessionID);
+    sendLater(mailer, passwordChangedMail({ to: user.email, displayName: user.displayName, workspaceName: await firstWorkspaceName(user.id) }), 'password changed');
+    res.json(await currentSession(req));
+  });
+
+  routes.post('/change-email', 'signed-in', validate({ body: changeEmailSchema }), async (req, res) => {
+    const user = await requireCurrentPassword(req.user!.id, req.body.currentPassword, 'body.currentPassword');
+    const email = normalizeEmail(req.body.email);
+    if (email === user.email) throw new HttpError(400, 'validation_failed', 'This is already your address', [{ path: 'body.email', message: 'This is already your address' }]);
+    if (await emailTaken(email, user.id)) throw new HttpError(409, 'conflict', 'Another account uses this address', [{ path: 'body.email', message: 'Another account uses this address' }]);
+    const token = await issueToken(user.id, 'confirm-email', CONFIRM_VALID_MS, email);
+    sendLater(mailer, confirmEmailMail({ to: email, displayName: user.displayName, workspaceName: await firstWorkspaceName(user.id), url: `${env.publicUrl}/confirm-email?token=${token}`, validForMs: CONFIRM_VALID_MS, change: true }), 'address change');
+    res.status(202).json({ pendingEmail: email, message: `We sent a link to ${email}; your address changes once you open it.` });
+  });
+
+  // Google sign-in: a redirect to Google (or the local fake) and back.
+  routes.get('/google', 'public', (req: Request, res: Response, next: NextFunction) => {
+    if (!env.google) throw new HttpError(404, 'not_found', 'Google sign-in is not set up on this server');
+    const returnTo = safeReturnTo(req.query.returnTo);
+    if (returnTo) req.session.returnTo = returnTo;
+    else delete req.session.returnTo;
+    passport.authenticate('google', { session: false, prompt: 'select_account' })(req, res, next);
+  });
+
+  routes.get('/google/callback', 'public', (req: Request, res: Response, next: NextFunction) => {
+    if (!env.google) throw new HttpError(404, 'not_found', 'Google sign-in is not set up on this server');
+    const returnTo = req.session.returnTo ?? '/';
+    passport.authenticate('google', { session: false }, (err: unknown, user: Express.User | false, info: { message?: string } | undefined) => {
+      if (err) return next(err);
+      if (!user) {
+        const message = req.query.error === 'access_denied' ? 'Google sign-in was cancelled' : (info?.message ?? 'Google sign-in did not work; please try again');
+        return res.redirect(`/?signInError=${encodeURIComponent(message)}`);
+      }
+      logIn(req, user).then(() => {
+        res.redirect(returnTo);
+      }, next);
+    })(req, res, next);
+  });
+
+  return routes.router;
+}

@@ -1,0 +1,217 @@
+import { Op, type Transaction } from 'sequelize';
+import { Membership, Person, User, Workspace, type Role } from '../db/models';
+import { HttpError } from '../http/errors';
+import { checkPassword, hashPassword } from './passwords';
+import { AccountToken, SignInAttempt, type TokenPurpose } from './models';
+import { hashToken, newToken } from './tokens';
+
+export const normalizeEmail = (email: string) => email.trim().toLowerCase();
+
+const userView = (u: User) => ({ id: u.id, email: u.email, displayName: u.displayName });
+
+// ---------------------------------------------------------------- password sign-in
+
+/** The account for this e-mail and password, or null; the caller answers both failures alike. */
+export async function verifyPassword(email: string, password: string): Promise<Express.User | null> {
+  const user = await User.scope('withPassword').findOne({ where: { email: normalizeEmail(email) } });
+  const ok = await checkPassword(password, user?.passwordHash);
+  return ok && user ? userView(user) : null;
+}
+
+const WINDOW_MS = 15 * 60 * 1000;
+
+/** Seconds until another try is allowed, or null when under both limits (failures per account and per address). */
+export async function signInRetryAfter(email: string, address: string, limits: { perAccount: number; perAddress: number }): Promise<number | null> {
+  const since = new Date(Date.now() - WINDOW_MS);
+  const check = async (where: Record<string, unknown>, limit: number) => {
+    const failures = await SignInAttempt.findAll({
+      where: { ...where, succeeded: false, createdAt: { [Op.gte]: since } },
+      attributes: ['createdAt'],
+      order: [['createdAt', 'DESC']],
+      limit,
+    });
+    if (failures.length < limit) return null;
+    // Free again when the oldest counted failure leaves the window.
+    const oldest = failures[failures.length - 1].createdAt.getTime();
+    return Math.max(1, Math.ceil((oldest + WINDOW_MS - Date.now()) / 1000));
+  };
+  const [account, addr] = await Promise.all([check({ email: normalizeEmail(email) }, limits.perAccount), check({ address }, limits.perAddress)]);
+  if (account === null && addr === null) return null;
+  return Math.max(account ?? 0, addr ?? 0);
+}
+
+export async function recordSignInAttempt(email: string, address: string, succeeded: boolean): Promise<void> {
+  await SignInAttempt.create({ email: normalizeEmail(email).slice(0, 254), address: address.slice(0, 64), succeeded });
+}
+
+// ---------------------------------------------------------------- session view
+
+export interface SessionView {
+  user: { id: number; email: string; displayName: string; emailVerified: boolean; hasPassword: boolean; hasGoogle: boolean };
+  workspace: { id: number; name: string; timeZone: string } | null;
+  role: Role | null;
+  personId: number | null;
+  workspaces: Array<{ id: number; name: string; role: Role }>;
+}
+
+export async function listUserWorkspaces(userId: number): Promise<Array<{ id: number; name: string; role: Role; timeZone: string }>> {
+  const memberships = await Membership.findAll({ where: { userId }, include: [{ model: Workspace, required: true }], order: [['id', 'ASC']] });
+  return memberships.map((m) => {
+    const w = (m as Membership & { Workspace: Workspace }).Workspace;
+    return { id: w.id, name: w.name, role: m.role, timeZone: w.timeZone };
+  });
+}
+
+export async function sessionView(userId: number, workspaceId: number | null, personId: number | null): Promise<SessionView> {
+  const user = await User.scope('withPassword').findByPk(userId);
+  if (!user) throw new HttpError(401, 'unauthenticated', 'Please sign in');
+  const workspaces = await listUserWorkspaces(userId);
+  const current = workspaces.find((w) => w.id === workspaceId) ?? null;
+  return {
+    user: { id: user.id, email: user.email, displayName: user.displayName, emailVerified: user.emailVerified, hasPassword: Boolean(user.passwordHash), hasGoogle: Boolean(user.googleId) },
+    workspace: current ? { id: current.id, name: current.name, timeZone: current.timeZone } : null,
+    role: current?.role ?? null,
+    personId: current ? personId : null,
+    workspaces: workspaces.map(({ id, name, role }) => ({ id, name, role })),
+  };
+}
+
+/** The membership the session should use: the one it names if still valid, else the user's first. */
+export async function resolveMembership(userId: number, wanted: number | undefined): Promise<{ workspaceId: number; role: Role; personId: number | null } | null> {
+  const membership =
+    (wanted ? await Membership.findOne({ where: { userId, workspaceId: wanted } }) : null) ??
+    (await Membership.findOne({ where: { userId }, order: [['id', 'ASC']] }));
+  if (!membership) return null;
+  const person = await Person.findOne({ where: { workspaceId: membership.workspaceId, userId }, attributes: ['id'] });
+  return { workspaceId: membership.workspaceId, role: membership.role, personId: person?.id ?? null };
+}
+
+// ---------------------------------------------------------------- sign-up and Google
+
+export async function createWorkspaceFor(userId: number, name: string, timeZone: string | undefined, transaction?: Transaction): Promise<Workspace> {
+  const workspace = await Workspace.create({ name, timeZone: validTimeZone(timeZone) }, { transaction });
+  await Membership.create({ workspaceId: workspace.id, userId, role: 'admin' }, { transaction });
+  return workspace;
+}
+
+function validTimeZone(zone: string | undefined): string {
+  if (!zone) return 'UTC';
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: zone });
+    return zone;
+  } catch {
+    return 'UTC';
+  }
+}
+
+export async function signUp(input: { displayName: string; email: string; password: string; workspaceName: string; timeZone?: string }): Promise<{ user: Express.User; workspace: Workspace }> {
+  const email = normalizeEmail(input.email);
+  const passwordHash = await hashPassword(input.password);
+  const sequelize = User.sequelize!;
+  try {
+    return await sequelize.transaction(async (transaction) => {
+      const user = await User.create({ email, displayName: input.displayName, passwordHash, emailVerified: false }, { transaction });
+      const workspace = await createWorkspaceFor(user.id, input.workspaceName, input.timeZone, transaction);
+      return { user: userView(user), workspace };
+    });
+  } catch (err) {
+    if ((err as { name?: string }).name === 'SequelizeUniqueConstraintError') {
+      throw new HttpError(409, 'conflict', 'An account with this e-mail address already exists', [
+        { path: 'body.email', message: 'Already has an account: sign in, or choose "Forgot password"' },
+      ]);
+    }
+    throw err;
+  }
+}
+
+export interface GoogleIdentity {
+  googleId: string;
+  displayName: string;
+  email: string | null;
+  emailVerified: boolean;
+}
+
+/**
+ * Finds or makes the user for a Google identity. A Google account and a password account with
+ * the same verified e-mail become one user. If the password account's address was never
+ * verified, its password is dropped on linking: whoever set it had not shown they own the address.
+ */
+export async function googleSignIn(identity: GoogleIdentity, options: { createWorkspace: boolean }): Promise<{ ok: true; user: Express.User } | { ok: false; message: string }> {
+  const byGoogle = await User.findOne({ where: { googleId: identity.googleId } });
+  if (byGoogle) return { ok: true, user: userView(byGoogle) };
+  if (!identity.email) return { ok: false, message: 'Google did not share an e-mail address' };
+  const email = normalizeEmail(identity.email);
+  const byEmail = await User.scope('withPassword').findOne({ where: { email } });
+  if (byEmail) {
+    if (!identity.emailVerified) return { ok: false, message: 'This Google address is not verified; verify it with Google or sign in with your password' };
+    if (byEmail.googleId) return { ok: false, message: 'This e-mail address is already linked to another Google account' };
+    await byEmail.update({ googleId: identity.googleId, emailVerified: true, ...(byEmail.emailVerified ? {} : { passwordHash: null }) });
+    return { ok: true, user: userView(byEmail) };
+  }
+  const user = await User.sequelize!.transaction(async (transaction) => {
+    const created = await User.create({ email, displayName: identity.displayName.slice(0, 120), passwordHash: null, googleId: identity.googleId, emailVerified: identity.emailVerified }, { transaction });
+    if (options.createWorkspace) await createWorkspaceFor(created.id, `${identity.displayName.slice(0, 100)}'s team`, undefined, transaction);
+    return created;
+  });
+  return { ok: true, user: userView(user) };
+}
+
+// ---------------------------------------------------------------- e-mailed tokens
+
+export const RESET_VALID_MS = 60 * 60 * 1000;
+export const CONFIRM_VALID_MS = 48 * 60 * 60 * 1000;
+
+export async function issueToken(userId: number, purpose: TokenPurpose, validForMs: number, email: string | null = null): Promise<string> {
+  // An older unused link of the same kind stops working once a newer one is sent.
+  await AccountToken.update({ usedAt: new Date() }, { where: { userId, purpose, usedAt: null } });
+  const { token, hash } = newToken();
+  await AccountToken.create({ userId, purpose, tokenHash: hash, email, expiresAt: new Date(Date.now() + validForMs) });
+  return token;
+}
+
+/** How many links of this kind went to the user in the last hour (caps mail sent to one inbox). */
+export async function recentTokenCount(userId: number, purpose: TokenPurpose): Promise<number> {
+  return AccountToken.count({ where: { userId, purpose, createdAt: { [Op.gte]: new Date(Date.now() - 60 * 60 * 1000) } } });
+}
+
+/**
+ * Marks a link used, exactly once: the conditional update means two simultaneous uses cannot
+ * both succeed. Unknown, used and expired links each get a message naming `body.token`.
+ */
+export async function consumeToken(token: string, purpose: TokenPurpose, transaction?: Transaction): Promise<AccountToken> {
+  const row = await AccountToken.findOne({ where: { tokenHash: hashToken(token), purpose }, transaction });
+  if (!row) throw linkError(400, 'validation_failed', 'This link is not valid; ask for a new one');
+  if (row.usedAt) throw linkError(410, 'gone', 'This link was already used or replaced by a newer one; ask for a new one');
+  if (row.expiresAt.getTime() < Date.now()) throw linkError(410, 'gone', 'This link has expired; ask for a new one');
+  const [changed] = await AccountToken.update({ usedAt: new Date() }, { where: { id: row.id, usedAt: null }, transaction });
+  if (changed !== 1) throw linkError(410, 'gone', 'This link was already used; ask for a new one');
+  return row;
+}
+
+export const linkError = (status: number, code: 'validation_failed' | 'gone', message: string) => new HttpError(status, code, message, [{ path: 'body.token', message }]);
+
+export async function setPassword(userId: number, password: string, options: { verifyEmail: boolean }, transaction?: Transaction): Promise<void> {
+  const passwordHash = await hashPassword(password);
+  await User.update({ passwordHash, ...(options.verifyEmail ? { emailVerified: true } : {}) }, { where: { id: userId }, transaction });
+}
+
+/** Ends the user's sessions (except one, when given): after a password change nobody else stays signed in. */
+export async function endSessions(userId: number, exceptSid?: string): Promise<void> {
+  const Session = User.sequelize!.models.Session;
+  await Session.destroy({ where: { userId, ...(exceptSid ? { sid: { [Op.ne]: exceptSid } } : {}) } });
+}
+
+export async function findUserWithPassword(userId: number): Promise<User> {
+  const user = await User.scope('withPassword').findByPk(userId);
+  if (!user) throw new HttpError(401, 'unauthenticated', 'Please sign in');
+  return user;
+}
+
+export async function emailTaken(email: string, exceptUserId?: number): Promise<boolean> {
+  const user = await User.findOne({ where: { email: normalizeEmail(email) }, attributes: ['id'] });
+  return Boolean(user && user.id !== exceptUserId);
+}
+
+export async function firstWorkspaceName(userId: number): Promise<string | null> {
+  return (await listUserWorkspaces(userId))[0]?.name ?? null;
+}

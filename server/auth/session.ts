@@ -1,0 +1,61 @@
+import session from 'express-session';
+import connectSessionSequelize from 'connect-session-sequelize';
+import type { RequestHandler } from 'express';
+import type { Sequelize } from 'sequelize';
+import type { Env } from '../env';
+import { initAccountModels } from './models';
+
+declare module 'express-session' {
+  interface SessionData {
+    /** The workspace the user last chose; checked against memberships on every request. */
+    workspaceId?: number;
+    /** Where to go after Google sign-in (a path on our own site only). */
+    returnTo?: string;
+    passport?: { user?: number };
+  }
+}
+
+export const SESSION_COOKIE = 'rotaloom.sid';
+const TWO_WEEKS = 14 * 24 * 60 * 60 * 1000;
+
+const SequelizeStore = connectSessionSequelize(session.Store);
+
+export interface SessionHandle {
+  middleware: RequestHandler;
+  store: session.Store;
+}
+
+/** Sessions in MariaDB; the cookie is httpOnly, SameSite=Lax and Secure whenever the request came over HTTPS. */
+export function createSessionMiddleware(env: Env, sequelize: Sequelize): SessionHandle {
+  initAccountModels(sequelize);
+  const store = new SequelizeStore({
+    db: sequelize,
+    table: 'Session',
+    expiration: TWO_WEEKS,
+    // Tests build many apps; a timer per store would keep them alive, and the index on `expires` keeps lookups cheap anyway.
+    checkExpirationInterval: env.nodeEnv === 'test' ? 0 : 15 * 60 * 1000,
+    // Kept beside the data so all of a user's sessions can be ended after a password reset.
+    extendDefaultFields: (defaults: { data: string; expires: Date }, data: { passport?: { user?: number } }) => ({
+      ...defaults,
+      userId: data.passport?.user ?? null,
+    }),
+  });
+  const middleware = session({
+    name: SESSION_COOKIE,
+    secret: env.sessionSecret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    proxy: true,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      // 'auto' follows req.secure (trust proxy is set for loopback); a public https URL forces it.
+      secure: env.publicUrl.startsWith('https:') ? true : 'auto',
+      maxAge: TWO_WEEKS,
+      path: '/',
+    },
+  });
+  return { middleware, store };
+}

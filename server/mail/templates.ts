@@ -1,0 +1,88 @@
+import type { OutgoingMail } from './mailer';
+
+const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
+
+interface Body {
+  greeting: string;
+  paragraphs: string[];
+  action?: { label: string; url: string };
+  after?: string[];
+}
+
+/** One layout for every message: the same words in the plain-text and the HTML part. */
+function render(to: string, subject: string, body: Body): OutgoingMail {
+  const text = [
+    body.greeting,
+    '',
+    ...body.paragraphs.flatMap((p) => [p, '']),
+    ...(body.action ? [`${body.action.label}:`, body.action.url, ''] : []),
+    ...(body.after ?? []).flatMap((p) => [p, '']),
+    '— Rotaloom',
+  ].join('\n');
+  const p = (s: string) => `<p style="margin:0 0 16px">${escapeHtml(s)}</p>`;
+  const html = `<!doctype html><html><body style="font-family:system-ui,-apple-system,sans-serif;color:#1d2a33;line-height:1.5;max-width:560px;margin:0 auto;padding:24px">
+${p(body.greeting)}
+${body.paragraphs.map(p).join('\n')}
+${body.action ? `<p style="margin:24px 0"><a href="${escapeHtml(body.action.url)}" style="background:#1f6f5c;color:#ffffff;padding:12px 20px;border-radius:8px;text-decoration:none;display:inline-block">${escapeHtml(body.action.label)}</a></p><p style="margin:0 0 16px;font-size:13px;color:#51606b">Or paste this address into your browser: ${escapeHtml(body.action.url)}</p>` : ''}
+${(body.after ?? []).map(p).join('\n')}
+<p style="margin:24px 0 0;color:#51606b">— Rotaloom</p>
+</body></html>`;
+  return { to, subject, text, html };
+}
+
+const roleWords: Record<string, string> = {
+  admin: 'an admin (members, roles and the plan, as well as rosters)',
+  coordinator: 'a coordinator (people, skills and rosters)',
+  staff: 'a staff member (your wishes and your published shifts)',
+};
+
+const hours = (ms: number) => Math.round(ms / 3_600_000);
+
+export function invitationMail(input: { to: string; inviterName: string; workspaceName: string; role: string; url: string; validForMs: number }): OutgoingMail {
+  return render(input.to, `${input.inviterName} invited you to ${input.workspaceName} on Rotaloom`, {
+    greeting: 'Hello,',
+    paragraphs: [
+      `${input.inviterName} would like you to join ${input.workspaceName} on Rotaloom as ${roleWords[input.role] ?? input.role}.`,
+      `The link works once and for ${Math.round(hours(input.validForMs) / 24)} days. If you have no Rotaloom account yet, you will make one on the way.`,
+    ],
+    action: { label: `Join ${input.workspaceName}`, url: input.url },
+    after: ['Not expecting this? You can ignore it; nothing happens until the link is opened.'],
+  });
+}
+
+export function passwordResetMail(input: { to: string; displayName: string; workspaceName: string | null; url: string; validForMs: number }): OutgoingMail {
+  const where = input.workspaceName ? ` (you work in ${input.workspaceName})` : '';
+  return render(input.to, 'Choose a new Rotaloom password', {
+    greeting: `Hello ${input.displayName},`,
+    paragraphs: [
+      `Someone asked to choose a new password for the Rotaloom account of this address${where}.`,
+      `The link works once, within ${hours(input.validForMs)} hour${hours(input.validForMs) === 1 ? '' : 's'}.`,
+    ],
+    action: { label: 'Choose a new password', url: input.url },
+    after: ['If that was not you, ignore this message: your password stays as it is.'],
+  });
+}
+
+export function confirmEmailMail(input: { to: string; displayName: string; workspaceName: string | null; url: string; validForMs: number; change: boolean }): OutgoingMail {
+  return render(input.to, input.change ? 'Confirm your new Rotaloom e-mail address' : 'Confirm your Rotaloom e-mail address', {
+    greeting: `Hello ${input.displayName},`,
+    paragraphs: [
+      input.change
+        ? `You asked to sign in to Rotaloom${input.workspaceName ? ` (${input.workspaceName})` : ''} with this address from now on. It takes effect once you confirm it.`
+        : `Welcome to Rotaloom${input.workspaceName ? ` and to ${input.workspaceName}` : ''}. Please confirm that this address is yours.`,
+      `The link works once, within ${hours(input.validForMs)} hours.`,
+    ],
+    action: { label: 'Confirm this address', url: input.url },
+    after: ['If you did not ask for this, you can ignore this message.'],
+  });
+}
+
+export function passwordChangedMail(input: { to: string; displayName: string; workspaceName: string | null }): OutgoingMail {
+  return render(input.to, 'Your Rotaloom password was changed', {
+    greeting: `Hello ${input.displayName},`,
+    paragraphs: [
+      `The password of your Rotaloom account${input.workspaceName ? ` (${input.workspaceName})` : ''} was just changed, and other devices were signed out.`,
+      'If that was not you, choose a new password with "Forgot password" on the sign-in page and tell your workspace admin.',
+    ],
+  });
+}

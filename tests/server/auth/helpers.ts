@@ -1,0 +1,74 @@
+import bcrypt from 'bcryptjs';
+import request from 'supertest';
+import type { Express } from 'express';
+import { createApp } from '../../../server/app';
+import { Membership, Person, User, Workspace, type Role } from '../../../server/db/models';
+import type { Mailer, OutgoingMail } from '../../../server/mail/mailer';
+import type { TestDb } from '../helpers/test-db';
+
+export const PASSWORD = 'correct horse battery';
+// One hash for every fixture user: bcrypt is slow on purpose, fixtures need not be.
+const passwordHash = bcrypt.hashSync(PASSWORD, 10);
+
+/** An in-memory mailer the test can read. */
+export function memoryMailer(): Mailer & { last(to?: string): OutgoingMail | undefined } {
+  const outbox: OutgoingMail[] = [];
+  return {
+    outbox,
+    async send(mail) {
+      outbox.push(mail);
+    },
+    last(to?: string) {
+      return [...outbox].reverse().find((m) => !to || m.to === to);
+    },
+  };
+}
+
+export function makeApp(db: TestDb, overrides: Partial<Parameters<typeof createApp>[0]> = {}) {
+  const mailer = memoryMailer();
+  const app = createApp({ env: db.env, sequelize: db.sequelize, mailer, ...overrides });
+  return { app, mailer };
+}
+
+/** A supertest agent keeping cookies, sending the CSRF header on every request as our client does. */
+export function agent(app: Express) {
+  return request.agent(app).set('X-Rotaloom-CSRF', '1');
+}
+
+let counter = 0;
+export const uniqueEmail = (prefix = 'user') => `${prefix}.${Date.now().toString(36)}.${++counter}@example.test`;
+
+export async function makeWorkspace(name = `Workspace ${++counter}`) {
+  return Workspace.create({ name, timeZone: 'Europe/London' });
+}
+
+export async function makeUser(overrides: { email?: string; displayName?: string; workspace?: Workspace; role?: Role; emailVerified?: boolean; passwordHash?: string | null } = {}) {
+  const user = await User.create({
+    email: overrides.email ?? uniqueEmail(),
+    displayName: overrides.displayName ?? 'Fixture Person',
+    passwordHash: overrides.passwordHash === undefined ? passwordHash : overrides.passwordHash,
+    emailVerified: overrides.emailVerified ?? true,
+  });
+  if (overrides.workspace) await Membership.create({ workspaceId: overrides.workspace.id, userId: user.id, role: overrides.role ?? 'staff' });
+  return user;
+}
+
+export async function makePerson(workspace: Workspace, overrides: { name?: string; email?: string | null; userId?: number | null } = {}) {
+  return Person.create({ workspaceId: workspace.id, name: overrides.name ?? 'Fixture Person', email: overrides.email ?? null, userId: overrides.userId ?? null, contractedHours: 30, skills: [] });
+}
+
+/** A signed-in agent for a new user with this role in the workspace. */
+export async function signedIn(app: Express, workspace: Workspace, role: Role) {
+  const user = await makeUser({ workspace, role });
+  const a = agent(app);
+  const res = await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD });
+  if (res.status !== 200) throw new Error(`fixture sign-in failed: ${res.status} ${JSON.stringify(res.body)}`);
+  return { agent: a, user };
+}
+
+/** The link in the last mail to this address that contains `path`. */
+export function linkIn(mail: OutgoingMail | undefined, path: string): URL {
+  const found = mail?.text.match(/https?:\/\/\S+/g)?.find((l) => l.includes(path));
+  if (!found) throw new Error(`no ${path} link in ${mail ? `"${mail.subject}"` : 'any mail'}`);
+  return new URL(found);
+}
