@@ -212,7 +212,11 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
     if (!env.google) throw new HttpError(404, 'not_found', 'Google sign-in is not set up on this server');
     const returnTo = req.session.returnTo ?? '/';
     passport.authenticate('google', { session: false }, (err: unknown, user: Express.User | false, info: { message?: string } | undefined) => {
-      if (err) return next(err);
+      if (err) {
+        // Usually the provider refusing the code (expired, replayed); the person can simply try again.
+        console.error(`Google sign-in failed: ${err instanceof Error ? `${err.name} ${err.message}` : String(err)}`);
+        return res.redirect(`/?signInError=${encodeURIComponent('Google sign-in did not work; please try again')}`);
+      }
       if (!user) {
         const message = req.query.error === 'access_denied' ? 'Google sign-in was cancelled' : (info?.message ?? 'Google sign-in did not work; please try again');
         return res.redirect(`/?signInError=${encodeURIComponent(message)}`);

@@ -2,12 +2,13 @@ import path from 'node:path';
 import type { Server } from 'node:http';
 import { readEnv, rootDir } from '../env';
 import { createApp } from '../app';
-import { startFakes } from '../../fakes';
+import { fakeEnv, startFakes } from '../../fakes';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../db/seed';
 import { ensureDebianPackages, MARIADB } from './system-packages';
 import { startMariaDb } from './mariadb';
 import { prepareDatabase } from './database';
 import { buildWebIfChanged } from './web-build';
+import { RunWorker } from '../runs/worker';
 
 const log = (line: string) => console.log(`[rotaloom] ${line}`);
 
@@ -37,12 +38,20 @@ async function main(): Promise<void> {
     const fakes = await startFakes();
     cleanups.push(() => fakes.stop());
     log(`mail fake: SMTP on 127.0.0.1:${fakes.mail.smtpPort}, messages at http://127.0.0.1:${fakes.mail.httpPort}/messages`);
-    const app = createApp({ env, sequelize });
+    // Outside production the server talks to the fakes for every service not configured for real.
+    const appEnv = env.nodeEnv === 'production' ? env : readEnv({ ...process.env, NODE_ENV: env.nodeEnv, ...fakeEnv(fakes) });
+    if (appEnv !== env) log(`Google sign-in fake at ${fakes.google.url}; sent mail at ${env.publicUrl}/dev/mail`);
+    const app = createApp({ env: appEnv, sequelize });
     const server: Server = await new Promise((resolve, reject) => {
       const s = app.listen(env.port, env.host, () => resolve(s));
       s.once('error', reject);
     });
     cleanups.push(() => new Promise((resolve) => server.close(resolve)));
+    if (env.inProcessWorker) {
+      const worker = new RunWorker(sequelize, { log });
+      worker.start();
+      cleanups.push(() => worker.stop());
+    }
     console.log('');
     console.log(`  Rotaloom is running at ${env.publicUrl}`);
     console.log(`  Demo sign-in (password ${DEMO_PASSWORD}):`);

@@ -5,11 +5,12 @@ import path from 'node:path';
 import type { Server } from 'node:http';
 import { readEnv, rootDir } from '../env';
 import { createApp } from '../app';
-import { startFakes } from '../../fakes';
+import { fakeEnv, startFakes } from '../../fakes';
 import { CHROMIUM, ensureDebianPackages, MARIADB } from './system-packages';
 import { freePort, startMariaDb } from './mariadb';
 import { prepareDatabase } from './database';
 import { buildWebIfChanged } from './web-build';
+import { RunWorker } from '../runs/worker';
 
 const log = (line: string) => console.log(`[test] ${line}`);
 
@@ -87,15 +88,22 @@ async function main(): Promise<number> {
     }
 
     if (wants('e2e')) {
-      const env = readEnv({ ...childEnv, ROTALOOM_DB_NAME: 'rotaloom_e2e', ROTALOOM_PORT: '0' });
-      const sequelize = await prepareDatabase(env.db, (l) => log(`e2e database: ${l}`));
-      cleanups.push(() => sequelize.close());
       const fakes = await startFakes();
       cleanups.push(() => fakes.stop());
+      // A known port, so links in e-mails (built from the public URL) point at this server.
+      const appPort = await freePort();
+      const env = readEnv({ ...childEnv, ROTALOOM_DB_NAME: 'rotaloom_e2e', ROTALOOM_PORT: String(appPort), ...fakeEnv(fakes, {}) });
+      const sequelize = await prepareDatabase(env.db, (l) => log(`e2e database: ${l}`));
+      cleanups.push(() => sequelize.close());
       const server: Server = await new Promise((resolve) => {
-        const s = createApp({ env, sequelize }).listen(0, '127.0.0.1', () => resolve(s));
+        const s = createApp({ env, sequelize }).listen(appPort, '127.0.0.1', () => resolve(s));
       });
       cleanups.push(() => new Promise((resolve) => server.close(resolve)));
+    if (env.inProcessWorker) {
+      const worker = new RunWorker(sequelize, { log });
+      worker.start();
+      cleanups.push(() => worker.stop());
+    }
       const address = server.address();
       const url = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
       log(`browser tests (Chromium through playwright-core) against ${url}`);

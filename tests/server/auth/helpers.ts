@@ -31,7 +31,7 @@ export function makeApp(db: TestDb, overrides: Partial<Parameters<typeof createA
 }
 
 /** A supertest agent keeping cookies, sending the CSRF header on every request as our client does. */
-export function agent(app: Express) {
+export function agent(app: Express | import('node:http').Server) {
   return request.agent(app).set('X-Rotaloom-CSRF', '1');
 }
 
