@@ -14,6 +14,9 @@ import { membersRouter, invitationsRouter } from './members/router';
 import { workspacesRouter } from './workspaces/router';
 import { createMailer, type Mailer } from './mail/mailer';
 import { devMailRouter } from './dev/mail-page';
+import { peopleRouter, skillsRouter } from './people/router';
+import { pairingsRouter, rostersRouter } from './rosters/router';
+import { runsRouter } from './runs/router';
 
 export interface AppDeps {
   env: Env;
@@ -54,6 +57,12 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/workspaces', workspacesRouter());
   api.use('/members', membersRouter());
   api.use('/invitations', invitationsRouter({ env, mailer }));
+  api.use('/skills', skillsRouter());
+  api.use('/people', peopleRouter());
+  const [rosterRunsRouter, runRouter] = runsRouter();
+  api.use('/rosters', rostersRouter(), rosterRunsRouter);
+  api.use('/runs', runRouter);
+  api.use('/pairings', pairingsRouter());
   api.use('/health', healthRouter({ sequelize, version: env.version }));
   api.use(apiNotFound);
   app.use('/api', api);

@@ -19,6 +19,8 @@ const envSchema = z.object({
   ROTALOOM_SESSION_SECRET: z.string().min(16).default('rotaloom-dev-secret-change-me'),
   ROTALOOM_WEB_DIR: z.string().default(path.join(rootDir, 'dist')),
   ROTALOOM_DATA_DIR: z.string().default(path.join(rootDir, '.data')),
+  /** 0 leaves solving to separate `npm run worker` processes. */
+  ROTALOOM_IN_PROCESS_WORKER: z.enum(['0', '1']).default('1'),
   // E-mail over SMTP (the local fake in development and tests); without a host, mail is kept in memory.
   ROTALOOM_SMTP_HOST: z.string().optional(),
   ROTALOOM_SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
@@ -48,6 +50,7 @@ export interface Env {
   sessionSecret: string;
   webDir: string;
   dataDir: string;
+  inProcessWorker: boolean;
   version: string;
   mail: {
     smtp: { host: string; port: number; secure: boolean; user?: string; password?: string } | null;
@@ -84,6 +87,7 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
     sessionSecret: e.ROTALOOM_SESSION_SECRET,
     webDir: e.ROTALOOM_WEB_DIR,
     dataDir: e.ROTALOOM_DATA_DIR,
+    inProcessWorker: e.ROTALOOM_IN_PROCESS_WORKER === '1',
     version: appVersion(),
     mail: {
       smtp: e.ROTALOOM_SMTP_HOST

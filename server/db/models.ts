@@ -1,3 +1,4 @@
+import { initRosterModels } from '../rosters/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
@@ -45,7 +46,8 @@ export class Person extends Model<InferAttributes<Person>, InferCreationAttribut
   declare name: string;
   declare email: CreationOptional<string | null>;
   declare contractedHours: number;
-  declare skills: string[];
+  /** Skill ids of this workspace. */
+  declare skills: number[];
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -95,7 +97,13 @@ export function initModels(sequelize: Sequelize): void {
           return raw === null || raw === undefined ? 0 : Number(raw);
         },
       },
-      skills: DataTypes.JSON,
+      skills: {
+        type: DataTypes.JSON,
+        get() {
+          const raw = this.getDataValue('skills') as unknown;
+          return typeof raw === 'string' ? JSON.parse(raw) : raw;
+        },
+      },
       version: DataTypes.INTEGER.UNSIGNED,
       ...timestamps,
     },
@@ -104,4 +112,5 @@ export function initModels(sequelize: Sequelize): void {
   Membership.belongsTo(User, { foreignKey: 'userId' });
   Membership.belongsTo(Workspace, { foreignKey: 'workspaceId' });
   User.hasMany(Membership, { foreignKey: 'userId' });
+  initRosterModels(sequelize);
 }

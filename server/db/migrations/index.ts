@@ -1,6 +1,7 @@
 import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-workspaces-users-people';
 import * as m0002 from './0002-accounts';
+import * as m0003 from './0003-rosters';
 
 export interface Migration {
   name: string;
@@ -12,4 +13,5 @@ export interface Migration {
 export const migrations: Migration[] = [
   { name: '0001-workspaces-users-people', ...m0001 },
   { name: '0002-accounts', ...m0002 },
+  { name: '0003-rosters', ...m0003 },
 ];

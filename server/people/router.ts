@@ -1,0 +1,46 @@
+import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
+import { validate } from '../http/validate';
+import { idParams } from '../../shared/api/paging';
+import { createPersonBody, peopleListQuery, skillBody, updatePersonBody } from '../../shared/api/people';
+import * as repo from './repository';
+
+const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
+
+export function skillsRouter() {
+  const routes = new ApiRoutes('/skills');
+  routes.get('/', COORDINATOR_UP, async (req, res) => {
+    res.json({ items: await repo.listSkills(ws(req)) });
+  });
+  routes.post('/', COORDINATOR_UP, validate({ body: skillBody }), async (req, res) => {
+    res.status(201).json(await repo.createSkill(ws(req), req.body.name));
+  });
+  routes.patch('/:id', COORDINATOR_UP, validate({ params: idParams, body: skillBody }), async (req, res) => {
+    res.json(await repo.renameSkill(ws(req), Number(req.params.id), req.body.name));
+  });
+  routes.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    await repo.deleteSkill(ws(req), Number(req.params.id));
+    res.status(204).end();
+  });
+  return routes.router;
+}
+
+export function peopleRouter() {
+  const routes = new ApiRoutes('/people');
+  routes.get('/', COORDINATOR_UP, validate({ query: peopleListQuery }), async (req, res) => {
+    res.json(await repo.listPeople(ws(req), req.query as never));
+  });
+  routes.post('/', COORDINATOR_UP, validate({ body: createPersonBody }), async (req, res) => {
+    res.status(201).json(await repo.createPerson(ws(req), req.body));
+  });
+  routes.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    res.json(await repo.getPerson(ws(req), Number(req.params.id)));
+  });
+  routes.patch('/:id', COORDINATOR_UP, validate({ params: idParams, body: updatePersonBody }), async (req, res) => {
+    res.json(await repo.updatePerson(ws(req), Number(req.params.id), req.body));
+  });
+  routes.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    await repo.deletePerson(ws(req), Number(req.params.id));
+    res.status(204).end();
+  });
+  return routes.router;
+}

@@ -1,0 +1,53 @@
+import { Person, Skill } from '../db/models';
+import { parseRoster, type ParseRosterResult, type RosterInput } from '../../shared/roster/schema';
+import { PairingRow, PinRow, SeatRow, ShiftRow, WishRow } from './models';
+import { findRoster } from './repository';
+import { rosterIds } from './ids';
+
+/**
+ * Reads one roster with everything the solver needs from the database into the roster JSON
+ * format (shared/roster), then validates it so problems come back with the field named.
+ * Only approved pairings count.
+ */
+export async function assembleRoster(workspaceId: number, rosterId: number): Promise<{ input: RosterInput; parsed: ParseRosterResult; version: number }> {
+  const roster = await findRoster(workspaceId, rosterId);
+  const [skills, people, shifts, wishes, pairings, pins] = await Promise.all([
+    Skill.findAll({ where: { workspaceId }, order: [['id', 'ASC']] }),
+    Person.findAll({ where: { workspaceId }, order: [['id', 'ASC']] }),
+    ShiftRow.findAll({ where: { workspaceId, rosterId }, order: [['startsLocal', 'ASC'], ['id', 'ASC']] }),
+    WishRow.findAll({ where: { workspaceId, rosterId }, order: [['id', 'ASC']] }),
+    PairingRow.findAll({ where: { workspaceId, status: 'approved' }, order: [['id', 'ASC']] }),
+    PinRow.findAll({ where: { workspaceId, rosterId } }),
+  ]);
+  const seats = await SeatRow.findAll({ where: { workspaceId, shiftId: shifts.map((s) => s.id) }, order: [['shiftId', 'ASC'], ['position', 'ASC']] });
+  const input: RosterInput = {
+    format: 'rotaloom.roster/1',
+    name: roster.name,
+    period: { start: roster.periodStart, end: roster.periodEnd, timeZone: roster.timeZone },
+    skills: skills.map((s) => ({ id: rosterIds.skill(s.id), name: s.name })),
+    people: people.map((p) => ({
+      id: rosterIds.person(p.id),
+      name: p.name,
+      skills: (p.skills ?? []).map(rosterIds.skill),
+      ...(p.contractedHours > 0 ? { contractedHoursPerWeek: p.contractedHours } : {}),
+    })),
+    shifts: shifts.map((s) => ({
+      id: rosterIds.shift(s.id),
+      patternLabel: s.label,
+      start: s.startsLocal,
+      end: s.endsLocal,
+      ...(s.night === null || s.night === undefined ? {} : { night: s.night }),
+    })),
+    seats: seats.map((s) => ({ id: rosterIds.seat(s.id), shift: rosterIds.shift(s.shiftId), skill: s.skillId ? rosterIds.skill(s.skillId) : null })),
+    wishes: wishes.map((w) => ({
+      person: rosterIds.person(w.personId),
+      ...(w.shiftId ? { shift: rosterIds.shift(w.shiftId) } : { date: w.date ?? undefined }),
+      kind: w.kind,
+      strength: w.strength,
+    })),
+    pairings: pairings.map((p) => ({ a: rosterIds.person(p.personAId), b: rosterIds.person(p.personBId), score: p.score, never: p.neverTogether })),
+    pins: pins.map((p) => ({ seat: rosterIds.seat(p.seatId), person: p.personId ? rosterIds.person(p.personId) : null })),
+    rules: roster.rules,
+  };
+  return { input, parsed: parseRoster(input), version: roster.version };
+}

@@ -1,0 +1,100 @@
+import type { Transaction } from 'sequelize';
+import { Person, Skill } from '../db/models';
+import type { Roster as RosterJson, ShiftPatternInput } from '../../shared/roster/schema';
+import { PairingRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
+import { rosterIds } from './ids';
+
+/**
+ * Writes a roster in the JSON format into a workspace: skills and people are matched by name
+ * (created when missing), then the roster with its shifts, seats, wishes, pairings and rules.
+ * Used by the demo seed and by roster file imports. Runs inside the caller's transaction.
+ */
+export async function importRosterJson(
+  workspaceId: number,
+  roster: RosterJson,
+  options: { name: string; patterns?: ShiftPatternInput[]; transaction: Transaction },
+): Promise<{ rosterId: number; personIds: Map<string, number> }> {
+  const { transaction } = options;
+  const skillIds = new Map<string, number>();
+  for (const s of roster.skills) {
+    const [row] = await Skill.findOrCreate({ where: { workspaceId, name: s.name }, defaults: { workspaceId, name: s.name }, transaction });
+    skillIds.set(s.id, row.id);
+  }
+  const personIds = new Map<string, number>();
+  for (const p of roster.people) {
+    const existing = await Person.findOne({ where: { workspaceId, name: p.name }, transaction });
+    const row =
+      existing ??
+      (await Person.create(
+        { workspaceId, name: p.name, contractedHours: p.contractedHoursPerWeek ?? 0, skills: p.skills.map((s) => skillIds.get(s)!) },
+        { transaction },
+      ));
+    personIds.set(p.id, row.id);
+  }
+  // Stored rules name skills the way the assembled roster does (s<id>).
+  const rules = {
+    ...roster.rules,
+    skillMix: { ...roster.rules.skillMix, requirements: roster.rules.skillMix.requirements.map((q) => ({ ...q, skill: rosterIds.skill(skillIds.get(q.skill)!) })) },
+  };
+  const rosterRow = await Roster.create(
+    { workspaceId, name: options.name, periodStart: roster.period.start, periodEnd: roster.period.end, timeZone: roster.period.timeZone, rules },
+    { transaction },
+  );
+  const patternIds = new Map<string, number>();
+  for (const p of options.patterns ?? []) {
+    const row = await ShiftPatternRow.create(
+      {
+        workspaceId,
+        rosterId: rosterRow.id,
+        label: p.label,
+        weekdays: p.weekdays,
+        startTime: p.start,
+        endTime: p.end,
+        seats: p.seats.map((s) => ({ skillId: s.skill ? skillIds.get(s.skill)! : null, count: s.count })),
+        night: p.night ?? null,
+      },
+      { transaction },
+    );
+    patternIds.set(p.label, row.id);
+  }
+  const shiftRows = await ShiftRow.bulkCreate(
+    roster.shifts.map((s) => ({
+      workspaceId,
+      rosterId: rosterRow.id,
+      patternId: patternIds.get(s.patternLabel) ?? null,
+      label: s.patternLabel,
+      startsLocal: s.start,
+      endsLocal: s.end,
+      night: s.night ?? null,
+    })),
+    { transaction },
+  );
+  const shiftIds = new Map(roster.shifts.map((s, i) => [s.id, shiftRows[i].id]));
+  const positions = new Map<string, number>();
+  await SeatRow.bulkCreate(
+    roster.seats.map((seat) => {
+      const position = positions.get(seat.shift) ?? 0;
+      positions.set(seat.shift, position + 1);
+      return { workspaceId, shiftId: shiftIds.get(seat.shift)!, skillId: seat.skill ? skillIds.get(seat.skill)! : null, position };
+    }),
+    { transaction },
+  );
+  await WishRow.bulkCreate(
+    roster.wishes.map((w) => ({
+      workspaceId,
+      rosterId: rosterRow.id,
+      personId: personIds.get(w.person)!,
+      date: w.date ?? null,
+      shiftId: w.shift ? shiftIds.get(w.shift)! : null,
+      kind: w.kind,
+      strength: w.strength,
+    })),
+    { transaction },
+  );
+  for (const p of roster.pairings) {
+    const [a, b] = [personIds.get(p.a)!, personIds.get(p.b)!].sort((x, y) => x - y);
+    const exists = await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b }, transaction });
+    if (!exists) await PairingRow.create({ workspaceId, personAId: a, personBId: b, score: p.score, neverTogether: p.never }, { transaction });
+  }
+  return { rosterId: rosterRow.id, personIds };
+}

@@ -1,0 +1,126 @@
+import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
+import { validate } from '../http/validate';
+import { idParams } from '../../shared/api/paging';
+import {
+  createRosterBody,
+  pairingBody,
+  patternBody,
+  pinBody,
+  rosterChildParams,
+  rosterIdParams,
+  rostersListQuery,
+  rulesBody,
+  shiftBody,
+  updatePairingBody,
+  updateRosterBody,
+  updateShiftBody,
+  wishBody,
+} from '../../shared/api/rosters';
+import * as repo from './repository';
+import { assembleRoster } from './assemble';
+
+const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
+const rid = (req: { params: Record<string, unknown> }) => Number(req.params.rosterId);
+const cid = (req: { params: Record<string, unknown> }) => Number(req.params.id);
+
+export function rostersRouter() {
+  const r = new ApiRoutes('/rosters');
+  r.get('/', COORDINATOR_UP, validate({ query: rostersListQuery }), async (req, res) => {
+    res.json(await repo.listRosters(ws(req), req.query as never));
+  });
+  r.post('/', COORDINATOR_UP, validate({ body: createRosterBody }), async (req, res) => {
+    res.status(201).json(await repo.createRoster(ws(req), req.body));
+  });
+  r.get('/:rosterId', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json(repo.toRosterDto(await repo.findRoster(ws(req), rid(req))));
+  });
+  r.patch('/:rosterId', COORDINATOR_UP, validate({ params: rosterIdParams, body: updateRosterBody }), async (req, res) => {
+    res.json(await repo.updateRoster(ws(req), rid(req), req.body));
+  });
+  r.delete('/:rosterId', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    await repo.deleteRoster(ws(req), rid(req));
+    res.status(204).end();
+  });
+  r.get('/:rosterId/export', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    const { input } = await assembleRoster(ws(req), rid(req));
+    res.setHeader('Content-Disposition', `attachment; filename="roster-${rid(req)}.json"`);
+    res.json(input);
+  });
+
+  r.get('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json(await repo.getRules(ws(req), rid(req)));
+  });
+  r.put('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams, body: rulesBody }), async (req, res) => {
+    res.json(await repo.putRules(ws(req), rid(req), req.body.rules, req.body.version));
+  });
+
+  r.get('/:rosterId/patterns', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json({ items: await repo.listPatterns(ws(req), rid(req)) });
+  });
+  r.post('/:rosterId/patterns/preview', COORDINATOR_UP, validate({ params: rosterIdParams, body: patternBody }), async (req, res) => {
+    res.json({ items: await repo.previewPattern(ws(req), rid(req), req.body) });
+  });
+  r.post('/:rosterId/patterns', COORDINATOR_UP, validate({ params: rosterIdParams, body: patternBody }), async (req, res) => {
+    res.status(201).json(await repo.createPattern(ws(req), rid(req), req.body));
+  });
+  r.delete('/:rosterId/patterns/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+    await repo.deletePattern(ws(req), rid(req), cid(req));
+    res.status(204).end();
+  });
+
+  r.get('/:rosterId/shifts', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json({ items: await repo.listShifts(ws(req), rid(req)) });
+  });
+  r.post('/:rosterId/shifts', COORDINATOR_UP, validate({ params: rosterIdParams, body: shiftBody }), async (req, res) => {
+    res.status(201).json(await repo.createShift(ws(req), rid(req), req.body));
+  });
+  r.patch('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams, body: updateShiftBody }), async (req, res) => {
+    res.json(await repo.updateShift(ws(req), rid(req), cid(req), req.body));
+  });
+  r.delete('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+    await repo.deleteShift(ws(req), rid(req), cid(req));
+    res.status(204).end();
+  });
+
+  r.get('/:rosterId/wishes', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json({ items: await repo.listWishes(ws(req), rid(req)) });
+  });
+  r.post('/:rosterId/wishes', COORDINATOR_UP, validate({ params: rosterIdParams, body: wishBody }), async (req, res) => {
+    res.status(201).json(await repo.createWish(ws(req), rid(req), req.body));
+  });
+  r.delete('/:rosterId/wishes/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+    await repo.deleteWish(ws(req), rid(req), cid(req));
+    res.status(204).end();
+  });
+
+  r.get('/:rosterId/pins', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    res.json({ items: await repo.listPins(ws(req), rid(req)) });
+  });
+  r.put('/:rosterId/pins', COORDINATOR_UP, validate({ params: rosterIdParams, body: pinBody }), async (req, res) => {
+    res.json(await repo.putPin(ws(req), rid(req), req.body));
+  });
+  r.delete('/:rosterId/pins/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+    await repo.deletePin(ws(req), rid(req), cid(req));
+    res.status(204).end();
+  });
+  return r.router;
+}
+
+export function pairingsRouter() {
+  const r = new ApiRoutes('/pairings');
+  r.get('/', COORDINATOR_UP, async (req, res) => {
+    res.json({ items: await repo.listPairings(ws(req)) });
+  });
+  r.post('/', COORDINATOR_UP, validate({ body: pairingBody }), async (req, res) => {
+    res.status(201).json(await repo.createPairing(ws(req), req.body));
+  });
+  r.patch('/:id', COORDINATOR_UP, validate({ params: idParams, body: updatePairingBody }), async (req, res) => {
+    res.json(await repo.updatePairing(ws(req), cid(req), req.body));
+  });
+  r.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    await repo.deletePairing(ws(req), cid(req));
+    res.status(204).end();
+  });
+  return r.router;
+}
+

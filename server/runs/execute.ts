@@ -1,0 +1,82 @@
+import { compileRoster, decodeAssignment, explainInfeasible, scoreRoster } from '../../solver/roster';
+import { solveMap } from '../../solver/inference';
+import type { Roster } from '../../shared/roster/schema';
+
+export interface RunProgress {
+  iteration: number;
+  score: number;
+  bound: number;
+  gap: number;
+  elapsedMs: number;
+}
+
+export interface RunOutcome {
+  /** seat id (roster JSON) → person id or null. */
+  assignment: Record<string, string | null>;
+  score: number;
+  bound: number;
+  gap: number;
+  feasible: boolean;
+  optimal: boolean;
+  stopReason: string;
+  method: string;
+  iterations: number;
+  timeMs: number;
+  timeToBestMs: number;
+  /** Independent check of the answer, straight from the roster (solver/roster/score-roster). */
+  check: ReturnType<typeof scoreRoster>;
+  people: ReturnType<typeof decodeAssignment>['people'];
+  openSeats: number;
+}
+
+/** Finite JSON: the database cannot store -Infinity, so "no feasible roster" travels as null. */
+export const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+/**
+ * One solve of a validated roster: infeasibility explained in words up front, then max-product
+ * MAP with progress and cancellation, decoded and re-scored independently.
+ */
+export async function executeRun(
+  roster: Roster,
+  params: { timeLimitSeconds: number; seed: number },
+  onProgress: (p: RunProgress) => void,
+  signal: AbortSignal,
+): Promise<{ ok: true; outcome: RunOutcome } | { ok: false; reasons: string[] }> {
+  if (roster.seats.length === 0) return { ok: false, reasons: ['This roster has no shifts yet: add a shift pattern or a shift first.'] };
+  const reasons = explainInfeasible(roster);
+  if (reasons.length > 0) return { ok: false, reasons };
+  const compiled = compileRoster(roster);
+  const result = await solveMap(
+    compiled.model,
+    {
+      timeLimitMs: params.timeLimitSeconds * 1000,
+      seed: params.seed,
+      progressEveryMs: 250,
+      onProgress: (p) => onProgress({ iteration: p.iteration, score: p.score, bound: p.bound, gap: p.gap, elapsedMs: p.timeMs }),
+    },
+    signal,
+  );
+  if (!result.feasible) {
+    return { ok: false, reasons: ['No roster within the time limit keeps every hard rule. Loosen a hard rule (or make it soft), add people, or remove seats, then try again.'] };
+  }
+  const decoded = decodeAssignment(compiled, result.assignment);
+  return {
+    ok: true,
+    outcome: {
+      assignment: decoded.assignment,
+      score: result.score,
+      bound: result.bound,
+      gap: result.gap,
+      feasible: result.feasible,
+      optimal: result.optimal,
+      stopReason: result.stopReason,
+      method: result.method,
+      iterations: result.iterations,
+      timeMs: result.timeMs,
+      timeToBestMs: result.timeToBestMs,
+      check: scoreRoster(roster, decoded.assignment),
+      people: decoded.people,
+      openSeats: decoded.openSeats.length,
+    },
+  };
+}

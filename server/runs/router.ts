@@ -1,0 +1,94 @@
+import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
+import { validate } from '../http/validate';
+import { HttpError, notFound } from '../http/errors';
+import { idParams } from '../../shared/api/paging';
+import { rosterIdParams, scoreBody, startRunBody } from '../../shared/api/rosters';
+import { explainInfeasible, scoreRoster } from '../../solver/roster';
+import { assembleRoster } from '../rosters/assemble';
+import { rosterIds, parseRosterId } from '../rosters/ids';
+import { AssignmentRow, RunRow } from '../rosters/models';
+import { finite } from './execute';
+
+const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
+
+const toRunDto = (r: RunRow) => ({
+  id: r.id,
+  rosterId: r.rosterId,
+  status: r.status,
+  parameters: r.parameters,
+  progress: r.progress ?? null,
+  score: r.score ?? null,
+  bound: r.bound ?? null,
+  gap: r.gap ?? null,
+  rosterVersion: r.rosterVersion,
+  cancelRequested: r.cancelRequested,
+  startedAt: r.startedAt ?? null,
+  finishedAt: r.finishedAt ?? null,
+  timeMs: r.timeMs ?? null,
+  error: r.error ?? null,
+  createdAt: r.createdAt,
+});
+
+/** Assembles and validates a roster, answering 422 in words when it cannot be solved as it stands. */
+async function solvableRoster(workspaceId: number, rosterId: number) {
+  const { parsed, version } = await assembleRoster(workspaceId, rosterId);
+  if (!parsed.ok) {
+    throw new HttpError(422, 'unprocessable', `The roster has problems to fix first: ${parsed.issues[0].path}: ${parsed.issues[0].message}`, parsed.issues.map((i) => ({ path: `roster.${i.path}`, message: i.message })));
+  }
+  return { roster: parsed.roster, version };
+}
+
+export function runsRouter() {
+  const routes = new ApiRoutes('/rosters');
+  routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), async (req, res) => {
+    const workspaceId = ws(req);
+    const rosterId = Number(req.params.rosterId);
+    const { roster, version } = await solvableRoster(workspaceId, rosterId);
+    if (roster.seats.length === 0) throw new HttpError(422, 'unprocessable', 'This roster has no shifts yet: add a shift pattern or a shift first.', [{ path: 'roster.shifts', message: 'no shifts' }]);
+    const reasons = explainInfeasible(roster);
+    if (reasons.length > 0) throw new HttpError(422, 'unprocessable', reasons.join(' '), reasons.map((message) => ({ path: 'roster', message })));
+    const run = await RunRow.create({ workspaceId, rosterId, parameters: req.body, rosterVersion: version });
+    res.status(202).json(toRunDto(run));
+  });
+  routes.get('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    const rows = await RunRow.findAll({ where: { workspaceId: ws(req), rosterId: Number(req.params.rosterId) }, order: [['id', 'DESC']], limit: 50, attributes: { exclude: ['result'] } });
+    res.json({ items: rows.map(toRunDto) });
+  });
+  routes.post('/:rosterId/score', COORDINATOR_UP, validate({ params: rosterIdParams, body: scoreBody }), async (req, res) => {
+    const { roster } = await solvableRoster(ws(req), Number(req.params.rosterId));
+    const known = new Set(roster.seats.map((s) => s.id));
+    const assignment: Record<string, string | null> = {};
+    for (const [seat, person] of Object.entries(req.body.assignment as Record<string, number | null>)) {
+      const key = rosterIds.seat(Number(seat));
+      if (!known.has(key)) throw new HttpError(422, 'unprocessable', `Seat ${seat} is not part of this roster`, [{ path: `body.assignment.${seat}`, message: 'unknown seat' }]);
+      assignment[key] = person === null ? null : rosterIds.person(person);
+    }
+    const check = scoreRoster(roster, assignment);
+    res.json({
+      total: finite(check.total),
+      feasible: check.feasible,
+      softTotal: check.softTotal,
+      terms: check.terms,
+      hardCounts: check.hardCounts,
+      violations: check.violations.map((v) => ({ ...v, points: finite(v.points), seats: v.seats.map((s) => parseRosterId('st', s)) })),
+    });
+  });
+
+  const runs = new ApiRoutes('/runs');
+  runs.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    const run = await RunRow.findOne({ where: { id: Number(req.params.id), workspaceId: ws(req) } });
+    if (!run) throw notFound('Run');
+    const assignments = run.status === 'done' || run.status === 'cancelled' ? await AssignmentRow.findAll({ where: { runId: run.id }, order: [['seatId', 'ASC']] }) : [];
+    res.json({ ...toRunDto(run), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: a.pinned })) });
+  });
+  runs.post('/:id/cancel', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    const where = { id: Number(req.params.id), workspaceId: ws(req) };
+    const run = await RunRow.findOne({ where });
+    if (!run) throw notFound('Run');
+    if (run.status === 'queued') await RunRow.update({ status: 'cancelled', cancelRequested: true, finishedAt: new Date(), error: 'Cancelled before it started' }, { where });
+    else if (run.status === 'running') await RunRow.update({ cancelRequested: true }, { where });
+    else throw new HttpError(409, 'conflict', `This run has already ${run.status === 'done' ? 'finished' : run.status}`);
+    res.status(202).json(toRunDto((await RunRow.findOne({ where }))!));
+  });
+  return [routes.router, runs.router] as const;
+}

@@ -1,0 +1,108 @@
+import { z } from 'zod';
+import { localDateSchema, localDateTimeSchema, localTimeSchema, ruleSetSchema, timeZoneSchema, weekdaySchema, rosterAssignmentSchema } from '../roster/schema';
+import { daysBetween } from '../roster/time';
+import { listQuerySchema, versionField } from './paging';
+
+const MAX_DAYS = 366;
+
+const periodRefine = <T extends { periodStart?: string; periodEnd?: string }>(v: T, ctx: z.core.$RefinementCtx<T>) => {
+  if (!v.periodStart || !v.periodEnd) return;
+  const days = daysBetween(v.periodStart, v.periodEnd) + 1;
+  if (days < 1) ctx.addIssue({ code: 'custom', path: ['periodEnd'], message: 'The period ends before it starts' });
+  else if (days > MAX_DAYS) ctx.addIssue({ code: 'custom', path: ['periodEnd'], message: `The period is ${days} days; at most ${MAX_DAYS}` });
+};
+
+const rosterFields = {
+  name: z.string().trim().min(1, 'Enter a name').max(120),
+  periodStart: localDateSchema,
+  periodEnd: localDateSchema,
+  timeZone: timeZoneSchema,
+  wishDeadline: z.iso.datetime({ offset: true }).nullable().optional(),
+  maxCannotDays: z.number().int().min(0).max(366).nullable().optional(),
+};
+export const createRosterBody = z.object(rosterFields).superRefine(periodRefine);
+export const updateRosterBody = z
+  .object({ ...rosterFields, version: versionField })
+  .partial()
+  .required({ version: true })
+  .superRefine(periodRefine);
+export const rostersListQuery = listQuerySchema(['periodStart', 'name', 'createdAt'] as const, 'periodStart');
+
+export const rosterIdParams = z.object({ rosterId: z.coerce.number().int().min(1) });
+export const rosterChildParams = z.object({ rosterId: z.coerce.number().int().min(1), id: z.coerce.number().int().min(1) });
+
+const seatSpec = z.object({ skillId: z.number().int().min(1).nullable().default(null), count: z.number().int().min(1).max(100) });
+export const patternBody = z.object({
+  label: z.string().trim().min(1, 'Enter a label').max(60),
+  weekdays: z.array(weekdaySchema).min(1, 'Pick at least one weekday').max(7),
+  startTime: localTimeSchema,
+  endTime: localTimeSchema,
+  seats: z.array(seatSpec).min(1, 'A shift needs at least one seat').max(50),
+  night: z.boolean().nullable().optional(),
+});
+
+export const shiftBody = z
+  .object({
+    label: z.string().trim().min(1).max(60),
+    startsLocal: localDateTimeSchema,
+    endsLocal: localDateTimeSchema,
+    night: z.boolean().nullable().optional(),
+    seats: z.array(z.object({ skillId: z.number().int().min(1).nullable() })).min(1).max(100),
+  })
+  .superRefine((v, ctx) => {
+    if (v.endsLocal <= v.startsLocal) ctx.addIssue({ code: 'custom', path: ['endsLocal'], message: 'The shift ends before it starts' });
+  });
+export const updateShiftBody = z
+  .object({
+    label: z.string().trim().min(1).max(60).optional(),
+    startsLocal: localDateTimeSchema.optional(),
+    endsLocal: localDateTimeSchema.optional(),
+    night: z.boolean().nullable().optional(),
+    seats: z.array(z.object({ skillId: z.number().int().min(1).nullable() })).min(1).max(100).optional(),
+    version: versionField,
+  });
+
+export const wishBody = z
+  .object({
+    personId: z.number().int().min(1),
+    date: localDateSchema.optional(),
+    shiftId: z.number().int().min(1).optional(),
+    kind: z.enum(['prefer', 'avoid', 'cannot']),
+    strength: z.number().min(0).max(1000).default(5),
+    note: z.string().max(500).nullable().optional(),
+  })
+  .superRefine((v, ctx) => {
+    if ((v.date === undefined) === (v.shiftId === undefined)) ctx.addIssue({ code: 'custom', path: ['date'], message: 'Give either a date or a shift' });
+  });
+
+export const pairingBody = z
+  .object({
+    personAId: z.number().int().min(1),
+    personBId: z.number().int().min(1),
+    score: z.number().min(-1000).max(1000).default(0),
+    neverTogether: z.boolean().default(false),
+    reason: z.string().max(500).nullable().optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.personAId === v.personBId) ctx.addIssue({ code: 'custom', path: ['personBId'], message: 'A person cannot be paired with themself' });
+  });
+export const updatePairingBody = z.object({
+  score: z.number().min(-1000).max(1000).optional(),
+  neverTogether: z.boolean().optional(),
+  status: z.enum(['approved', 'requested', 'declined']).optional(),
+  version: versionField,
+});
+
+export const rulesBody = z.object({ rules: ruleSetSchema, version: versionField });
+
+export const pinBody = z.object({ seatId: z.number().int().min(1), personId: z.number().int().min(1).nullable() });
+
+export const startRunBody = z.object({
+  timeLimitSeconds: z.number().min(0.5).max(600).default(10),
+  seed: z.number().int().min(0).max(2 ** 31).default(1),
+});
+
+/** A hand-edited roster: seat id → person id (null = open). */
+export const scoreBody = z.object({ assignment: z.record(z.string().regex(/^\d+$/, 'seat ids are numbers'), z.number().int().min(1).nullable()) });
+
+export { rosterAssignmentSchema };
