@@ -92,29 +92,30 @@ export function contractedTarget(person: Person, totalDays: number): number | un
 }
 
 /**
- * Fair share of a kind of shift (nights or weekends) per person: the number of such seats,
- * split among the people who could take at least one of them (skill only), in proportion to
- * contracted hours (people without a contract weigh as the mean contract, or 1 if nobody has
- * one), rounded up. Returns person index → share; people who could take none are absent.
+ * Fair share of a kind of shift (nights or weekends) per person: each such seat is split
+ * among the people who could take it by skill, in proportion to contracted hours (people
+ * without a contract weigh as the mean contract, or 1 if nobody has one); a person's share
+ * is the sum of their parts, rounded up. Splitting seat by seat keeps the share honest when
+ * only a few people hold a skill (three night leads share the night-lead seats between them).
+ * Returns person index → share; people who could take none are absent.
  */
 export function fairShares(roster: Roster, facts: ShiftFacts[], pick: (f: ShiftFacts) => boolean): Map<number, number> {
   const shiftIndex = new Map(roster.shifts.map((s, i) => [s.id, i]));
-  const seats = roster.seats.filter((seat) => pick(facts[shiftIndex.get(seat.shift)!]));
-  const eligible: number[] = [];
-  roster.people.forEach((p, i) => {
-    if (seats.some((seat) => seat.skill === null || p.skills.includes(seat.skill))) eligible.push(i);
-  });
-  const out = new Map<number, number>();
-  if (seats.length === 0 || eligible.length === 0) return out;
-  const contracts = eligible.map((i) => roster.people[i].contractedHoursPerWeek).filter((c): c is number => c !== undefined);
+  const contracts = roster.people.map((p) => p.contractedHoursPerWeek).filter((c): c is number => c !== undefined);
   const mean = contracts.length ? contracts.reduce((a, b) => a + b, 0) / contracts.length : 1;
-  const weights = eligible.map((i) => roster.people[i].contractedHoursPerWeek ?? mean);
-  const sum = weights.reduce((a, b) => a + b, 0);
-  eligible.forEach((i, k) => {
-    // Tiny epsilon so that an exact 3.0000000001 from float division is not rounded up to 4.
-    const share = sum > 0 ? (seats.length * weights[k]) / sum : seats.length / eligible.length;
-    out.set(i, Math.ceil(share - 1e-9));
-  });
+  const weight = roster.people.map((p) => p.contractedHoursPerWeek ?? mean);
+  // seats of the kind, counted by required skill (null = anyone)
+  const bySkill = new Map<string | null, number>();
+  for (const seat of roster.seats) if (pick(facts[shiftIndex.get(seat.shift)!])) bySkill.set(seat.skill, (bySkill.get(seat.skill) ?? 0) + 1);
+  const share = new Map<number, number>();
+  for (const [skill, count] of bySkill) {
+    const holders = roster.people.map((_, i) => i).filter((i) => skill === null || roster.people[i].skills.includes(skill));
+    const total = holders.reduce((m, i) => m + weight[i], 0);
+    for (const i of holders) share.set(i, (share.get(i) ?? 0) + (total > 0 ? (count * weight[i]) / total : count / holders.length));
+  }
+  const out = new Map<number, number>();
+  // tiny epsilon so that 3.0000000001 from float division is not rounded up to 4
+  for (const [i, v] of share) out.set(i, Math.ceil(v - 1e-9));
   return out;
 }
 
