@@ -18,7 +18,7 @@ async function main(): Promise<void> {
   ensureDebianPackages(MARIADB);
   const [db, web] = await Promise.all([
     startMariaDb({ dataDir: path.join(env.dataDir, 'mariadb'), port: env.db.port }),
-    buildWebIfChanged(rootDir),
+    buildWebIfChanged(rootDir, env.webDir),
   ]);
   log(`web app ${web}`);
   const cleanups: Array<() => Promise<unknown>> = [() => db.stop()];

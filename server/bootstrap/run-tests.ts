@@ -68,7 +68,8 @@ async function main(): Promise<number> {
   try {
     const [db] = await Promise.all([
       startMariaDb({ dataDir: path.join(tmp, 'mariadb'), port, log: (l) => log(`mariadb: ${l}`) }),
-      wants('e2e') ? buildWebIfChanged(rootDir).then((r) => log(`web app ${r}`)) : Promise.resolve(),
+      // ROTALOOM_WEB_DIR lets two checkouts' test runs build side by side without sharing dist/.
+      wants('e2e') ? buildWebIfChanged(rootDir, readEnv(process.env).webDir).then((r) => log(`web app ${r}`)) : Promise.resolve(),
     ]);
     cleanups.push(() => db.stop());
     const childEnv: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', ROTALOOM_TEST_DB: '1', ROTALOOM_DB_PORT: String(port), ROTALOOM_DB_HOST: '127.0.0.1' };

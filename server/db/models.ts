@@ -104,7 +104,7 @@ export function initModels(sequelize: Sequelize): void {
           return typeof raw === 'string' ? JSON.parse(raw) : raw;
         },
       },
-      version: DataTypes.INTEGER.UNSIGNED,
+      version: { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 },
       ...timestamps,
     },
     { sequelize, tableName: 'people', underscored: true },

@@ -139,6 +139,8 @@ export class AssignmentRow extends Model<Attrs<AssignmentRow>, Creation<Assignme
 
 const pk = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
 const int = DataTypes.INTEGER.UNSIGNED;
+// Defaults repeated from the migration so a freshly created instance carries them without a reload.
+const version = { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 };
 const common = { id: pk, workspaceId: int, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
 const opts = (sequelize: Sequelize, tableName: string) => ({ sequelize, tableName, underscored: true });
 /** The driver hands JSON columns back as strings on MariaDB (JSON is LONGTEXT there). */
@@ -158,31 +160,31 @@ export function initRosterModels(sequelize: Sequelize): void {
       periodStart: DataTypes.DATEONLY,
       periodEnd: DataTypes.DATEONLY,
       timeZone: DataTypes.STRING(64),
-      status: DataTypes.ENUM('draft', 'solved', 'published'),
+      status: { type: DataTypes.ENUM('draft', 'solved', 'published'), defaultValue: 'draft' },
       rules: json('rules'),
       wishDeadline: DataTypes.DATE,
       maxCannotDays: int,
       publishedRunId: int,
       publishedAt: DataTypes.DATE,
-      version: int,
+      version,
     },
     opts(sequelize, 'rosters'),
   );
   ShiftPatternRow.init(
-    { ...common, rosterId: int, label: DataTypes.STRING(60), weekdays: json('weekdays'), startTime: DataTypes.STRING(5), endTime: DataTypes.STRING(5), seats: json('seats'), night: DataTypes.BOOLEAN, version: int },
+    { ...common, rosterId: int, label: DataTypes.STRING(60), weekdays: json('weekdays'), startTime: DataTypes.STRING(5), endTime: DataTypes.STRING(5), seats: json('seats'), night: DataTypes.BOOLEAN, version },
     opts(sequelize, 'shift_patterns'),
   );
   ShiftRow.init(
-    { ...common, rosterId: int, patternId: int, label: DataTypes.STRING(60), startsLocal: DataTypes.STRING(19), endsLocal: DataTypes.STRING(19), night: DataTypes.BOOLEAN, version: int },
+    { ...common, rosterId: int, patternId: int, label: DataTypes.STRING(60), startsLocal: DataTypes.STRING(19), endsLocal: DataTypes.STRING(19), night: DataTypes.BOOLEAN, version },
     opts(sequelize, 'shifts'),
   );
   SeatRow.init({ ...common, shiftId: int, skillId: int, position: int }, opts(sequelize, 'seats'));
   WishRow.init(
-    { ...common, rosterId: int, personId: int, date: DataTypes.DATEONLY, shiftId: int, kind: DataTypes.ENUM('prefer', 'avoid', 'cannot'), strength: DataTypes.DOUBLE, note: DataTypes.STRING(500) },
+    { ...common, rosterId: int, personId: int, date: DataTypes.DATEONLY, shiftId: int, kind: DataTypes.ENUM('prefer', 'avoid', 'cannot'), strength: { type: DataTypes.DOUBLE, defaultValue: 1 }, note: DataTypes.STRING(500) },
     opts(sequelize, 'wishes'),
   );
   PairingRow.init(
-    { ...common, personAId: int, personBId: int, score: DataTypes.DOUBLE, neverTogether: DataTypes.BOOLEAN, status: DataTypes.ENUM('approved', 'requested', 'declined'), reason: DataTypes.STRING(500), version: int },
+    { ...common, personAId: int, personBId: int, score: DataTypes.DOUBLE, neverTogether: { type: DataTypes.BOOLEAN, defaultValue: false }, status: { type: DataTypes.ENUM('approved', 'requested', 'declined'), defaultValue: 'approved' }, reason: DataTypes.STRING(500), version },
     opts(sequelize, 'pairings'),
   );
   PinRow.init({ ...common, rosterId: int, seatId: int, personId: int }, opts(sequelize, 'pins'));
@@ -190,14 +192,14 @@ export function initRosterModels(sequelize: Sequelize): void {
     {
       ...common,
       rosterId: int,
-      status: DataTypes.ENUM('queued', 'running', 'done', 'failed', 'cancelled'),
+      status: { type: DataTypes.ENUM('queued', 'running', 'done', 'failed', 'cancelled'), defaultValue: 'queued' },
       parameters: json('parameters'),
       progress: json('progress'),
       score: DataTypes.DOUBLE,
       bound: DataTypes.DOUBLE,
       gap: DataTypes.DOUBLE,
       rosterVersion: int,
-      cancelRequested: DataTypes.BOOLEAN,
+      cancelRequested: { type: DataTypes.BOOLEAN, defaultValue: false },
       claimedBy: DataTypes.STRING(80),
       heartbeatAt: DataTypes.DATE,
       startedAt: DataTypes.DATE,
@@ -208,5 +210,5 @@ export function initRosterModels(sequelize: Sequelize): void {
     },
     opts(sequelize, 'runs'),
   );
-  AssignmentRow.init({ ...common, runId: int, seatId: int, personId: int, pinned: DataTypes.BOOLEAN }, opts(sequelize, 'assignments'));
+  AssignmentRow.init({ ...common, runId: int, seatId: int, personId: int, pinned: { type: DataTypes.BOOLEAN, defaultValue: false } }, opts(sequelize, 'assignments'));
 }

@@ -47,7 +47,7 @@ export function runsRouter() {
     if (roster.seats.length === 0) throw new HttpError(422, 'unprocessable', 'This roster has no shifts yet: add a shift pattern or a shift first.', [{ path: 'roster.shifts', message: 'no shifts' }]);
     const reasons = explainInfeasible(roster);
     if (reasons.length > 0) throw new HttpError(422, 'unprocessable', reasons.join(' '), reasons.map((message) => ({ path: 'roster', message })));
-    const run = await RunRow.create({ workspaceId, rosterId, parameters: req.body, rosterVersion: version });
+    const run = await RunRow.create({ workspaceId, rosterId, parameters: req.body, rosterVersion: version, status: 'queued', cancelRequested: false });
     res.status(202).json(toRunDto(run));
   });
   routes.get('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
