@@ -43,15 +43,12 @@ export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Arra
   for (let c = 0; c < E.ops.length; c++) opSum += st.opConst[c]!;
 
   const reparamTerm = (c: number): number => {
-    const op = E.ops[c]!;
+    const op = E.ops[c]!, m = st.msg[c]!;
     let r = op.score(x);
     for (let s = 0; s < op.vars.length; s++) {
-      const sup = op.support[s], m = st.msg[c]![s]!, v = x[op.vars[s]!]!;
-      if (!sup) r -= m[v]!;
-      else {
-        const k = sup.indexOf(v);
-        if (k >= 0) r -= m[k]!;
-      }
+      const v = x[op.vars[s]!]!;
+      if (!op.sup) r -= m[op.off[s]! + v]!;
+      else for (let k = op.off[s]!; k < op.off[s + 1]!; k++) if (op.sup[k] === v) r -= m[k]!;
     }
     return r;
   };

@@ -9,7 +9,7 @@
  */
 import { countingMaxSum, countingScoreAt, keyOf, scopeOf, validateModel } from '../model/factor-graph';
 import type { Factor, Model } from '../model/types';
-import { CountingOp, NEG, PairwiseOp, PottsOp, SparseOp, TableOp, type KeyInfo, type Op, type Scratch } from './ops';
+import { AtMostOneOp, CountingOp, NEG, PairwiseOp, PottsOp, SparseOp, TableOp, type KeyInfo, type Op, type Scratch } from './ops';
 
 export interface Engine {
   model: Model;
@@ -99,11 +99,13 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
   // dense key groups: 0 = no key; keys k >= 0 map to 1..P
   const keyMap = new Map<number, number>();
   const group: Int32Array[] = [];
-  const valuesOfGroup: Map<number, Int32Array>[] = [];
+  const firstOfGroup: Map<number, number>[] = [];
+  const nextSame: Int32Array[] = [];
   for (const v of model.variables) {
     const g = new Int32Array(v.cardinality);
-    const byG = new Map<number, number[]>();
-    for (let x = 0; x < v.cardinality; x++) {
+    const first = new Map<number, number>();
+    const next = new Int32Array(v.cardinality).fill(-1);
+    for (let x = v.cardinality - 1; x >= 0; x--) {
       const k = keyOf(v, x);
       let gi = 0;
       if (k >= 0) {
@@ -114,17 +116,18 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
         }
       }
       g[x] = gi;
-      if (!byG.has(gi)) byG.set(gi, []);
-      byG.get(gi)!.push(x);
+      const f = first.get(gi);
+      if (f !== undefined) next[x] = f;
+      first.set(gi, x);
     }
     group.push(g);
-    valuesOfGroup.push(new Map([...byG].map(([k, xs]) => [k, Int32Array.from(xs)])));
+    firstOfGroup.push(first);
+    nextSame.push(next);
   }
   const numGroups = keyMap.size + 1;
-  const keys: KeyInfo = { group, valuesOfGroup, numGroups };
+  const keys: KeyInfo = { group, firstOfGroup, nextSame, numGroups };
   const scratch: Scratch = {
     groupA: new Float64Array(numGroups),
-    groupB: new Float64Array(numGroups),
     stamp: new Int32Array(numGroups),
     stampNow: { v: 0 },
     dp: new Float64Array(1024),
@@ -133,22 +136,51 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
 
   const theta = model.variables.map((v) => new Float64Array(v.cardinality));
   const ops: Op[] = [];
-  const countingOp = (fi: number, vars: number[], weights: Array<Array<[number, number]>>, table: number[]): CountingOp => {
-    const support: Int32Array[] = [];
-    const wts: Int32Array[] = [];
-    weights.forEach((ws) => {
+  const countingOp = (fi: number, vars: number[], weights: Array<Array<[number, number]>>, table: number[]): CountingOp | null => {
+    const vs: number[] = [], off: number[] = [0], sup: number[] = [], wts: number[] = [];
+    weights.forEach((ws, j) => {
       const m = new Map<number, number>();
       for (const [x, w] of ws) if (w > 0) m.set(x, (m.get(x) ?? 0) + w);
+      if (m.size === 0) return; // weighs 0 whatever its value: not part of the sum
       const xs = [...m.keys()].sort((a, b) => a - b);
-      support.push(Int32Array.from(xs));
-      wts.push(Int32Array.from(xs.map((x) => m.get(x)!)));
+      vs.push(vars[j]!);
+      for (const x of xs) {
+        sup.push(x);
+        wts.push(m.get(x)!);
+      }
+      off.push(sup.length);
     });
     // clamp sums where the score stays constant from there on
     let S = table.length - 1;
     while (S > 0 && table[S - 1] === table[S]) S--;
     const g = bmt(table.slice(0, S + 1));
-    return new CountingOp(fi, vars, support, wts, Int32Array.from(vars.map((v) => card[v]!)), g, scratch);
+    if (vs.length === 0) {
+      constant += g[0]!;
+      return null;
+    }
+    const op = new CountingOp(fi, vs, off, sup, wts, card, g, scratch);
+    op.H = H;
+    if (g.some((_, t) => table[t] === NEG)) {
+      // distance of each forbidden sum to the nearest allowed one
+      const lt = Float64Array.from(g);
+      const dist = new Float64Array(S + 1).fill(Infinity);
+      let last = -Infinity;
+      for (let t = 0; t <= S; t++) {
+        if (table[t] !== NEG) last = t;
+        dist[t] = t - last;
+      }
+      last = Infinity;
+      for (let t = S; t >= 0; t--) {
+        if (table[t] !== NEG) last = t;
+        dist[t] = Math.min(dist[t]!, last - t);
+      }
+      for (let t = 0; t <= S; t++) if (table[t] === NEG) lt[t] = -H * (1 + (Number.isFinite(dist[t]!) ? dist[t]! : S + 1));
+      op.localTable = lt;
+      op.tailHard = table[S] === NEG;
+    }
+    return op;
   };
+  let constant = model.constant ?? 0;
 
   model.factors.forEach((f, fi) => {
     switch (f.kind) {
@@ -193,33 +225,47 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
         if (f.vars.length === 2) ops.push(new PottsOp(fi, f.vars[0]!, f.vars[1]!, bm(p), keys, scratch));
         else if (f.vars.length > 2) {
           // one counting constraint per key: "at most one holder" (or penalty per colliding pair)
-          const holders = new Map<number, Array<[number, number[]]>>();
+          const holders = new Map<number, { vars: number[]; off: number[]; sup: number[] }>();
           for (const v of f.vars) {
-            for (const [g, xs] of valuesOfGroup[v]!) {
-              if (g === 0) continue;
-              if (!holders.has(g)) holders.set(g, []);
-              holders.get(g)!.push([v, Array.from(xs)]);
+            const g = group[v]!;
+            for (let x = 0; x < g.length; x++) {
+              const gi = g[x]!;
+              if (gi === 0) continue;
+              let h = holders.get(gi);
+              if (!h) holders.set(gi, (h = { vars: [], off: [0], sup: [] }));
+              if (h.vars[h.vars.length - 1] !== v) {
+                h.vars.push(v);
+                h.off.push(h.sup.length);
+              }
+              h.sup.push(x);
+              h.off[h.off.length - 1] = h.sup.length;
             }
           }
-          for (const [, hs] of holders) {
-            if (hs.length < 2) continue;
+          for (const [, h] of holders) {
+            if (h.vars.length < 2) continue;
+            if (p === NEG) {
+              ops.push(new AtMostOneOp(fi, h.vars, h.off, h.sup, card, H));
+              continue;
+            }
             const table: number[] = [];
-            for (let c = 0; c <= hs.length; c++) table.push(p === NEG ? (c <= 1 ? 0 : NEG) : (p * c * (c - 1)) / 2);
-            ops.push(countingOp(fi, hs.map((h) => h[0]), hs.map((h) => h[1].map((x) => [x, 1] as [number, number])), table));
+            for (let c = 0; c <= h.vars.length; c++) table.push((p * c * (c - 1)) / 2);
+            let S = table.length - 1;
+            const op = new CountingOp(fi, h.vars, h.off, h.sup, h.sup.map(() => 1), card, bmt(table.slice(0, S + 1)), scratch);
+            ops.push(op);
           }
         }
         break;
       }
       case 'counting':
-        if (f.vars.length === 0) break;
-        ops.push(countingOp(fi, f.vars, f.weights, countingTable(f)));
+        {
+          const op = countingOp(fi, f.vars, f.weights, countingTable(f));
+          if (op) ops.push(op);
+        }
         break;
     }
   });
-  let constant = model.constant ?? 0;
   model.factors.forEach((f) => {
     if (f.kind === 'table' && f.vars.length === 0) constant += bm(f.table[0]!);
-    if (f.kind === 'counting' && f.vars.length === 0) constant += bm(countingScoreAt(f, 0));
   });
   const adj: Array<Array<[number, number]>> = model.variables.map(() => []);
   ops.forEach((op, oi) => op.vars.forEach((v, s) => adj[v]!.push([oi, s])));
@@ -262,95 +308,171 @@ export function isForest(E: Engine): boolean {
   return true;
 }
 
-/** Message state: one message per (operator, slot) and the variable beliefs b_i = θ_i + Σ messages. */
+/** Message state: one flat message array per operator and the variable beliefs b_i = θ_i + Σ messages. */
 export interface MessageState {
-  msg: Float64Array[][];
+  msg: Float64Array[];
   belief: Float64Array[];
   /** Per operator constant kept out of compact messages (dual bound bookkeeping). */
   opConst: Float64Array;
+  /** Cached best states of each belief, so compact slots find their rest maximum in O(1). */
+  tops: BeliefTops;
 }
 
 export function newMessageState(E: Engine): MessageState {
-  const msg = E.ops.map((op) => Array.from(op.vars, (v, s) => new Float64Array(op.support[s] ? op.support[s]!.length : E.card[v]!)));
+  const msg = E.ops.map((op) => new Float64Array(op.off[op.vars.length]!));
   const belief = E.theta.map((t) => Float64Array.from(t));
-  return { msg, belief, opConst: new Float64Array(E.ops.length) };
+  return { msg, belief, opConst: new Float64Array(E.ops.length), tops: new BeliefTops(belief) };
+}
+
+const TOP = 4;
+
+/**
+ * The TOP best states of each belief, kept under point updates (compact operators
+ * change one or two states at a time); invalidated by dense updates and decreases
+ * of a listed state, then rebuilt lazily by one scan.
+ */
+export class BeliefTops {
+  idx: Int32Array;
+  val: Float64Array;
+  len: Uint8Array;
+  valid: Uint8Array;
+  constructor(private belief: Float64Array[]) {
+    const n = belief.length;
+    this.idx = new Int32Array(n * TOP);
+    this.val = new Float64Array(n * TOP);
+    this.len = new Uint8Array(n);
+    this.valid = new Uint8Array(n);
+  }
+  private rebuild(i: number): void {
+    const b = this.belief[i]!, o = i * TOP;
+    let len = 0;
+    for (let x = 0; x < b.length; x++) {
+      const v = b[x]!;
+      if (len === TOP && v <= this.val[o + TOP - 1]!) continue;
+      let p = len < TOP ? len++ : TOP - 1;
+      while (p > 0 && this.val[o + p - 1]! < v) {
+        this.val[o + p] = this.val[o + p - 1]!;
+        this.idx[o + p] = this.idx[o + p - 1]!;
+        p--;
+      }
+      this.val[o + p] = v;
+      this.idx[o + p] = x;
+    }
+    this.len[i] = len;
+    this.valid[i] = 1;
+  }
+  /** Belief of state x of variable i changed to v. */
+  point(i: number, x: number, v: number): void {
+    if (!this.valid[i]) return;
+    const o = i * TOP, len = this.len[i]!;
+    let p = -1;
+    for (let k = 0; k < len; k++) if (this.idx[o + k] === x) p = k;
+    if (p >= 0) {
+      if (v < this.val[o + p]! && p < len - 1 && v < this.val[o + p + 1]!) {
+        this.valid[i] = 0;
+        return;
+      }
+      if (v < this.val[o + p]! && p === len - 1 && len === TOP) {
+        this.valid[i] = 0;
+        return;
+      }
+      this.val[o + p] = v;
+      while (p > 0 && this.val[o + p - 1]! < v) {
+        this.val[o + p] = this.val[o + p - 1]!;
+        this.idx[o + p] = this.idx[o + p - 1]!;
+        this.val[o + p - 1] = v;
+        this.idx[o + p - 1] = x;
+        p--;
+      }
+      return;
+    }
+    if (len < TOP) {
+      // fewer states than TOP are all listed already
+      this.valid[i] = 0;
+      return;
+    }
+    if (v <= this.val[o + TOP - 1]!) return;
+    let q = TOP - 1;
+    while (q > 0 && this.val[o + q - 1]! < v) {
+      this.val[o + q] = this.val[o + q - 1]!;
+      this.idx[o + q] = this.idx[o + q - 1]!;
+      q--;
+    }
+    this.val[o + q] = v;
+    this.idx[o + q] = x;
+  }
+  dirty(i: number): void {
+    this.valid[i] = 0;
+  }
+  /** max of belief i over states not in the sorted list sup[from..to). */
+  restMax(i: number, sup: Int32Array, from: number, to: number): number {
+    if (!this.valid[i]) this.rebuild(i);
+    const o = i * TOP, len = this.len[i]!;
+    for (let k = 0; k < len; k++) {
+      const x = this.idx[o + k]!;
+      let inSup = false;
+      for (let q = from; q < to; q++) if (sup[q] === x) inSup = true;
+      if (!inSup) return this.val[o + k]!;
+    }
+    return restReduce(this.belief[i]!, sup, from, to, false);
+  }
 }
 
 /** Reusable buffers for one operator update. */
 export class OpBuffers {
-  inc: Float64Array[] = [];
-  out: Float64Array[] = [];
-  incRest = new Float64Array(0);
-  outRest = new Float64Array(0);
-  private pool = new Map<number, Float64Array[]>();
-  prepare(E: Engine, op: Op): void {
-    const n = op.vars.length;
+  inc = new Float64Array(64);
+  out = new Float64Array(64);
+  incRest = new Float64Array(8);
+  outRest = new Float64Array(8);
+  prepare(op: Op): void {
+    const n = op.vars.length, len = op.off[n]!;
+    if (this.inc.length < len) {
+      this.inc = new Float64Array(len * 2);
+      this.out = new Float64Array(len * 2);
+    }
     if (this.incRest.length < n) {
       this.incRest = new Float64Array(n * 2);
       this.outRest = new Float64Array(n * 2);
-    }
-    this.inc.length = n;
-    this.out.length = n;
-    const used = new Map<number, number>();
-    for (let s = 0; s < n; s++) {
-      const len = op.support[s] ? op.support[s]!.length : E.card[op.vars[s]!]!;
-      const k = used.get(len) ?? 0;
-      used.set(len, k + 2);
-      let arr = this.pool.get(len);
-      if (!arr) this.pool.set(len, (arr = []));
-      while (arr.length < k + 2) arr.push(new Float64Array(len));
-      this.inc[s] = arr[k]!;
-      this.out[s] = arr[k + 1]!;
     }
   }
 }
 
 /**
- * Fill buffers with incoming messages inc_s = b_i - m_{c→i} (in the operator's slot shape).
+ * Fill buffers with incoming messages inc = b_i - m_{c→i} (in the operator's layout);
  * incRest = max (or log-sum-exp) of b_i over states outside a compact support.
  */
 export function gatherIncoming(E: Engine, st: MessageState, oi: number, buf: OpBuffers, sum: boolean): void {
   const op = E.ops[oi]!;
-  buf.prepare(E, op);
-  const msgs = st.msg[oi]!;
+  buf.prepare(op);
+  const m = st.msg[oi]!, inc = buf.inc, off = op.off, sup = op.sup;
   for (let s = 0; s < op.vars.length; s++) {
-    const b = st.belief[op.vars[s]!]!, m = msgs[s]!, inc = buf.inc[s]!;
-    const sup = op.support[s];
+    const b = st.belief[op.vars[s]!]!;
+    const o = off[s]!;
     if (!sup) {
-      for (let x = 0; x < b.length; x++) inc[x] = b[x]! - m[x]!;
+      for (let x = 0; x < b.length; x++) inc[o + x] = b[x]! - m[o + x]!;
       continue;
     }
-    for (let k = 0; k < sup.length; k++) inc[k] = b[sup[k]!]! - m[k]!;
-    buf.incRest[s] = restReduce(b, sup, sum);
+    const e = off[s + 1]!;
+    for (let k = o; k < e; k++) inc[k] = b[sup[k]!]! - m[k]!;
+    buf.incRest[s] = op.restCount![s]! > 0 ? (sum ? restReduce(b, sup, o, e, true) : st.tops.restMax(op.vars[s]!, sup, o, e)) : NEG;
   }
 }
 
-/** max or log-sum-exp of v over indices not in the sorted list sup. */
-export function restReduce(v: Float64Array, sup: Int32Array, sum: boolean): number {
-  let acc = NEG, k = 0;
-  if (!sum) {
-    for (let x = 0; x < v.length; x++) {
-      if (k < sup.length && sup[k] === x) {
-        k++;
-        continue;
-      }
-      if (v[x]! > acc) acc = v[x]!;
-    }
-    return acc;
-  }
-  let m = NEG;
+/** max or log-sum-exp of v over indices not in the sorted list sup[from..to). */
+export function restReduce(v: Float64Array, sup: Int32Array, from: number, to: number, sum: boolean): number {
+  let m = NEG, k = from;
   for (let x = 0; x < v.length; x++) {
-    if (k < sup.length && sup[k] === x) {
+    if (k < to && sup[k] === x) {
       k++;
       continue;
     }
     if (v[x]! > m) m = v[x]!;
   }
-  if (m === NEG) return NEG;
-  k = 0;
+  if (!sum || m === NEG) return m;
+  k = from;
   let s = 0;
   for (let x = 0; x < v.length; x++) {
-    if (k < sup.length && sup[k] === x) {
+    if (k < to && sup[k] === x) {
       k++;
       continue;
     }
@@ -359,14 +481,24 @@ export function restReduce(v: Float64Array, sup: Int32Array, sum: boolean): numb
   return m + Math.log(s);
 }
 
-/** Replace message (oi, s) by nm (same shape) and update the belief of its variable. */
-export function setMessage(E: Engine, st: MessageState, oi: number, s: number, nm: Float64Array): void {
+/** Replace slot s of operator oi's message by nm[off[s]..off[s+1]) and update the variable's belief. */
+export function setSlot(E: Engine, st: MessageState, oi: number, s: number, nm: Float64Array): void {
   const op = E.ops[oi]!;
-  const m = st.msg[oi]![s]!, b = st.belief[op.vars[s]!]!;
-  const sup = op.support[s];
-  if (!sup) for (let x = 0; x < m.length; x++) b[x]! += nm[x]! - m[x]!;
-  else for (let k = 0; k < sup.length; k++) b[sup[k]!]! += nm[k]! - m[k]!;
-  m.set(nm);
+  const i = op.vars[s]!, m = st.msg[oi]!, b = st.belief[i]!;
+  const o = op.off[s]!, e = op.off[s + 1]!, sup = op.sup;
+  if (!sup) {
+    for (let k = o; k < e; k++) {
+      b[k - o]! += nm[k]! - m[k]!;
+      m[k] = nm[k]!;
+    }
+    st.tops.dirty(i);
+  } else
+    for (let k = o; k < e; k++) {
+      const x = sup[k]!;
+      b[x]! += nm[k]! - m[k]!;
+      m[k] = nm[k]!;
+      st.tops.point(i, x, b[x]!);
+    }
 }
 
 /** Argmax of each belief (lowest index on ties). */

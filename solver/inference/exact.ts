@@ -91,15 +91,14 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
   for (const r of roots) x[r] = argmax(st.belief[r]!);
   const buf = new OpBuffers();
   const clamp = (oi: number, s: number, v: number): void => {
-    const op = E.ops[oi]!, inc = buf.inc[s]!, sup = op.support[s];
-    inc.fill(NEG);
-    if (!sup) inc[v] = 0;
+    const op = E.ops[oi]!, inc = buf.inc, sup = op.sup;
+    const o = op.off[s]!, e = op.off[s + 1]!;
+    inc.fill(NEG, o, e);
+    if (!sup) inc[o + v] = 0;
     else {
-      const k = sup.indexOf(v);
-      if (k >= 0) {
-        inc[k] = 0;
-        buf.incRest[s] = NEG;
-      } else buf.incRest[s] = 0;
+      let hit = false;
+      for (let k = o; k < e; k++) if (sup[k] === v) (inc[k] = 0), (hit = true);
+      buf.incRest[s] = hit ? NEG : 0;
     }
   };
   for (const oi of order) {
@@ -112,24 +111,24 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
       if (s === ps) continue;
       const j = op.vars[s]!;
       op.message('max', buf.inc, buf.incRest, buf.out, buf.outRest);
-      const inc = buf.inc[s]!, out = buf.out[s]!, sup = op.support[s];
+      const inc = buf.inc, out = buf.out, sup = op.sup, o = op.off[s]!, e = op.off[s + 1]!;
       let bestV = -1, bestS = NEG;
       if (!sup) {
-        for (let v = 0; v < out.length; v++) if (inc[v]! + out[v]! > bestS) (bestS = inc[v]! + out[v]!), (bestV = v);
+        for (let k = o; k < e; k++) if (inc[k]! + out[k]! > bestS) (bestS = inc[k]! + out[k]!), (bestV = k - o);
       } else {
-        for (let k = 0; k < sup.length; k++) if (inc[k]! + out[k]! > bestS) (bestS = inc[k]! + out[k]!), (bestV = sup[k]!);
-        if (op.restCount[s]! > 0) {
+        for (let k = o; k < e; k++) if (inc[k]! + out[k]! > bestS) (bestS = inc[k]! + out[k]!), (bestV = sup[k]!);
+        if (op.restCount![s]! > 0 && buf.incRest[s]! + buf.outRest[s]! > bestS) {
           // best state outside the support, by its own subtree belief
           const b = st.belief[j]!;
           let u = -1;
-          for (let v = 0, k = 0; v < b.length; v++) {
-            if (k < sup.length && sup[k] === v) {
+          for (let v = 0, k = o; v < b.length; v++) {
+            if (k < e && sup[k] === v) {
               k++;
               continue;
             }
             if (u < 0 || b[v]! > b[u]!) u = v;
           }
-          if (u >= 0 && buf.incRest[s]! + buf.outRest[s]! > bestS) bestV = u;
+          bestV = u;
         }
       }
       x[j] = bestV < 0 ? 0 : bestV;

@@ -7,7 +7,7 @@
  */
 import type { Engine } from './engine';
 import { engineScore } from './engine';
-import { CountingOp } from './ops';
+import { CompactOp } from './ops';
 
 /** Small deterministic PRNG (mulberry32). */
 export function rng(seed: number): () => number {
@@ -48,23 +48,13 @@ export class LocalSearch {
     this.acc = new Float64Array(maxK);
     this.acc2 = new Float64Array(maxK);
     this.sums = new Float64Array(E.ops.length);
-    this.counting = E.ops.map((op) => op instanceof CountingOp);
+    this.counting = E.ops.map((op) => op instanceof CompactOp);
     for (let i = 0; i < E.n; i++) this.hold(i, this.x[i]!, true);
     E.ops.forEach((op, oi) => {
-      if (op instanceof CountingOp) this.sums[oi] = this.countSum(op, -1);
+      if (op instanceof CompactOp) this.sums[oi] = op.sumOf(this.x, -1);
     });
   }
 
-  private countSum(op: CountingOp, skip: number): number {
-    let s = 0;
-    for (let j = 0; j < op.vars.length; j++) if (j !== skip) s += this.weightOf(op, j, this.x[op.vars[j]!]!);
-    return s;
-  }
-  private weightOf(op: CountingOp, slot: number, v: number): number {
-    const sup = op.support[slot]!;
-    for (let k = 0; k < sup.length; k++) if (sup[k] === v) return op.wts[slot]![k]!;
-    return 0;
-  }
   private hold(i: number, v: number, add: boolean): void {
     const g = this.E.keys.group[i]![v]!;
     if (g === 0) return;
@@ -81,15 +71,8 @@ export class LocalSearch {
     for (const [oi, s] of E.adj[i]!) {
       const op = E.ops[oi]!;
       if (this.counting[oi]) {
-        const c = op as CountingOp;
-        const s0 = this.sums[oi]! - this.weightOf(c, s, this.x[i]!);
-        const S = c.S, g = c.g;
-        const base = g[s0 > S ? S : s0]!;
-        const sup = c.support[s]!, w = c.wts[s]!;
-        for (let k = 0; k < sup.length; k++) {
-          const t = s0 + w[k]!;
-          acc[sup[k]!]! += g[t > S ? S : t]! - base;
-        }
+        const c = op as CompactOp;
+        c.condFromSum(s, this.sums[oi]! - c.weightAt(s, this.x[i]!), acc);
       } else op.cond(s, this.x, acc);
     }
   }
@@ -99,8 +82,8 @@ export class LocalSearch {
     if (old === v) return;
     for (const [oi, s] of this.E.adj[i]!) {
       if (this.counting[oi]) {
-        const c = this.E.ops[oi] as CountingOp;
-        this.sums[oi]! += this.weightOf(c, s, v) - this.weightOf(c, s, old);
+        const c = this.E.ops[oi] as CompactOp;
+        this.sums[oi]! += c.weightAt(s, v) - c.weightAt(s, old);
       }
     }
     this.hold(i, old, false);

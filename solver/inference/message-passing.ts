@@ -3,8 +3,8 @@
  * MPLP (dual block-coordinate descent, gives an upper bound), loopy max-product
  * with damping, and sum-product, plus the Bethe log-partition estimate.
  */
-import { NEG, lseArray } from './ops';
-import { OpBuffers, gatherIncoming, setMessage, type Engine, type MessageState } from './engine';
+import { NEG, lse2, lseRange } from './ops';
+import { OpBuffers, gatherIncoming, setSlot, type Engine, type MessageState } from './engine';
 
 /**
  * One MPLP star update of operator c (Globerson & Jaakkola 2007, generalized to
@@ -21,20 +21,19 @@ import { OpBuffers, gatherIncoming, setMessage, type Engine, type MessageState }
 export function mplpUpdate(E: Engine, st: MessageState, oi: number, buf: OpBuffers): void {
   const op = E.ops[oi]!;
   gatherIncoming(E, st, oi, buf, false);
-  op.message('max', buf.inc, buf.incRest, buf.out, buf.outRest);
+  const inc = buf.inc, out = buf.out, off = op.off;
+  op.message('max', inc, buf.incRest, out, buf.outRest);
   const n = op.vars.length;
   let cst = 0;
   for (let s = 0; s < n; s++) {
-    const inc = buf.inc[s]!, out = buf.out[s]!;
     let restD = 0;
-    if (op.support[s] && op.restCount[s]! > 0) {
+    if (op.sup && op.restCount![s]! > 0) {
       const ir = buf.incRest[s]!;
       restD = (buf.outRest[s]! + ir) / n - ir;
       cst += restD;
     }
-    // reuse out as the new message
-    for (let k = 0; k < out.length; k++) out[k] = (out[k]! + inc[k]!) / n - inc[k]! - restD;
-    setMessage(E, st, oi, s, out);
+    for (let k = off[s]!; k < off[s + 1]!; k++) out[k] = (out[k]! + inc[k]!) / n - inc[k]! - restD;
+    setSlot(E, st, oi, s, out);
   }
   st.opConst[oi] = cst;
 }
@@ -64,17 +63,14 @@ export function generalDualBound(E: Engine, st: MessageState, buf: OpBuffers): n
   }
   for (let oi = 0; oi < E.ops.length; oi++) {
     const op = E.ops[oi]!;
-    buf.prepare(E, op);
-    for (let s = 0; s < op.vars.length; s++) {
-      const m = st.msg[oi]![s]!, inc = buf.inc[s]!;
-      for (let k = 0; k < m.length; k++) inc[k] = -m[k]!;
-      buf.incRest[s] = 0;
-    }
+    buf.prepare(op);
+    const m = st.msg[oi]!, n = op.vars.length, len = op.off[n]!;
+    for (let k = 0; k < len; k++) buf.inc[k] = -m[k]!;
+    for (let s = 0; s < n; s++) buf.incRest[s] = op.sup && op.restCount![s]! > 0 ? 0 : NEG;
     op.message('max', buf.inc, buf.incRest, buf.out, buf.outRest);
-    const out = buf.out[0]!, inc = buf.inc[0]!;
     let best = NEG;
-    for (let k = 0; k < out.length; k++) if (out[k]! + inc[k]! > best) best = out[k]! + inc[k]!;
-    if (op.support[0] && op.restCount[0]! > 0 && buf.outRest[0]! > best) best = buf.outRest[0]!;
+    for (let k = 0; k < op.off[1]!; k++) if (buf.out[k]! + buf.inc[k]! > best) best = buf.out[k]! + buf.inc[k]!;
+    if (op.sup && op.restCount![0]! > 0 && buf.outRest[0]! > best) best = buf.outRest[0]!;
     u += best;
   }
   return u;
@@ -89,26 +85,27 @@ export function generalDualBound(E: Engine, st: MessageState, buf: OpBuffers): n
 export function productUpdate(E: Engine, st: MessageState, oi: number, buf: OpBuffers, sum: boolean, damping: number): number {
   const op = E.ops[oi]!;
   gatherIncoming(E, st, oi, buf, sum);
-  op.message(sum ? 'sum' : 'max', buf.inc, buf.incRest, buf.out, buf.outRest);
+  const out = buf.out, off = op.off, old = st.msg[oi]!;
+  op.message(sum ? 'sum' : 'max', buf.inc, buf.incRest, out, buf.outRest);
   let change = 0;
   for (let s = 0; s < op.vars.length; s++) {
-    const out = buf.out[s]!, old = st.msg[oi]![s]!;
+    const o = off[s]!, e = off[s + 1]!;
     let norm: number;
-    if (op.support[s] && op.restCount[s]! > 0) norm = buf.outRest[s]!;
-    else if (sum) norm = lseArray(out);
+    if (op.sup && op.restCount![s]! > 0) norm = buf.outRest[s]!;
+    else if (sum) norm = lseRange(out, o, e);
     else {
       norm = NEG;
-      for (let k = 0; k < out.length; k++) if (out[k]! > norm) norm = out[k]!;
+      for (let k = o; k < e; k++) if (out[k]! > norm) norm = out[k]!;
     }
-    if (norm === NEG || !Number.isFinite(norm)) norm = 0;
-    for (let k = 0; k < out.length; k++) {
+    if (!Number.isFinite(norm)) norm = 0;
+    for (let k = o; k < e; k++) {
       let v = out[k]! - norm;
       if (damping > 0) v = damping * old[k]! + (1 - damping) * v;
       const d = Math.abs(v - old[k]!);
       if (d > change) change = d;
       out[k] = v;
     }
-    setMessage(E, st, oi, s, out);
+    setSlot(E, st, oi, s, out);
   }
   return change;
 }
@@ -120,16 +117,15 @@ export function productUpdate(E: Engine, st: MessageState, oi: number, buf: OpBu
  */
 export function betheLogZ(E: Engine, st: MessageState, buf: OpBuffers): number {
   let z = E.constant;
-  for (let i = 0; i < E.n; i++) z += (1 - E.adj[i]!.length) * lseArray(st.belief[i]!);
+  for (let i = 0; i < E.n; i++) z += (1 - E.adj[i]!.length) * lseRange(st.belief[i]!);
   for (let oi = 0; oi < E.ops.length; oi++) {
     const op = E.ops[oi]!;
     gatherIncoming(E, st, oi, buf, true);
     op.message('sum', buf.inc, buf.incRest, buf.out, buf.outRest);
-    const inc = buf.inc[0]!, out = buf.out[0]!;
-    const t = new Float64Array(out.length + 1).fill(NEG);
-    for (let k = 0; k < out.length; k++) t[k] = inc[k]! + out[k]!;
-    if (op.support[0] && op.restCount[0]! > 0) t[out.length] = buf.incRest[0]! + buf.outRest[0]!;
-    z += lseArray(t);
+    let acc = NEG;
+    for (let k = 0; k < op.off[1]!; k++) acc = lse2(acc, buf.inc[k]! + buf.out[k]!);
+    if (op.sup && op.restCount![0]! > 0) acc = lse2(acc, buf.incRest[0]! + buf.outRest[0]!);
+    z += acc;
   }
   return z;
 }

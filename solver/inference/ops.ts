@@ -5,11 +5,12 @@
  *
  *   out_s(x_s) = ⊕_{x_c \ x_s} [ θ_c(x_c) + Σ_{t≠s} inc_t(x_t) ]     (⊕ = max or log-sum-exp)
  *
- * Slots are either dense (a value per state) or compact: a support list of the
- * states the factor distinguishes, all other states sharing one "rest" entry
- * (incRest / outRest). Compact slots keep counting factors over many variables
- * from storing a K-vector per (factor, variable). -Infinity scores are replaced by
- * -H (big-M) before compilation; see engine.ts.
+ * Layout: an operator's messages live in ONE flat Float64Array; slot s occupies
+ * [off[s], off[s+1]). Dense operators (sup === null) hold one entry per state.
+ * Compact operators hold entries only for the supported states sup[off[s]..off[s+1]);
+ * all other states of the slot form one "rest" class (incRest[s] / outRest[s]),
+ * so counting factors over many variables never store a K-vector per variable.
+ * -Infinity scores are replaced by -H (big-M) before compilation; see engine.ts.
  */
 
 export const NEG = -Infinity;
@@ -20,22 +21,21 @@ export function lse2(a: number, b: number): number {
   return a > b ? a + Math.log1p(Math.exp(b - a)) : b + Math.log1p(Math.exp(a - b));
 }
 
-export function lseArray(v: ArrayLike<number>): number {
+export function lseRange(v: ArrayLike<number>, from = 0, to = v.length): number {
   let m = NEG;
-  for (let i = 0; i < v.length; i++) if (v[i]! > m) m = v[i]!;
+  for (let i = from; i < to; i++) if (v[i]! > m) m = v[i]!;
   if (m === NEG || m === Infinity) return m;
   let s = 0;
-  for (let i = 0; i < v.length; i++) s += Math.exp(v[i]! - m);
+  for (let i = from; i < to; i++) s += Math.exp(v[i]! - m);
   return m + Math.log(s);
 }
+export const lseArray = (v: ArrayLike<number>): number => lseRange(v);
 
 export type Semiring = 'max' | 'sum';
 
 /** Shared scratch space, sized once per engine. */
 export interface Scratch {
-  /** Per-group accumulators indexed by key group (size numGroups). */
   groupA: Float64Array;
-  groupB: Float64Array;
   stamp: Int32Array;
   stampNow: { v: number };
   dp: Float64Array;
@@ -46,11 +46,13 @@ export interface Op {
   /** Model factor index this operator comes from. */
   factor: number;
   vars: Int32Array;
-  /** Per slot: supported states (compact) or null (dense). */
-  support: (Int32Array | null)[];
-  /** Per slot: number of states NOT in the support (0 for dense). */
-  restCount: Int32Array;
-  message(sr: Semiring, inc: Float64Array[], incRest: Float64Array, out: Float64Array[], outRest: Float64Array): void;
+  /** Slot offsets into the flat message (length arity + 1). */
+  off: Int32Array;
+  /** Compact support states (flat, aligned with messages) or null for dense operators. */
+  sup: Int32Array | null;
+  /** Compact operators: per slot, number of states outside the support. */
+  restCount: Int32Array | null;
+  message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void;
   /** Big-M score of the operator at a full assignment. */
   score(x: Int32Array): number;
   /** Add to acc[v] the operator's score as a function of x[vars[slot]] = v, others as in x, up to a constant. */
@@ -59,50 +61,60 @@ export interface Op {
 
 /** Per-variable key information in dense form. */
 export interface KeyInfo {
-  /** value → key group (key + 1 remapped densely; 0 = no key). */
+  /** value → key group (0 = no key, keys k ≥ 0 remapped to 1..P). */
   group: Int32Array[];
-  /** variable → map group → values with that group. */
-  valuesOfGroup: Map<number, Int32Array>[];
+  /** variable → map group → first value with that group; nextSame[v][x] = next value of the same group or -1. */
+  firstOfGroup: Map<number, number>[];
+  nextSame: Int32Array[];
   numGroups: number;
+}
+
+function denseOffsets(cards: number[]): Int32Array {
+  const off = new Int32Array(cards.length + 1);
+  for (let j = 0; j < cards.length; j++) off[j + 1] = off[j]! + cards[j]!;
+  return off;
 }
 
 // ---------------------------------------------------------------- dense pairwise
 
+/** Dense pairwise table (row-major). O(K_a K_b) messages. */
 export class PairwiseOp implements Op {
   kind = 'pairwise';
   vars: Int32Array;
-  support: (Int32Array | null)[] = [null, null];
-  restCount = new Int32Array(2);
+  off: Int32Array;
+  sup = null;
+  restCount = null;
   constructor(public factor: number, a: number, b: number, private ka: number, private kb: number, private t: Float64Array) {
     this.vars = Int32Array.of(a, b);
+    this.off = denseOffsets([ka, kb]);
   }
-  message(sr: Semiring, inc: Float64Array[], _ir: Float64Array, out: Float64Array[], _or: Float64Array): void {
+  message(sr: Semiring, inc: Float64Array, _ir: Float64Array, out: Float64Array, _or: Float64Array): void {
     const { ka, kb, t } = this;
-    const i0 = inc[0]!, i1 = inc[1]!, o0 = out[0]!, o1 = out[1]!;
+    const o1 = ka;
     if (sr === 'max') {
-      o1.fill(NEG);
+      for (let b = 0; b < kb; b++) out[o1 + b] = NEG;
       for (let a = 0; a < ka; a++) {
         let best = NEG;
-        const base = a * kb, ia = i0[a]!;
+        const base = a * kb, ia = inc[a]!;
         for (let b = 0; b < kb; b++) {
           const v = t[base + b]!;
-          const w = v + i1[b]!;
+          const w = v + inc[o1 + b]!;
           if (w > best) best = w;
           const u = v + ia;
-          if (u > o1[b]!) o1[b] = u;
+          if (u > out[o1 + b]!) out[o1 + b] = u;
         }
-        o0[a] = best;
+        out[a] = best;
       }
     } else {
       for (let a = 0; a < ka; a++) {
         let acc = NEG;
-        for (let b = 0; b < kb; b++) acc = lse2(acc, t[a * kb + b]! + i1[b]!);
-        o0[a] = acc;
+        for (let b = 0; b < kb; b++) acc = lse2(acc, t[a * kb + b]! + inc[o1 + b]!);
+        out[a] = acc;
       }
       for (let b = 0; b < kb; b++) {
         let acc = NEG;
-        for (let a = 0; a < ka; a++) acc = lse2(acc, t[a * kb + b]! + i0[a]!);
-        o1[b] = acc;
+        for (let a = 0; a < ka; a++) acc = lse2(acc, t[a * kb + b]! + inc[a]!);
+        out[o1 + b] = acc;
       }
     }
   }
@@ -123,16 +135,17 @@ export class PairwiseOp implements Op {
 
 // ---------------------------------------------------------------- dense n-ary table
 
+/** Dense table over any number of variables (last varies fastest). O(|table| · arity²) messages. */
 export class TableOp implements Op {
   kind = 'table';
   vars: Int32Array;
-  support: (Int32Array | null)[];
-  restCount: Int32Array;
+  off: Int32Array;
+  sup = null;
+  restCount = null;
   private strides: Int32Array;
   constructor(public factor: number, vars: number[], private cards: Int32Array, private t: Float64Array) {
     this.vars = Int32Array.from(vars);
-    this.support = vars.map(() => null);
-    this.restCount = new Int32Array(vars.length);
+    this.off = denseOffsets(Array.from(cards));
     this.strides = new Int32Array(vars.length);
     let s = 1;
     for (let j = vars.length - 1; j >= 0; j--) {
@@ -140,22 +153,16 @@ export class TableOp implements Op {
       s *= cards[j]!;
     }
   }
-  message(sr: Semiring, inc: Float64Array[], _ir: Float64Array, out: Float64Array[], _or: Float64Array): void {
-    const n = this.vars.length, cards = this.cards, t = this.t;
-    for (let j = 0; j < n; j++) out[j]!.fill(NEG);
+  message(sr: Semiring, inc: Float64Array, _ir: Float64Array, out: Float64Array, _or: Float64Array): void {
+    const n = this.vars.length, cards = this.cards, t = this.t, off = this.off;
+    out.fill(NEG, 0, off[n]);
     const idx = new Int32Array(n);
     for (let e = 0; e < t.length; e++) {
-      let total = t[e]!;
-      for (let j = 0; j < n; j++) total += inc[j]![idx[j]!]!;
-      if (total !== NEG || sr === 'sum') {
-        for (let j = 0; j < n; j++) {
-          const xj = idx[j]!;
-          // total minus own incoming, recomputed to avoid -Inf - -Inf
-          let v = t[e]!;
-          for (let k = 0; k < n; k++) if (k !== j) v += inc[k]![idx[k]!]!;
-          const o = out[j]!;
-          o[xj] = sr === 'max' ? (v > o[xj]! ? v : o[xj]!) : lse2(o[xj]!, v);
-        }
+      for (let j = 0; j < n; j++) {
+        let v = t[e]!;
+        for (let k = 0; k < n; k++) if (k !== j) v += inc[off[k]! + idx[k]!]!;
+        const p = off[j]! + idx[j]!;
+        out[p] = sr === 'max' ? (v > out[p]! ? v : out[p]!) : lse2(out[p]!, v);
       }
       for (let j = n - 1; j >= 0; j--) {
         if (++idx[j]! < cards[j]!) break;
@@ -178,12 +185,12 @@ export class TableOp implements Op {
 
 // ---------------------------------------------------------------- key groups
 
-/** Per-group reduction (max or log-sum-exp) of inc over one variable's values; returns groups present. */
-function groupReduce(sr: Semiring, grp: Int32Array, inc: Float64Array, acc: Float64Array, stamp: Int32Array, now: number, present: number[]): void {
+/** Per-group reduction (max or log-sum-exp) of inc[from..] over one variable's values. */
+function groupReduce(sr: Semiring, grp: Int32Array, inc: Float64Array, from: number, acc: Float64Array, stamp: Int32Array, now: number, present: number[]): void {
   present.length = 0;
   for (let x = 0; x < grp.length; x++) {
     const g = grp[x]!;
-    const v = inc[x]!;
+    const v = inc[from + x]!;
     if (stamp[g] !== now) {
       stamp[g] = now;
       acc[g] = v;
@@ -194,26 +201,29 @@ function groupReduce(sr: Semiring, grp: Int32Array, inc: Float64Array, acc: Floa
 
 /**
  * Potts factor over keys: θ(xa, xb) = w when both keys are equal and non-negative, else 0.
- * Max message: out_b(xb) = max( max_{xa: g(xa) ≠ g(xb) or no key} inc_a, G_a[g(xb)] + w ) using the
- * two best key groups, O(K_a + K_b).
+ * Max message: out_b(xb) = max( max_{xa: key(xa) ≠ key(xb) or keyless} inc_a, G_a[key(xb)] + w ),
+ * from the two best key groups: O(K_a + K_b).
  */
 export class PottsOp implements Op {
   kind = 'potts';
   vars: Int32Array;
-  support: (Int32Array | null)[] = [null, null];
-  restCount = new Int32Array(2);
+  off: Int32Array;
+  sup = null;
+  restCount = null;
   private present: number[] = [];
   constructor(public factor: number, a: number, b: number, public w: number, private keys: KeyInfo, private scratch: Scratch) {
     this.vars = Int32Array.of(a, b);
+    this.off = denseOffsets([keys.group[a]!.length, keys.group[b]!.length]);
   }
-  private one(sr: Semiring, from: number, to: number, inc: Float64Array, out: Float64Array): void {
+  private one(sr: Semiring, fromSlot: number, inc: Float64Array, out: Float64Array): void {
     const K = this.keys, S = this.scratch, w = this.w;
-    const gf = K.group[from]!, gt = K.group[to]!;
+    const toSlot = 1 - fromSlot;
+    const gf = K.group[this.vars[fromSlot]!]!, gt = K.group[this.vars[toSlot]!]!;
+    const fo = this.off[fromSlot]!, to = this.off[toSlot]!;
     const now = ++S.stampNow.v;
     const G = S.groupA;
-    groupReduce(sr, gf, inc, G, S.stamp, now, this.present);
+    groupReduce(sr, gf, inc, fo, G, S.stamp, now, this.present);
     if (sr === 'max') {
-      // best and second-best keyed groups, and best keyless value
       let b1 = NEG, g1 = -1, b2 = NEG, free = NEG;
       for (const g of this.present) {
         const v = G[g]!;
@@ -227,16 +237,17 @@ export class PottsOp implements Op {
           g1 = g;
         } else if (v > b2) b2 = v;
       }
-      const all = Math.max(b1, free);
+      const all = b1 > free ? b1 : free;
       for (let x = 0; x < gt.length; x++) {
         const g = gt[x]!;
         if (g === 0 || S.stamp[g] !== now) {
-          out[x] = all;
+          out[to + x] = all;
           continue;
         }
-        const other = Math.max(free, g === g1 ? b2 : b1);
+        const o = g === g1 ? b2 : b1;
+        const other = free > o ? free : o;
         const same = G[g]! + w;
-        out[x] = other > same ? other : same;
+        out[to + x] = other > same ? other : same;
       }
     } else {
       let total = NEG;
@@ -245,28 +256,28 @@ export class PottsOp implements Op {
       for (let x = 0; x < gt.length; x++) {
         const g = gt[x]!;
         if (g === 0 || S.stamp[g] !== now) {
-          out[x] = total;
+          out[to + x] = total;
           continue;
         }
         const sg = G[g]!;
         if (em1 >= 0) {
-          out[x] = em1 === 0 ? total : lse2(total, sg + Math.log(em1));
+          out[to + x] = em1 === 0 ? total : lse2(total, sg + Math.log(em1));
           continue;
         }
         const frac = Math.exp(sg - total) * -em1;
-        if (frac < 0.5) out[x] = total + Math.log1p(-frac);
+        if (frac < 0.5) out[to + x] = total + Math.log1p(-frac);
         else {
           // cancellation risk: sum the other groups directly
           let other = NEG;
           for (const h of this.present) if (h !== g) other = lse2(other, G[h]!);
-          out[x] = lse2(other, sg + w);
+          out[to + x] = lse2(other, sg + w);
         }
       }
     }
   }
-  message(sr: Semiring, inc: Float64Array[], _ir: Float64Array, out: Float64Array[], _or: Float64Array): void {
-    this.one(sr, this.vars[0]!, this.vars[1]!, inc[0]!, out[1]!);
-    this.one(sr, this.vars[1]!, this.vars[0]!, inc[1]!, out[0]!);
+  message(sr: Semiring, inc: Float64Array, _ir: Float64Array, out: Float64Array, _or: Float64Array): void {
+    this.one(sr, 0, inc, out);
+    this.one(sr, 1, inc, out);
   }
   score(x: Int32Array): number {
     const a = this.vars[0]!, b = this.vars[1]!;
@@ -277,27 +288,29 @@ export class PottsOp implements Op {
     const other = this.vars[1 - slot]!, self = this.vars[slot]!;
     const g = this.keys.group[other]![x[other]!]!;
     if (g === 0) return;
-    const vals = this.keys.valuesOfGroup[self]!.get(g);
-    if (vals) for (const v of vals) acc[v]! += this.w;
+    const next = this.keys.nextSame[self]!;
+    for (let v = this.keys.firstOfGroup[self]!.get(g) ?? -1; v >= 0; v = next[v]!) acc[v]! += this.w;
   }
 }
 
 /**
  * Sparse pairing table over key groups: θ = entry(g(xa), g(xb)) if listed, else default.
- * Max message to b: max( max_{entries (ga, g(xb))} G_a[ga] + s, default + best group of a not listed with g(xb) ),
- * O(K log K + entries).
+ * Max message to b: max( max_{listed (ga, g(xb))} G_a[ga] + s, default + best group of a not listed with g(xb) ),
+ * with a's groups sorted once: O(K log K + entries).
  */
 export class SparseOp implements Op {
   kind = 'sparsePair';
   vars: Int32Array;
-  support: (Int32Array | null)[] = [null, null];
-  restCount = new Int32Array(2);
-  /** byGroup[dir]: target group → list of [source group, score] (dir 0: a→b keyed by gb). */
+  off: Int32Array;
+  sup = null;
+  restCount = null;
+  /** byGroup[0]: group of b → [group of a, score][]; byGroup[1]: group of a → [group of b, score][]. */
   private byGroup: [Map<number, Array<[number, number]>>, Map<number, Array<[number, number]>>];
   private lookup = new Map<number, number>();
   private present: number[] = [];
   constructor(public factor: number, a: number, b: number, entries: Array<[number, number, number]>, public def: number, private keys: KeyInfo, private scratch: Scratch) {
     this.vars = Int32Array.of(a, b);
+    this.off = denseOffsets([keys.group[a]!.length, keys.group[b]!.length]);
     const toB = new Map<number, Array<[number, number]>>();
     const toA = new Map<number, Array<[number, number]>>();
     const ng = keys.numGroups;
@@ -311,65 +324,92 @@ export class SparseOp implements Op {
       toA.get(ga)!.push([gb, s]);
     }
     this.byGroup = [toB, toA];
+    for (const l of toB.values()) if (l.length > this.maxList[0]) this.maxList[0] = l.length;
+    for (const l of toA.values()) if (l.length > this.maxList[1]) this.maxList[1] = l.length;
   }
-  private one(sr: Semiring, dir: 0 | 1, inc: Float64Array, out: Float64Array): void {
-    const from = this.vars[dir]!, to = this.vars[1 - dir]!;
+  private maxList: [number, number] = [0, 0];
+  /** Per target slot and value: the entries listed for its group (built on first use). */
+  private listsOf: [Array<Array<[number, number]> | null> | null, Array<Array<[number, number]> | null> | null] = [null, null];
+  private topG = new Int32Array(0);
+  private topV = new Float64Array(0);
+  private one(sr: Semiring, fromSlot: 0 | 1, inc: Float64Array, out: Float64Array): void {
+    const toSlot = 1 - fromSlot;
     const K = this.keys, S = this.scratch, def = this.def;
-    const gf = K.group[from]!, gt = K.group[to]!;
+    const gf = K.group[this.vars[fromSlot]!]!, gt = K.group[this.vars[toSlot]!]!;
+    const fo = this.off[fromSlot]!, to = this.off[toSlot]!;
     const now = ++S.stampNow.v;
     const G = S.groupA;
-    groupReduce(sr, gf, inc, G, S.stamp, now, this.present);
-    const map = this.byGroup[dir];
-    const R = S.groupB; // per target group result cache (stamped with `now` via sign trick below)
-    const done = new Map<number, number>();
-    let sorted: number[] | null = null;
-    let total = NEG;
-    if (sr === 'sum') for (const g of this.present) total = lse2(total, G[g]!);
+    groupReduce(sr, gf, inc, fo, G, S.stamp, now, this.present);
+    const map = this.byGroup[fromSlot];
+    let all = NEG;
+    for (const h of this.present) all = sr === 'max' ? (G[h]! > all ? G[h]! : all) : lse2(all, G[h]!);
+    // the L+1 best groups, L = longest list: one of them is never listed with the target
+    const L = this.maxList[fromSlot] + 1;
+    let nTop = 0;
+    if (sr === 'max' && map.size > 0) {
+      if (this.topG.length < L) {
+        this.topG = new Int32Array(L);
+        this.topV = new Float64Array(L);
+      }
+      const tg = this.topG, tv = this.topV;
+      for (const h of this.present) {
+        const v = G[h]!;
+        if (nTop === L && v <= tv[L - 1]!) continue;
+        let p = nTop < L ? nTop++ : L - 1;
+        while (p > 0 && tv[p - 1]! < v) {
+          tv[p] = tv[p - 1]!;
+          tg[p] = tg[p - 1]!;
+          p--;
+        }
+        tv[p] = v;
+        tg[p] = h;
+      }
+    }
+    let lists = this.listsOf[toSlot];
+    if (!lists) lists = this.listsOf[toSlot] = Array.from(gt, (g) => map.get(g) ?? null);
     for (let x = 0; x < gt.length; x++) {
-      const g = gt[x]!;
-      const cached = done.get(g);
-      if (cached !== undefined) {
-        out[x] = cached;
+      const list = lists[x];
+      if (!list) {
+        out[to + x] = all + def;
         continue;
       }
-      const list = map.get(g);
-      let r: number;
+      let r = NEG;
       if (sr === 'max') {
-        if (!list) {
-          let m = NEG;
-          for (const h of this.present) if (G[h]! > m) m = G[h]!;
-          r = m + def;
-        } else {
-          let best = NEG;
-          const listed = new Set<number>();
-          for (const [h, s] of list) {
-            listed.add(h);
-            if (S.stamp[h] === now && G[h]! + s > best) best = G[h]! + s;
+        for (const [h, sc] of list) if (S.stamp[h] === now && G[h]! + sc > r) r = G[h]! + sc;
+        for (let q = 0; q < nTop; q++) {
+          const h = this.topG[q]!;
+          let listed = false;
+          for (const e of list) if (e[0] === h) listed = true;
+          if (!listed) {
+            if (this.topV[q]! + def > r) r = this.topV[q]! + def;
+            break;
           }
-          if (!sorted) sorted = [...this.present].sort((p, q) => G[q]! - G[p]!);
-          for (const h of sorted)
-            if (!listed.has(h)) {
-              if (G[h]! + def > best) best = G[h]! + def;
-              break;
-            }
-          r = best;
         }
       } else {
-        // log( e^def·Σ_all + Σ_listed S_h (e^s - e^def) ), computed directly over groups
-        let acc = NEG;
-        const listed = new Map<number, number>();
-        if (list) for (const [h, s] of list) listed.set(h, s);
-        for (const h of this.present) acc = lse2(acc, G[h]! + (listed.get(h) ?? def));
-        r = acc;
+        // log( e^{all+def} + Σ_listed e^{G_h} (e^s - e^def) ), directly when cancellation threatens
+        const base = all + def;
+        let add = 0, sub = 0;
+        for (const [h, sc] of list) {
+          if (S.stamp[h] !== now) continue;
+          add += Math.exp(G[h]! + sc - base);
+          sub += Math.exp(G[h]! + def - base);
+        }
+        const val = 1 + add - sub;
+        if (val > 1e-6 * (1 + add)) r = base + Math.log(val);
+        else {
+          for (const h of this.present) {
+            let sc = def;
+            for (const e of list) if (e[0] === h) sc = e[1];
+            r = lse2(r, G[h]! + sc);
+          }
+        }
       }
-      R[0] = r;
-      done.set(g, r);
-      out[x] = r;
+      out[to + x] = r;
     }
   }
-  message(sr: Semiring, inc: Float64Array[], _ir: Float64Array, out: Float64Array[], _or: Float64Array): void {
-    this.one(sr, 0, inc[0]!, out[1]!);
-    this.one(sr, 1, inc[1]!, out[0]!);
+  message(sr: Semiring, inc: Float64Array, _ir: Float64Array, out: Float64Array, _or: Float64Array): void {
+    this.one(sr, 0, inc, out);
+    this.one(sr, 1, inc, out);
   }
   private at(ga: number, gb: number): number {
     const s = this.lookup.get(ga * this.keys.numGroups + gb);
@@ -382,68 +422,121 @@ export class SparseOp implements Op {
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     const other = this.vars[1 - slot]!, self = this.vars[slot]!;
     const g = this.keys.group[other]![x[other]!]!;
-    // entries keyed by the other variable's group: dir 0 lists (ga) for target gb
+    // slot 0 (a) varies: entries listed for b's group are in byGroup[0]
     const list = this.byGroup[slot === 0 ? 0 : 1].get(g);
     if (!list) return;
     for (const [h, s] of list) {
-      const vals = this.keys.valuesOfGroup[self]!.get(h);
-      if (vals) for (const v of vals) acc[v]! += s - this.def;
+      const next = this.keys.nextSame[self]!;
+      for (let v = this.keys.firstOfGroup[self]!.get(h) ?? -1; v >= 0; v = next[v]!) acc[v]! += s - this.def;
     }
   }
 }
 
-// ---------------------------------------------------------------- counting
+// ---------------------------------------------------------------- compact operators
+
+/** Compact slot layout shared by counting-type operators. */
+export abstract class CompactOp implements Op {
+  abstract kind: string;
+  vars: Int32Array;
+  off: Int32Array;
+  sup: Int32Array;
+  /** Weight of each supported state (aligned with sup). */
+  wts: Int32Array;
+  restCount: Int32Array;
+  /** Flat layout: slot j's supported states are sup[off[j]..off[j+1]) with weights wts (null = all 1). */
+  constructor(public factor: number, vars: ArrayLike<number>, off: ArrayLike<number>, sup: ArrayLike<number>, wts: ArrayLike<number> | null, cards: ArrayLike<number>) {
+    this.vars = Int32Array.from(vars);
+    this.off = Int32Array.from(off);
+    this.sup = Int32Array.from(sup);
+    this.wts = wts ? Int32Array.from(wts) : new Int32Array(this.sup.length).fill(1);
+    this.restCount = new Int32Array(this.vars.length);
+    for (let j = 0; j < this.vars.length; j++) this.restCount[j] = cards[this.vars[j]!]! - (this.off[j + 1]! - this.off[j]!);
+  }
+  abstract message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void;
+  abstract g(sum: number): number;
+  /** Sums from here on are forbidden (Infinity: none). */
+  hardFrom = Infinity;
+  /** Big-M value. */
+  H = 0;
+  /**
+   * Score used by local search and engineScore: like g, but each unit past the hard
+   * limit costs another H, so repairs see a gradient instead of a plateau.
+   */
+  gLocal(sum: number): number {
+    return sum >= this.hardFrom ? -this.H * (1 + sum - this.hardFrom) : this.g(sum);
+  }
+  weightAt(slot: number, v: number): number {
+    for (let k = this.off[slot]!; k < this.off[slot + 1]!; k++) if (this.sup[k] === v) return this.wts[k]!;
+    return 0;
+  }
+  sumOf(x: Int32Array, skip: number): number {
+    let s = 0;
+    for (let j = 0; j < this.vars.length; j++) if (j !== skip) s += this.weightAt(j, x[this.vars[j]!]!);
+    return s;
+  }
+  score(x: Int32Array): number {
+    return this.gLocal(this.sumOf(x, -1));
+  }
+  cond(slot: number, x: Int32Array, acc: Float64Array): void {
+    this.condFromSum(slot, this.sumOf(x, slot), acc);
+  }
+  /** cond given the sum of the other slots. */
+  condFromSum(slot: number, s0: number, acc: Float64Array): void {
+    const base = this.gLocal(s0);
+    for (let k = this.off[slot]!; k < this.off[slot + 1]!; k++) acc[this.sup[k]!]! += this.gLocal(s0 + this.wts[k]!) - base;
+  }
+}
 
 /**
- * Counting factor θ = g(Σ_j w_j(x_j)) with compact slots: the support of slot j lists
- * the states with non-zero weight; all others weigh 0 and share the rest entry.
- * Messages by forward/backward dynamic programming over clamped sums 0..S:
+ * Counting factor θ = g(Σ_j w_j(x_j)). Messages by forward/backward dynamic programming
+ * over sums clamped at S (g is constant from S on):
  *   F_{j+1}(min(t+w,S)) ⊕= F_j(t) + h_j(w),   B_j(t) = ⊕_w h_j(w) + B_{j+1}(min(t+w,S)),  B_n = g,
- *   out_j(w) = ⊕_t F_j(t) + B_{j+1}(min(t+w,S)).
- * O(n · S · (support+1)). S is clamped where g becomes constant, so caps cost O(cap).
+ *   out_j(w) = ⊕_t F_j(t) + B_{j+1}(min(t+w,S)),
+ * where h_j(w) ranges over the slot's supported states and the rest class (w = 0).
+ * O(n · S · (support + 1)).
  */
-export class CountingOp implements Op {
+export class CountingOp extends CompactOp {
   kind = 'counting';
-  vars: Int32Array;
-  support: (Int32Array | null)[];
-  restCount: Int32Array;
-  /** weights per slot aligned with support. */
-  wts: Int32Array[];
-  /** Largest clamped sum. */
   S: number;
-  constructor(public factor: number, vars: number[], support: Int32Array[], wts: Int32Array[], cards: Int32Array, public g: Float64Array, private scratch: Scratch) {
-    this.vars = Int32Array.from(vars);
-    this.support = support;
-    this.wts = wts;
-    this.restCount = Int32Array.from(support.map((s, j) => cards[j]! - s.length));
-    this.S = g.length - 1;
+  constructor(factor: number, vars: ArrayLike<number>, off: ArrayLike<number>, sup: ArrayLike<number>, wts: ArrayLike<number>, cards: ArrayLike<number>, public table: Float64Array, private scratch: Scratch) {
+    super(factor, vars, off, sup, wts, cards);
+    this.S = table.length - 1;
   }
-  private clampSum(t: number): number {
-    return t > this.S ? this.S : t;
+  g(sum: number): number {
+    return this.table[sum > this.S ? this.S : sum]!;
   }
-  message(sr: Semiring, inc: Float64Array[], incRest: Float64Array, out: Float64Array[], outRest: Float64Array): void {
-    const n = this.vars.length, S = this.S, W = S + 1, g = this.g;
+  /** Graded local-search scores over 0..S (hard sums cost H per unit of distance to an allowed sum). */
+  localTable: Float64Array | null = null;
+  /** Whether sums past S are hard (then each extra unit costs another H). */
+  tailHard = false;
+  override gLocal(sum: number): number {
+    const lt = this.localTable;
+    if (!lt) return this.g(sum);
+    if (sum <= this.S) return lt[sum]!;
+    return this.tailHard ? lt[this.S]! - this.H * (sum - this.S) : lt[this.S]!;
+  }
+  message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void {
+    const n = this.vars.length, S = this.S, W = S + 1, g = this.table, off = this.off, wts = this.wts;
     const need = 2 * (n + 1) * W;
     if (this.scratch.dp.length < need) this.scratch.dp = new Float64Array(need * 2);
     const dp = this.scratch.dp;
-    const F = 0, B = (n + 1) * W;
+    const B = (n + 1) * W;
     const mx = sr === 'max';
     dp.fill(NEG, 0, need);
-    dp[F] = 0;
+    dp[0] = 0;
     for (let j = 0; j < n; j++) {
-      const src = F + j * W, dst = F + (j + 1) * W;
-      const sup = this.support[j]!, w = this.wts[j]!, vj = inc[j]!;
-      const hasRest = this.restCount[j]! > 0;
+      const src = j * W, dst = (j + 1) * W;
+      const hasRest = this.restCount[j]! > 0, ir = incRest[j]!;
       for (let t = 0; t < W; t++) {
         const f = dp[src + t]!;
         if (f === NEG) continue;
         if (hasRest) {
-          const v = f + incRest[j]!;
+          const v = f + ir;
           dp[dst + t] = mx ? (v > dp[dst + t]! ? v : dp[dst + t]!) : lse2(dp[dst + t]!, v);
         }
-        for (let k = 0; k < sup.length; k++) {
-          const u = t + w[k]! > S ? S : t + w[k]!;
-          const v = f + vj[k]!;
+        for (let k = off[j]!; k < off[j + 1]!; k++) {
+          const u = t + wts[k]! > S ? S : t + wts[k]!;
+          const v = f + inc[k]!;
           dp[dst + u] = mx ? (v > dp[dst + u]! ? v : dp[dst + u]!) : lse2(dp[dst + u]!, v);
         }
       }
@@ -451,54 +544,103 @@ export class CountingOp implements Op {
     for (let t = 0; t < W; t++) dp[B + n * W + t] = g[t]!;
     for (let j = n - 1; j >= 0; j--) {
       const nxt = B + (j + 1) * W, cur = B + j * W;
-      const sup = this.support[j]!, w = this.wts[j]!, vj = inc[j]!;
-      const hasRest = this.restCount[j]! > 0;
+      const hasRest = this.restCount[j]! > 0, ir = incRest[j]!;
       for (let t = 0; t < W; t++) {
-        let acc = hasRest ? incRest[j]! + dp[nxt + t]! : NEG;
-        for (let k = 0; k < sup.length; k++) {
-          const u = t + w[k]! > S ? S : t + w[k]!;
-          const v = vj[k]! + dp[nxt + u]!;
+        let acc = hasRest ? ir + dp[nxt + t]! : NEG;
+        for (let k = off[j]!; k < off[j + 1]!; k++) {
+          const u = t + wts[k]! > S ? S : t + wts[k]!;
+          const v = inc[k]! + dp[nxt + u]!;
           acc = mx ? (v > acc ? v : acc) : lse2(acc, v);
         }
         dp[cur + t] = acc;
       }
     }
     for (let j = 0; j < n; j++) {
-      const f = F + j * W, nb = B + (j + 1) * W;
-      const sup = this.support[j]!, w = this.wts[j]!, o = out[j]!;
+      const f = j * W, nb = B + (j + 1) * W;
       let rest = NEG;
-      const ok = new Float64Array(sup.length).fill(NEG);
+      for (let k = off[j]!; k < off[j + 1]!; k++) out[k] = NEG;
       for (let t = 0; t < W; t++) {
         const ft = dp[f + t]!;
         if (ft === NEG) continue;
         const v0 = ft + dp[nb + t]!;
         rest = mx ? (v0 > rest ? v0 : rest) : lse2(rest, v0);
-        for (let k = 0; k < sup.length; k++) {
-          const u = t + w[k]! > S ? S : t + w[k]!;
+        for (let k = off[j]!; k < off[j + 1]!; k++) {
+          const u = t + wts[k]! > S ? S : t + wts[k]!;
           const v = ft + dp[nb + u]!;
-          ok[k] = mx ? (v > ok[k]! ? v : ok[k]!) : lse2(ok[k]!, v);
+          out[k] = mx ? (v > out[k]! ? v : out[k]!) : lse2(out[k]!, v);
         }
       }
-      o.set(ok);
       outRest[j] = rest;
     }
   }
-  private sumOf(x: Int32Array, skip: number): number {
-    let s = 0;
-    for (let j = 0; j < this.vars.length; j++) {
-      if (j === skip) continue;
-      const xv = x[this.vars[j]!]!, sup = this.support[j]!;
-      for (let k = 0; k < sup.length; k++) if (sup[k] === xv) s += this.wts[j]![k]!;
+}
+
+/**
+ * "At most one holder": among the slots, at most one takes a supported state
+ * (one key of an n-ary all-different). θ = 0 if ≤ 1 holder, else -H. With r_k the
+ * rest entry and a_k = ⊕ of the supported entries of slot k, R = Σ_k r_k:
+ *   max: out_j(support) = R - r_j,  out_j(rest) = R - r_j + max(0, max_{k≠j} (a_k - r_k))
+ *   sum: out_j(support) = R - r_j,  out_j(rest) = R - r_j + log(1 + Σ_{k≠j} e^{a_k - r_k})
+ * ignoring the -H mass of two or more holders (below double precision at H ≥ 1000). O(n).
+ */
+export class AtMostOneOp extends CompactOp {
+  kind = 'atMostOne';
+  private d: Float64Array;
+  constructor(factor: number, vars: ArrayLike<number>, off: ArrayLike<number>, sup: ArrayLike<number>, cards: ArrayLike<number>, H: number) {
+    super(factor, vars, off, sup, null, cards);
+    this.H = H;
+    this.hardFrom = 2;
+    this.d = new Float64Array(vars.length);
+  }
+  g(sum: number): number {
+    return sum <= 1 ? 0 : -this.H;
+  }
+  message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void {
+    const n = this.vars.length, off = this.off, d = this.d;
+    let R = 0;
+    // a slot without rest states must hold: r = -H keeps the arithmetic finite
+    for (let j = 0; j < n; j++) {
+      const r = this.restCount[j]! > 0 ? incRest[j]! : -this.H;
+      let a = NEG;
+      for (let k = off[j]!; k < off[j + 1]!; k++) a = sr === 'max' ? (inc[k]! > a ? inc[k]! : a) : lse2(a, inc[k]!);
+      R += r;
+      d[j] = a - r;
     }
-    return s;
-  }
-  score(x: Int32Array): number {
-    return this.g[this.clampSum(this.sumOf(x, -1))]!;
-  }
-  cond(slot: number, x: Int32Array, acc: Float64Array): void {
-    const s0 = this.sumOf(x, slot);
-    const base = this.g[this.clampSum(s0)]!;
-    const sup = this.support[slot]!, w = this.wts[slot]!;
-    for (let k = 0; k < sup.length; k++) acc[sup[k]!]! += this.g[this.clampSum(s0 + w[k]!)]! - base;
+    if (sr === 'max') {
+      let b1 = 0, j1 = -1, b2 = 0; // max(0, ·) folded in
+      for (let j = 0; j < n; j++) {
+        if (d[j]! > b1) {
+          b2 = b1;
+          b1 = d[j]!;
+          j1 = j;
+        } else if (d[j]! > b2) b2 = d[j]!;
+      }
+      for (let j = 0; j < n; j++) {
+        const r = this.restCount[j]! > 0 ? incRest[j]! : -this.H;
+        const base = R - r;
+        for (let k = off[j]!; k < off[j + 1]!; k++) out[k] = base;
+        outRest[j] = base + (j === j1 ? b2 : b1);
+      }
+    } else {
+      // log(1 + Σ_{k≠j} e^{d_k}) via a shared maximum
+      let m = 0;
+      for (let j = 0; j < n; j++) if (d[j]! > m) m = d[j]!;
+      let tot = Math.exp(-m);
+      for (let j = 0; j < n; j++) tot += Math.exp(d[j]! - m);
+      for (let j = 0; j < n; j++) {
+        const r = this.restCount[j]! > 0 ? incRest[j]! : -this.H;
+        const base = R - r;
+        for (let k = off[j]!; k < off[j + 1]!; k++) out[k] = base;
+        const rem = tot - Math.exp(d[j]! - m);
+        let l: number;
+        if (rem > 1e-12 * tot) l = m + Math.log(rem);
+        else {
+          let s = NEG;
+          for (let k = 0; k < n; k++) if (k !== j) s = lse2(s, d[k]!);
+          l = lse2(0, s);
+        }
+        outRest[j] = base + l;
+      }
+    }
   }
 }

@@ -189,7 +189,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   let stopReason: StopReason = 'iterations';
   let bestBoundAt = 0;
   let lastBoundImprove = Infinity;
-  let lastDecodeTime = elapsed();
+  let decodeMs = 0;
   let sweepMs = 0;
   const bbAllowed = useMplp && E.n <= opt.branchAndBoundMaxVars;
   let opsSinceYield = 0;
@@ -219,19 +219,20 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       } else if (b < bound) bound = b;
       if (lastBoundImprove === Infinity) lastBoundImprove = iterations;
     }
-    // decode every few sweeps, and at least when a tenth of the elapsed time passed since the last decode
+    // decode every few sweeps while decoding has used under a third of the time, and on the last sweep
     const now = elapsed();
     const stalledDual = iterations - lastBoundImprove >= opt.stallSweeps;
-    if (cut || iterations % opt.decodeEvery === 0 || now - lastDecodeTime > Math.max(200, now * 0.1) || stalledDual || gapClosedAgainst(st)) {
-      lastDecodeTime = now;
+    if (cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.35 * now) || iterations === opt.maxIterations) {
+      const td = Date.now();
       const x = decodeBeliefs(st);
       let s: number;
       if (opt.localSearch) {
         const ls = new LocalSearch(E, x, R);
-        s = ls.run(Math.min(deadline, Date.now() + Math.max(20, sweepMs * 4, opt.timeLimitMs * 0.02)));
+        s = ls.run(Math.min(deadline, Date.now() + Math.max(20, sweepMs * 3, (deadline - Date.now()) * 0.1)));
         x.set(ls.x);
       } else s = engineScore(E, x);
       offer(x, s);
+      decodeMs += Date.now() - td;
     }
     progress();
     if (gapClosed()) {
@@ -278,11 +279,6 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   }
   void bestBoundAt;
   finish(useMplp ? 'mplp' : 'maxProduct', gapClosed() ? 'gap' : stopReason, false, st.belief);
-
-  function gapClosedAgainst(s: MessageState): boolean {
-    void s;
-    return false;
-  }
 }
 
 /**
