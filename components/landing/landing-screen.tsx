@@ -4,6 +4,7 @@ import { useIsWide } from '@/hooks/use-is-wide';
 import { Body, Heading } from '@/components/ui/typography';
 import { LoomMark } from '@/components/nav/loom-mark';
 import { SignInForm } from './sign-in-form';
+import { SignInAlternatives } from '@/components/auth/sign-in-alternatives';
 
 const PROMISES = [
   ['Every shift covered', 'Qualified people on every seat, or a plain account of which seat stays open and why.'],
@@ -41,6 +42,7 @@ export function LandingScreen() {
           For coordinators, staff and admins of a workspace.
         </Body>
         <SignInForm />
+        <SignInAlternatives />
       </View>
     </ScrollView>
   );

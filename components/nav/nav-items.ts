@@ -10,6 +10,8 @@ export interface NavItem {
 export const NAV_ITEMS: NavItem[] = [
   { href: '/home', label: 'Overview', roles: ['admin', 'coordinator', 'staff'] },
   // Each feature adds its section here when its screens land.
+  { href: '/members', label: 'Members', roles: ['admin'] },
+  { href: '/account', label: 'Account', roles: ['admin', 'coordinator', 'staff'] },
 ];
 
 export const navItemsFor = (role: Session['role']) => NAV_ITEMS.filter((item) => role !== null && item.roles.includes(role));

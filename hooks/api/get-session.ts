@@ -1,11 +1,16 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch, ApiError } from './api-client';
 
+export type Role = 'admin' | 'coordinator' | 'staff';
+
+/** As server/auth/service.ts sessionView answers it. */
 export interface Session {
-  user: { id: number; email: string; displayName: string };
-  workspace: { id: number; name: string } | null;
-  role: 'admin' | 'coordinator' | 'staff' | null;
-  workspaces: Array<{ id: number; name: string; role: 'admin' | 'coordinator' | 'staff' }>;
+  user: { id: number; email: string; displayName: string; emailVerified: boolean; hasPassword: boolean; hasGoogle: boolean };
+  workspace: { id: number; name: string; timeZone: string } | null;
+  role: Role | null;
+  /** The person record linked to the user in the current workspace (staff see their shifts through it). */
+  personId: number | null;
+  workspaces: Array<{ id: number; name: string; role: Role }>;
 }
 
 /**

@@ -1,0 +1,3 @@
+import { ConfirmEmailScreen } from '@/components/auth/confirm-email-screen';
+
+export default ConfirmEmailScreen;

@@ -1,0 +1,3 @@
+import { AcceptInvitationScreen } from '@/components/auth/accept-invitation-screen';
+
+export default AcceptInvitationScreen;

@@ -1,0 +1,3 @@
+import { SignUpScreen } from '@/components/auth/sign-up-screen';
+
+export default SignUpScreen;

@@ -1,0 +1,3 @@
+import { ProfileScreen } from '@/components/auth/profile-screen';
+
+export default ProfileScreen;

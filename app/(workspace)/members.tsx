@@ -1,0 +1,3 @@
+import { MembersScreen } from '@/components/members/members-screen';
+
+export default MembersScreen;
