@@ -41,7 +41,11 @@ export class LocalSearch {
   private sums: Float64Array;
   private counting: boolean[];
 
-  constructor(private E: Engine, x: ArrayLike<number>, private random: () => number) {
+  /** Variables local search must not change (pins, forced alternatives). */
+  fixed: Uint8Array;
+
+  constructor(private E: Engine, x: ArrayLike<number>, private random: () => number, fixed?: Uint8Array) {
+    this.fixed = fixed ?? new Uint8Array(E.n);
     this.x = Int32Array.from(x);
     let maxK = 1;
     for (let i = 0; i < E.n; i++) if (E.card[i]! > maxK) maxK = E.card[i]!;
@@ -96,6 +100,7 @@ export class LocalSearch {
     let gain = 0;
     const acc = this.acc;
     for (const i of order) {
+      if (this.fixed[i]) continue;
       const K = this.E.card[i]!;
       this.local(i, acc);
       const cur = this.x[i]!;
@@ -114,6 +119,7 @@ export class LocalSearch {
     let gain = 0;
     const E = this.E, acc = this.acc, acc2 = this.acc2;
     for (const a of order) {
+      if (this.fixed[a]) continue;
       const K = E.card[a]!;
       this.local(a, acc);
       const cur = this.x[a]!;
@@ -130,7 +136,7 @@ export class LocalSearch {
         const hs = this.holders.get(E.keys.group[a]![v]!);
         if (!hs) continue;
         const b = hs.values().next().value as number | undefined;
-        if (b === undefined || b === a) continue;
+        if (b === undefined || b === a || this.fixed[b]) continue;
         const da = acc[v]! - base;
         this.set(a, v);
         this.local(b, acc2);
@@ -165,8 +171,8 @@ export class LocalSearch {
 }
 
 /** Improve x in place with moves and swaps; returns the big-M score. */
-export function improve(E: Engine, x: Int32Array, seed: number, deadline: number): number {
-  const ls = new LocalSearch(E, x, rng(seed));
+export function improve(E: Engine, x: Int32Array, seed: number, deadline: number, fixed?: Uint8Array): number {
+  const ls = new LocalSearch(E, x, rng(seed), fixed);
   const s = ls.run(deadline);
   x.set(ls.x);
   return s;

@@ -1,0 +1,122 @@
+/**
+ * Benchmark: `npm run bench:solver [-- --quick] [--only SUBSTRING]`.
+ * Generates the model families (Potts grids, frustrated cycles, random binary
+ * graphs, roster-like seat models at 10 / 60 / 200 people), then the roster cases
+ * from ./roster-cases when that file exists, solves each with its time limit and
+ * prints one markdown table row per instance: variables, factors, time to best,
+ * total time, score, bound, gap, and a reference optimum where one was computed
+ * (enumeration or javascript-lp-solver ILP), plus peak memory.
+ */
+import { existsSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Model } from '../model/types';
+import { solveMap, type MapResult } from '../inference/solve';
+import { enumerateModel } from '../inference/exact';
+import { frustratedCycle, pottsGrid, randomBinaryGraph, rosterModel, countPairwise } from './families';
+import { ilpOptimum } from './ilp';
+
+interface Case {
+  name: string;
+  build: () => Model;
+  timeLimitMs: number;
+  reference?: 'enumerate' | 'ilp';
+  target?: string;
+  /** Extra check after solving (roster cases: independent roster score). */
+  check?: (r: MapResult) => string;
+}
+
+const args = process.argv.slice(2);
+const quick = args.includes('--quick');
+const only = args.includes('--only') ? args[args.indexOf('--only') + 1] : undefined;
+
+const cases: Case[] = [
+  { name: 'potts-grid 10×10, K=3', build: () => pottsGrid({ w: 10, h: 10, k: 3, seed: 1 }), timeLimitMs: 2_000, reference: 'ilp' },
+  { name: 'potts-grid 30×30, K=5', build: () => pottsGrid({ w: 30, h: 30, k: 5, seed: 2 }), timeLimitMs: 5_000 },
+  { name: 'frustrated cycle n=16', build: () => frustratedCycle({ n: 16, seed: 3 }), timeLimitMs: 2_000, reference: 'enumerate' },
+  { name: 'frustrated cycle n=200', build: () => frustratedCycle({ n: 200, seed: 4 }), timeLimitMs: 2_000, reference: 'ilp' },
+  { name: 'random binary graph n=30, deg 3', build: () => randomBinaryGraph({ n: 30, degree: 3, seed: 5 }), timeLimitMs: 2_000, reference: 'ilp' },
+  { name: 'random binary graph n=200, deg 4', build: () => randomBinaryGraph({ n: 200, degree: 4, seed: 6 }), timeLimitMs: 5_000 },
+  { name: 'roster-like 10 people, 42 seats', build: () => rosterModel({ people: 10, days: 7, shiftsPerDay: 3, seatsPerShift: 2, seed: 7 }), timeLimitMs: 2_000 },
+  {
+    name: 'roster-like 60 people, 252 seats × 61 values',
+    build: () => rosterModel({ people: 60, days: 21, shiftsPerDay: 3, seatsPerShift: 4, seed: 8 }),
+    timeLimitMs: 2_000,
+    target: 'gap ≤ 0.5 % in < 2 s',
+  },
+  {
+    name: 'roster-like 200 people, 2016 seats × 201 values',
+    build: () => rosterModel({ people: 200, days: 28, shiftsPerDay: 3, seatsPerShift: 24, dayAllDifferent: true, weeklyCap: 5, seed: 9 }),
+    timeLimitMs: 15_000,
+    target: 'feasible, gap < 2 % in < 15 s, < 1 GB',
+  },
+];
+
+interface RosterBenchCaseLike {
+  name: string;
+  timeLimitMs: number;
+  target?: { maxGap: number; withinMs: number };
+  build(): { model: Model; check?(assignment: ArrayLike<number>): { score: number; feasible: boolean; openSeats?: number } };
+}
+
+const fmt = (v: number, d = 3): string => (v === -Infinity ? '−∞' : v === Infinity ? '∞' : Number.isFinite(v) ? v.toFixed(d) : String(v));
+const pct = (g: number): string => (Number.isFinite(g) ? `${(g * 100).toFixed(3)} %` : '∞');
+
+async function run(): Promise<void> {
+  const here = dirname(fileURLToPath(import.meta.url));
+  const all: Array<Case & { lazy?: () => { model: Model; check?: (a: ArrayLike<number>) => string } }> = [...cases];
+  for (const ext of ['roster-cases.ts', 'roster-cases.js']) {
+    if (!existsSync(join(here, ext))) continue;
+    const mod = (await import('./roster-cases')) as { rosterBenchCases?: () => RosterBenchCaseLike[] };
+    for (const rc of mod.rosterBenchCases?.() ?? []) {
+      let built: ReturnType<RosterBenchCaseLike['build']> | null = null;
+      const get = () => (built ??= rc.build());
+      all.push({
+        name: rc.name,
+        timeLimitMs: quick ? Math.min(rc.timeLimitMs, 3_000) : rc.timeLimitMs,
+        target: rc.target ? `gap ≤ ${rc.target.maxGap * 100} % in < ${rc.target.withinMs / 1000} s` : undefined,
+        build: () => get().model,
+        check: (r) => {
+          const c = get().check?.(r.assignment);
+          if (!c) return '';
+          const agree = Math.abs(c.score - r.score) <= 1e-6 * Math.max(1, Math.abs(r.score)) || c.score === r.score;
+          return `roster score ${fmt(c.score)} (${agree ? 'agrees' : 'DISAGREES'})`;
+        },
+      });
+    }
+    break;
+  }
+  const rows: string[] = [];
+  const head = '| instance | vars | factors (pairwise) | max K | time to best | time | score | bound | gap | reference | peak RSS | notes |';
+  rows.push(head, '|' + head.split('|').slice(1, -1).map(() => ' --- ').join('|') + '|');
+  console.log(rows.join('\n'));
+  for (const c of all) {
+    if (only && !c.name.includes(only)) continue;
+    const tb = Date.now();
+    const model = c.build();
+    const buildMs = Date.now() - tb;
+    const n = model.variables.length;
+    const maxK = Math.max(...model.variables.map((v) => v.cardinality));
+    const limit = quick ? Math.min(c.timeLimitMs, 2_000) : c.timeLimitMs;
+    const r = await solveMap(model, { timeLimitMs: limit, seed: 1 });
+    let ref = '—';
+    if (c.reference === 'enumerate') ref = `${fmt(enumerateModel(model).score)} (enumeration)`;
+    if (c.reference === 'ilp' && !quick) {
+      const t = Date.now();
+      const il = ilpOptimum(model, 60_000);
+      ref = `${fmt(il.score)} (ILP, javascript-lp-solver, ${((Date.now() - t) / 1000).toFixed(1)} s)`;
+    }
+    const notes = [`${r.method}`, r.optimal ? 'proven optimal' : r.stopReason, c.target ? `target: ${c.target}` : '', buildMs > 50 ? `build ${buildMs} ms` : '', c.check ? c.check(r) : '']
+      .filter(Boolean)
+      .join('; ');
+    const rss = `${Math.round(process.resourceUsage().maxRSS / 1024)} MB`;
+    const row = `| ${c.name} | ${n} | ${model.factors.length} (${countPairwise(model)}) | ${maxK} | ${(r.timeToBestMs / 1000).toFixed(2)} s | ${(r.timeMs / 1000).toFixed(2)} s | ${fmt(r.score)} | ${fmt(r.bound)} | ${pct(r.gap)} | ${ref} | ${rss} | ${notes} |`;
+    console.log(row);
+  }
+  console.log('\npeak RSS is the process maximum so far (cumulative over the rows above).');
+}
+
+run().catch((e: unknown) => {
+  console.error(`bench failed: ${(e as Error).stack ?? e}`);
+  process.exitCode = 1;
+});
