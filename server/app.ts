@@ -17,6 +17,7 @@ import { devMailRouter } from './dev/mail-page';
 import { peopleRouter, skillsRouter } from './people/router';
 import { pairingsRouter, rostersRouter } from './rosters/router';
 import { runsRouter } from './runs/router';
+import { feedsRouter, staffRouter } from './staff/router';
 
 export interface AppDeps {
   env: Env;
@@ -63,6 +64,8 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/rosters', rostersRouter(), rosterRunsRouter);
   api.use('/runs', runRouter);
   api.use('/pairings', pairingsRouter());
+  api.use('/me', staffRouter({ env, mailer }));
+  api.use('/feeds', feedsRouter());
   api.use('/health', healthRouter({ sequelize, version: env.version }));
   api.use(apiNotFound);
   app.use('/api', api);

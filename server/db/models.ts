@@ -1,4 +1,6 @@
 import { initRosterModels } from '../rosters/models';
+import { initBillingModels } from '../billing/models';
+import { initStaffModels } from '../staff/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
@@ -113,4 +115,6 @@ export function initModels(sequelize: Sequelize): void {
   Membership.belongsTo(Workspace, { foreignKey: 'workspaceId' });
   User.hasMany(Membership, { foreignKey: 'userId' });
   initRosterModels(sequelize);
+  initBillingModels(sequelize);
+  initStaffModels(sequelize);
 }
