@@ -84,7 +84,8 @@ export async function main(argv: string[], out: (s: string) => void = (s) => pro
   const { model, factorLines } = parsed;
   // a table of zeros makes every assignment impossible
   for (let f = 0; f < model.factors.length; f++) {
-    const t = (model.factors[f] as { table: number[] }).table;
+    const fac = model.factors[f]!;
+    const t = fac.kind === 'table' ? Array.from(fac.table) : [];
     if (t.length > 0 && t.every((v) => v === -Infinity)) {
       err(`error: ${args.file} line ${factorLines[f]}: zero-probability model: every entry of factor ${f}'s table is 0\n`);
       return 2;

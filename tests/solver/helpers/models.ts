@@ -55,7 +55,7 @@ export function makeRandomModel(o: Partial<RandomModelOptions> = {}): Model {
     factors.push({
       kind: 'counting',
       vars: [0, 1, 2, 3],
-      weights: [[[0, 2]], [[0, 1], [1, 2]], [[1, 1]], [[2, 3]]],
+      weights: [[[0, 2]], [[0, 1], [1, 2]], [[1, 1]], [[2 % opt.k, 3]]],
       score: (s: number) => (s > 5 ? -Infinity : -Math.abs(s - 3) * 0.7),
       id: 'count',
     });
