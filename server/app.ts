@@ -15,7 +15,8 @@ import { workspacesRouter } from './workspaces/router';
 import { createMailer, type Mailer } from './mail/mailer';
 import { devMailRouter } from './dev/mail-page';
 import { peopleRouter, skillsRouter } from './people/router';
-import { pairingsRouter, rostersRouter } from './rosters/router';
+import { rostersRouter } from './rosters/router';
+import { pairingsRouter } from './pairings/router';
 import { runsRouter } from './runs/router';
 import { feedsRouter, staffRouter } from './staff/router';
 

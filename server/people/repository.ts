@@ -1,4 +1,4 @@
-import { Op, UniqueConstraintError } from 'sequelize';
+import { Op, Sequelize, UniqueConstraintError, type WhereOptions } from 'sequelize';
 import { Person, Skill } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import { updateVersioned } from '../http/versioned';
@@ -16,8 +16,13 @@ export const toPersonDto = (p: Person): PersonDto => ({
 });
 
 export async function listSkills(workspaceId: number): Promise<SkillDto[]> {
-  const rows = await Skill.findAll({ where: { workspaceId }, order: [['name', 'ASC']] });
-  return rows.map((s) => ({ id: s.id, name: s.name }));
+  const [rows, people] = await Promise.all([
+    Skill.findAll({ where: { workspaceId }, order: [['name', 'ASC']] }),
+    Person.findAll({ where: { workspaceId }, attributes: ['skills'] }),
+  ]);
+  const holders = new Map<number, number>();
+  for (const p of people) for (const id of p.skills ?? []) holders.set(id, (holders.get(id) ?? 0) + 1);
+  return rows.map((s) => ({ id: s.id, name: s.name, people: holders.get(s.id) ?? 0 }));
 }
 
 export async function createSkill(workspaceId: number, name: string): Promise<SkillDto> {
@@ -34,13 +39,26 @@ export async function renameSkill(workspaceId: number, id: number, name: string)
   const s = await Skill.findOne({ where: { id, workspaceId } });
   if (!s) throw notFound('Skill');
   s.name = name;
-  await s.save();
+  try {
+    await s.save();
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) throw new HttpError(409, 'conflict', `There is already a skill called "${name}"`, [{ path: 'body.name', message: 'already exists' }]);
+    throw err;
+  }
   return { id: s.id, name: s.name };
 }
 
+/** Deleting a skill also takes it off everyone who held it (their version moves on), in one transaction. */
 export async function deleteSkill(workspaceId: number, id: number): Promise<void> {
-  const count = await Skill.destroy({ where: { id, workspaceId } });
-  if (count === 0) throw notFound('Skill');
+  await Skill.sequelize!.transaction(async (transaction) => {
+    const count = await Skill.destroy({ where: { id, workspaceId }, transaction });
+    if (count === 0) throw notFound('Skill');
+    const holders = await Person.findAll({ where: { workspaceId }, transaction, lock: transaction.LOCK.UPDATE });
+    for (const p of holders) {
+      if (!(p.skills ?? []).includes(id)) continue;
+      await Person.update({ skills: p.skills.filter((s) => s !== id), version: p.version + 1 }, { where: { id: p.id, workspaceId }, transaction });
+    }
+  });
 }
 
 /** Skill ids must belong to the same workspace; anything else is named as the field at fault. */
@@ -54,9 +72,15 @@ export async function checkSkillIds(workspaceId: number, skillIds: number[]): Pr
 
 export async function listPeople(
   workspaceId: number,
-  query: { page: number; pageSize: number; sort: 'name' | 'contractedHours' | 'createdAt'; order: 'asc' | 'desc'; q?: string },
+  query: { page: number; pageSize: number; sort: 'name' | 'contractedHours' | 'createdAt'; order: 'asc' | 'desc'; q?: string; skillId?: number },
 ): Promise<Page<PersonDto>> {
-  const where = { workspaceId, ...(query.q ? { name: { [Op.like]: `%${query.q.replace(/[%_\\]/g, '\\$&')}%` } } : {}) };
+  const like = query.q ? `%${query.q.trim().replace(/[%_\\]/g, '\\$&')}%` : null;
+  const where: WhereOptions = {
+    workspaceId,
+    ...(like ? { [Op.or]: [{ name: { [Op.like]: like } }, { email: { [Op.like]: like } }] } : {}),
+    // skills is a JSON array of ids; JSON_CONTAINS matches the number exactly.
+    ...(query.skillId ? { [Op.and]: [Sequelize.where(Sequelize.fn('JSON_CONTAINS', Sequelize.col('skills'), String(query.skillId)), 1)] } : {}),
+  };
   const { rows, count } = await Person.findAndCountAll({
     where,
     order: [[query.sort, query.order.toUpperCase()], ['id', 'ASC']],

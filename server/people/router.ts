@@ -3,6 +3,10 @@ import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
 import { createPersonBody, peopleListQuery, skillBody, updatePersonBody } from '../../shared/api/people';
 import * as repo from './repository';
+import { enforcePlanLimit } from '../billing/limits';
+import { peopleChanged } from '../billing/seat-sync';
+import { commitImport, csvUpload, previewImport } from './import';
+import { exportPeopleCsv } from './export';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -29,8 +33,22 @@ export function peopleRouter() {
   routes.get('/', COORDINATOR_UP, validate({ query: peopleListQuery }), async (req, res) => {
     res.json(await repo.listPeople(ws(req), req.query as never));
   });
-  routes.post('/', COORDINATOR_UP, validate({ body: createPersonBody }), async (req, res) => {
+  routes.post('/', COORDINATOR_UP, validate({ body: createPersonBody }), enforcePlanLimit('people'), async (req, res) => {
     res.status(201).json(await repo.createPerson(ws(req), req.body));
+    peopleChanged(ws(req));
+  });
+  // Declared before '/:id' so the words are not read as ids.
+  routes.get('/export', COORDINATOR_UP, async (req, res) => {
+    const csv = await exportPeopleCsv(ws(req));
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', 'attachment; filename="people.csv"');
+    res.send(csv);
+  });
+  routes.post('/import/preview', COORDINATOR_UP, csvUpload(), async (req, res) => {
+    res.json(await previewImport(ws(req), req.file));
+  });
+  routes.post('/import/commit', COORDINATOR_UP, csvUpload(), async (req, res) => {
+    res.status(201).json(await commitImport(ws(req), req.file));
   });
   routes.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     res.json(await repo.getPerson(ws(req), Number(req.params.id)));
@@ -41,6 +59,7 @@ export function peopleRouter() {
   routes.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     await repo.deletePerson(ws(req), Number(req.params.id));
     res.status(204).end();
+    peopleChanged(ws(req));
   });
   return routes.router;
 }
