@@ -212,8 +212,8 @@ export function parseMpe(text: string, n?: number): number[] {
   const head = r.next('MPE');
   if (head.text !== 'MPE') throw new UaiError(head.line, `expected MPE, found "${head.text}"`);
   let count = r.int('the number of variables');
-  const rest = toks.length - 2;
-  if (rest === count + 1 && count === 1) count = r.int('the number of variables'); // old format: sample count first
+  // older layout: a sample count (1) first, then N and the values
+  if (count === 1 && toks.length >= 4 && toks.length - 3 === Number(toks[2]!.text)) count = r.int('the number of variables');
   if (n !== undefined && count !== n) throw new UaiError(head.line + 1, `expected ${n} values, the result lists ${count}`);
   const out: number[] = [];
   for (let i = 0; i < count; i++) out.push(r.int(`value ${i}`));
