@@ -81,13 +81,13 @@ export async function main(argv: string[], out: (s: string) => void = (s) => pro
     else err(`error: ${args.file}: ${(e as Error).message.split('\n')[0]}\n`);
     return 2;
   }
-  const { model, factorLines } = parsed;
+  const { model, factorLines, valueLines } = parsed;
   // a table of zeros makes every assignment impossible
   for (let f = 0; f < model.factors.length; f++) {
     const fac = model.factors[f]!;
     const t = fac.kind === 'table' ? Array.from(fac.table) : [];
     if (t.length > 0 && t.every((v) => v === -Infinity)) {
-      err(`error: ${args.file} line ${factorLines[f]}: zero-probability model: every entry of factor ${f}'s table is 0\n`);
+      err(`error: ${args.file} line ${valueLines[f]}: zero-probability model: every entry of factor ${f}'s table is 0\n`);
       return 2;
     }
   }

@@ -73,6 +73,8 @@ export interface UaiParseResult {
   factorLines: number[];
   /** Line of each factor's scope in the preamble. */
   scopeLines: number[];
+  /** Line of the first value of each factor's table. */
+  valueLines: number[];
 }
 
 /** Parse a UAI MARKOV file. Each factor becomes a 'table' factor with points = ln(value). */
@@ -108,12 +110,14 @@ export function parseUai(text: string): UaiParseResult {
   }
   const factors: Factor[] = [];
   const factorLines: number[] = [];
+  const valueLines: number[] = [];
   for (let f = 0; f < F; f++) {
     const line = r.peekLine();
     const expected = scopes[f]!.reduce((a, v) => a * variables[v]!.cardinality, 1);
     const count = r.int(`the table size of factor ${f}`);
     if (count !== expected) throw new UaiError(line, `factor ${f} has a table of ${count} entries, but its scope needs ${expected}`);
     const table = new Array<number>(count);
+    valueLines.push(count > 0 ? r.peekLine() : line);
     for (let e = 0; e < count; e++) {
       const { v, line: ln } = r.num(`entry ${e} of factor ${f}'s table`);
       if (v < 0) throw new UaiError(ln, `factor ${f} has a negative value ${v}`);
@@ -125,7 +129,7 @@ export function parseUai(text: string): UaiParseResult {
   if (!r.done()) throw new UaiError(r.line, `unexpected extra content after ${F} factor tables`);
   const model: Model = { variables, factors };
   validateModel(model);
-  return { model, factorLines, scopeLines };
+  return { model, factorLines, scopeLines, valueLines };
 }
 
 /** Size above which a factor is not expanded into a UAI table. */

@@ -62,7 +62,7 @@ describe('solve CLI', () => {
 
     const zeros = await run([file('z.uai', 'MARKOV\n2\n2 2\n2\n1 0\n2 0 1\n\n2\n1 1\n\n4\n0 0 0 0\n')]);
     expect(zeros.code).toBe(2);
-    expect(zeros.err).toMatch(/line 10: zero-probability/);
+    expect(zeros.err).toMatch(/line 12: zero-probability/);
 
     // every table has mass, but no joint assignment does: x0 must be 0 and x1 must differ... and equal
     const conflict = await run([file('c.uai', 'MARKOV\n2\n2 2\n3\n1 0\n2 0 1\n2 0 1\n\n2\n1 0\n\n4\n1 0 0 1\n\n4\n0 1 1 0\n')]);
