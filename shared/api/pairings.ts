@@ -19,6 +19,8 @@ export interface PairingDto {
   neverTogether: boolean;
   status: PairingStatus;
   reason: string | null;
+  /** The staff member who asked for it (null when a coordinator made it). */
+  requestedByName: string | null;
   version: number;
   updatedAt: string;
 }

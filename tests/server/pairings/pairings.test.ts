@@ -3,6 +3,7 @@ import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp, makePerson, makeWorkspace, signedIn } from '../auth/helpers';
 import { PairingRow } from '../../../server/rosters/models';
+import { PairingRequestRow } from '../../../server/staff/models';
 import type { Workspace } from '../../../server/db/models';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
@@ -54,11 +55,11 @@ describe('pairings API for coordinators: table, search, inline edits and staff r
 
   it('shows staff requests with their reason, and approving one makes it reach the solver input', async () => {
     // A staff member's request as the staff side (issue 7) stores it: status requested, with a reason.
-    const request = await PairingRow.create({ workspaceId: workspace.id, personAId: people['Ada Quill'], personBId: people['Corra Vane'], score: 3, status: 'requested', reason: 'Corra is showing me the medication round' });
+    const request = await PairingRequestRow.create({ workspaceId: workspace.id, personAId: people['Ada Quill'], personBId: people['Corra Vane'], score: 3, status: 'requested', reason: 'Corra is showing me the medication round', requestedByPersonId: people['Ada Quill'] });
     const declined = await PairingRow.create({ workspaceId: workspace.id, personAId: people['Brin Tallow'], personBId: people['Dell Moss'], score: -2, status: 'requested', reason: 'We disagree about breaks' });
     const requested = await coordinator.get('/api/pairings?status=requested');
     expect(requested.body.items).toEqual([
-      expect.objectContaining({ id: request.id, personAName: 'Ada Quill', personBName: 'Corra Vane', status: 'requested', reason: 'Corra is showing me the medication round', score: 3 }),
+      expect.objectContaining({ id: request.id, personAName: 'Ada Quill', personBName: 'Corra Vane', status: 'requested', reason: 'Corra is showing me the medication round', score: 3, requestedByName: 'Ada Quill' }),
       expect.objectContaining({ id: declined.id, personAName: 'Brin Tallow', personBName: 'Dell Moss', reason: 'We disagree about breaks' }),
     ]);
 
@@ -79,6 +80,21 @@ describe('pairings API for coordinators: table, search, inline edits and staff r
     expect((await coordinator.get('/api/pairings?status=declined')).body.items.map((p: { id: number }) => p.id)).toEqual([declined.id]);
     // Approving twice from two screens: the second sees a conflict, not a silent overwrite.
     expect((await coordinator.patch(`/api/pairings/${request.id}`).send({ status: 'declined', version: request.version })).status).toBe(409);
+  });
+
+  it("shows a request made through the staff side's own route, and the staff member sees the decision", async () => {
+    const { agent: staff, user } = await signedIn(app, workspace, 'staff');
+    const me = await makePerson(workspace, { name: 'Evan Pell', userId: user.id });
+    const asked = await staff.post('/api/me/pairings').send({ colleagueId: people['Dell Moss'], together: false, reason: 'We clash on handovers' });
+    expect(asked.status).toBe(201);
+    const seen = (await coordinator.get('/api/pairings?status=requested')).body.items.find((p: { personAId: number; personBId: number }) => [p.personAId, p.personBId].includes(me.id));
+    expect(seen).toMatchObject({ personAName: 'Dell Moss', personBName: 'Evan Pell', reason: 'We clash on handovers', requestedByName: 'Evan Pell', status: 'requested' });
+    expect(seen.score).toBeLessThan(0);
+    const approved = await coordinator.patch(`/api/pairings/${seen.id}`).send({ status: 'approved', score: -5, version: seen.version });
+    expect(approved.status).toBe(200);
+    expect(approved.body).toMatchObject({ status: 'approved', score: -5 });
+    const mine = await staff.get('/api/me/pairings');
+    expect(JSON.stringify(mine.body)).toContain('approved');
   });
 
   it('deletes a pairing; another workspace cannot see, edit or delete it', async () => {
