@@ -49,6 +49,11 @@ export type CompiledRoster = {
   termConstants: Record<TermName, number>;
   /** Minutes per unit of hour-weights in counting factors. */
   minuteUnit: number;
+  /**
+   * Factors that carry several terms (identical counting factors merged, e.g. weekly rest and
+   * the 48 h limit when all shifts have one length): factor index → each term's own table.
+   */
+  parts: ({ term: TermName; table: Float64Array }[] | undefined)[];
 };
 
 function gcd(a: number, b: number): number {
@@ -132,7 +137,11 @@ export function compileRoster(roster: Roster): CompiledRoster {
     labels: domains[s].map((p) => (p === OPEN ? 'open' : roster.people[p].name)),
     keys: Int32Array.from(domains[s]),
   }));
-  const valueOf: Map<number, number>[] = domains.map((d) => new Map(d.map((p, x) => [p, x])));
+  // value index of person p in seat s, or -1: flat arrays, looked up millions of times on large rosters
+  const nPeople = roster.people.length;
+  const valueTable = new Int32Array(domains.length * nPeople).fill(-1);
+  domains.forEach((d, s) => d.forEach((p, x) => p !== OPEN && (valueTable[s * nPeople + p] = x)));
+  const valueAt = (s: number, p: number): number => valueTable[s * nPeople + p];
 
   for (const h of hardUnary) {
     const table = new Float64Array(domains[h.v].length);
@@ -204,7 +213,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       } else {
         for (const a of sa)
           for (const b of sb)
-            if (domains[a].some((p) => p !== OPEN && valueOf[b].has(p)))
+            if (domains[a].some((p) => p !== OPEN && valueAt(b, p) >= 0))
               factors.push({ kind: 'sameKey', a, b, weight: -rules.minRest.weight, id: `minRest:${first.id}:${second.id}`, label } satisfies SameKeyFactor);
       }
     }
@@ -225,12 +234,12 @@ export function compileRoster(roster: Roster): CompiledRoster {
       let hasB = false;
       for (const s of seatsOfShift[sh.index]) {
         const ws: [number, number][] = [];
-        const xa = valueOf[s].get(a);
-        const xb = valueOf[s].get(b);
-        if (xa !== undefined) ws.push([xa, 1]);
-        if (xb !== undefined) ws.push([xb, 1]);
-        hasA ||= xa !== undefined;
-        hasB ||= xb !== undefined;
+        const xa = valueAt(s, a);
+        const xb = valueAt(s, b);
+        if (xa >= 0) ws.push([xa, 1]);
+        if (xb >= 0) ws.push([xb, 1]);
+        hasA ||= xa >= 0;
+        hasB ||= xb >= 0;
         if (ws.length) {
           vars.push(s);
           weights.push(ws);
@@ -255,23 +264,74 @@ export function compileRoster(roster: Roster): CompiledRoster {
   for (const f of facts) if (seatsOfShift[f.index].length) unit = gcd(unit, f.minutes);
   unit = Math.max(1, unit);
 
+  // Hard weekly limits bound how much anyone can feasibly work in a span of days. Person-level
+  // tables stop there (the model type repeats a table's last entry for larger sums), which
+  // keeps the counting DPs small: sums past the cap break a hard factor anyway, so no
+  // feasible score changes. Caps in shifts (count) and in weight units (minutes / unit).
+  let maxShiftMinutes = 0;
+  let minShiftMinutes = Infinity;
+  for (const f of facts)
+    if (seatsOfShift[f.index].length) {
+      maxShiftMinutes = Math.max(maxShiftMinutes, f.minutes);
+      minShiftMinutes = Math.min(minShiftMinutes, f.minutes);
+    }
+  const capFor = (spanDays: number, minutesWeighted: boolean): number => {
+    let countCap = Infinity;
+    let unitCap = Infinity;
+    if (on('weeklyRest') && rules.weeklyRest.hard) countCap = Math.min(countCap, Math.ceil(spanDays / rules.weeklyRest.days) * rules.weeklyRest.maxShifts);
+    if (on('maxHoursPer7Days') && rules.maxHoursPer7Days.hard) {
+      const blocks = Math.ceil(spanDays / 7);
+      countCap = Math.min(countCap, blocks * Math.floor((rules.maxHoursPer7Days.hours * 60) / minShiftMinutes));
+      unitCap = Math.min(unitCap, blocks * Math.floor((rules.maxHoursPer7Days.hours * 60) / unit));
+    }
+    if (!minutesWeighted) return countCap;
+    return Math.min(unitCap, countCap === Infinity ? Infinity : Math.ceil((countCap * maxShiftMinutes) / unit));
+  };
+
+  // [[x, w]] lists shared between factors: the same person in the same seat weighs the same in
+  // every window (saves millions of tiny arrays on large rosters).
+  const onesCache: ([number, number][] | undefined)[] = [];
+  const weightList = (s: number, x: number, w: number): [number, number][] => {
+    if (w !== 1) return [[x, w]];
+    const key = s * (nPeople + 1) + x;
+    return (onesCache[key] ??= [[x, 1]]);
+  };
+
+  /** Merged counting factors: same person, same vars and weights (e.g. weekly rest and 48 h with equal shifts). */
+  const mergeable = new Map<string, number>();
+  const parts: ({ term: TermName; table: Float64Array }[] | undefined)[] = [];
+
   /** Counting factor over the seats in `seats` that person p could take; score(sum) from `scoreAt`. */
-  const personCount = (term: TermName, detail: string, label: string, p: number, seats: number[], weightOf: (s: number) => number, scoreAt: (sum: number) => number, hard: boolean) => {
+  const personCount = (
+    term: TermName,
+    detail: string,
+    label: string,
+    p: number,
+    seats: number[],
+    weightOf: (s: number) => number,
+    scoreAt: (sum: number) => number,
+    hard: boolean,
+    cap: number,
+    mergeKey?: string,
+  ) => {
     const vars: number[] = [];
     const weights: [number, number][][] = [];
     let maxSum = 0;
+    let allOnes = true;
     for (const s of seats) {
-      const x = valueOf[s].get(p);
-      if (x === undefined) continue;
+      const x = valueAt(s, p);
+      if (x < 0) continue;
       const w = weightOf(s);
       if (w === 0) continue;
       vars.push(s);
-      weights.push([[x, w]]);
+      weights.push(weightList(s, x, w));
       maxSum += w;
+      if (w !== 1) allOnes = false;
     }
-    const table = new Float64Array(maxSum + 1);
+    const length = Math.min(maxSum, cap) + 1;
+    const table = new Float64Array(length);
     let varies = false;
-    for (let k = 0; k <= maxSum; k++) {
+    for (let k = 0; k < length; k++) {
       table[k] = scoreAt(k);
       if (table[k] !== table[0]) varies = true;
     }
@@ -279,7 +339,21 @@ export function compileRoster(roster: Roster): CompiledRoster {
       termConstants[term] += table[0];
       return;
     }
-    // constant part kept in the table: the factor's score at every sum is the rule's points
+    const key = mergeKey !== undefined && allOnes ? `${mergeKey}:${hard}:${vars.length}:${length}` : undefined;
+    const at = key !== undefined ? mergeable.get(key) : undefined;
+    if (at !== undefined) {
+      const f = factors[at] as CountingFactor;
+      const t = f.score as Float64Array;
+      for (let k = 0; k < length; k++) t[k] += table[k];
+      parts[at]!.push({ term, table });
+      f.id = `${termOf(f)}+${term}:${detail}`;
+      f.label = `${f.label}; ${label}`;
+      return;
+    }
+    if (key !== undefined) {
+      mergeable.set(key, factors.length);
+      parts[factors.length] = [{ term, table: Float64Array.from(table) }];
+    }
     factors.push({ kind: 'counting', vars, weights, score: table, hard: hard || undefined, id: `${term}:${detail}`, label } satisfies CountingFactor);
   };
   const overPenalty = (term: RuleName, limit: number, toUnits: (sum: number) => number) => (sum: number) => {
@@ -289,24 +363,27 @@ export function compileRoster(roster: Roster): CompiledRoster {
   const minutesW = (s: number) => facts[seatShift[s]].minutes / unit;
   const one = () => 1;
 
-  const windowRule = (term: 'weeklyRest' | 'maxHoursPer7Days' | 'maxConsecutiveDays' | 'maxNightsInRow', length: number, pick: (f: ShiftFacts) => boolean, weightOf: (s: number) => number, limit: number, toUnits: (sum: number) => number) => {
+  const windowRule = (term: 'weeklyRest' | 'maxHoursPer7Days' | 'maxConsecutiveDays' | 'maxNightsInRow', length: number, pick: (f: ShiftFacts) => boolean, weightOf: (s: number) => number, limit: number, toUnits: (sum: number) => number, nightsOnly: boolean) => {
     if (!on(term)) return;
+    const minutesWeighted = term === 'maxHoursPer7Days';
     for (const w of rollingWindows(days, length)) {
       const seats: number[] = [];
       for (let s = 0; s < roster.seats.length; s++) {
         const f = facts[seatShift[s]];
         if (f.day >= w.first && f.day <= w.last && pick(f)) seats.push(s);
       }
+      // the two rules that give the caps are never capped themselves (that would be circular)
+      const cap = term === 'weeklyRest' || term === 'maxHoursPer7Days' ? Infinity : capFor(w.last - w.first + 1, minutesWeighted);
       roster.people.forEach((person, p) =>
-        personCount(term, `${person.id}:${w.first}`, `${term} for ${person.name} from day ${w.first + 1}`, p, seats, weightOf, overPenalty(term, limit, toUnits), rules[term].hard),
+        personCount(term, `${person.id}:${w.first}`, `${term} for ${person.name} from day ${w.first + 1}`, p, seats, weightOf, overPenalty(term, limit, toUnits), rules[term].hard, cap, `${w.first}:${w.last}:${nightsOnly}:${p}`),
       );
     }
   };
   const ident = (k: number) => k;
-  windowRule('weeklyRest', rules.weeklyRest.days, () => true, one, rules.weeklyRest.maxShifts, ident);
-  windowRule('maxHoursPer7Days', 7, () => true, minutesW, rules.maxHoursPer7Days.hours, (k) => (k * unit) / 60);
-  windowRule('maxConsecutiveDays', rules.maxConsecutiveDays.days + 1, () => true, one, rules.maxConsecutiveDays.days, ident);
-  windowRule('maxNightsInRow', rules.maxNightsInRow.nights + 1, (f) => f.night, one, rules.maxNightsInRow.nights, ident);
+  windowRule('weeklyRest', rules.weeklyRest.days, () => true, one, rules.weeklyRest.maxShifts, ident, false);
+  windowRule('maxHoursPer7Days', 7, () => true, minutesW, rules.maxHoursPer7Days.hours, (k) => (k * unit) / 60, false);
+  windowRule('maxConsecutiveDays', rules.maxConsecutiveDays.days + 1, () => true, one, rules.maxConsecutiveDays.days, ident, false);
+  windowRule('maxNightsInRow', rules.maxNightsInRow.nights + 1, (f) => f.night, one, rules.maxNightsInRow.nights, ident, true);
 
   const allSeats = roster.seats.map((_, s) => s);
   if (on('contractedHours')) {
@@ -317,14 +394,14 @@ export function compileRoster(roster: Roster): CompiledRoster {
       personCount('contractedHours', person.id, `contracted hours of ${person.name}`, p, allSeats, minutesW, (k) => {
         const dev = Math.abs((k * unit) / 60 - target) - r.toleranceHours;
         return dev > 0 ? (r.hard ? -Infinity : -r.weight * dev) : 0;
-      }, r.hard);
+      }, r.hard, capFor(days, true));
     });
   }
   const fair = (term: 'fairNights' | 'fairWeekends', pick: (f: ShiftFacts) => boolean) => {
     if (!on(term)) return;
     const seats = allSeats.filter((s) => pick(facts[seatShift[s]]));
     for (const [p, share] of fairShares(roster, facts, pick))
-      personCount(term, roster.people[p].id, `${term} for ${roster.people[p].name}`, p, seats, one, overPenalty(term, share, ident), rules[term].hard);
+      personCount(term, roster.people[p].id, `${term} for ${roster.people[p].name}`, p, seats, one, overPenalty(term, share, ident), rules[term].hard, capFor(days, false));
   };
   fair('fairNights', (f) => f.night);
   fair('fairWeekends', (f) => f.weekend);
@@ -370,12 +447,22 @@ export function compileRoster(roster: Roster): CompiledRoster {
     personIndex,
     termConstants,
     minuteUnit: unit,
+    parts,
   };
 }
 
 /** The model's score split by term (same names as scoreRoster's terms), for a value assignment. */
 export function modelTerms(compiled: CompiledRoster, x: ArrayLike<number>): Record<TermName, number> {
   const out = { ...compiled.termConstants };
-  for (const f of compiled.model.factors) out[termOf(f)] += factorScore(compiled.model, f, x);
+  compiled.model.factors.forEach((f, i) => {
+    const split = compiled.parts[i];
+    if (split && f.kind === 'counting') {
+      let sum = 0;
+      f.vars.forEach((v, j) => {
+        for (const [val, w] of f.weights[j]) if (val === x[v]) sum += w;
+      });
+      for (const p of split) out[p.term] += p.table[Math.min(sum, p.table.length - 1)];
+    } else out[termOf(f)] += factorScore(compiled.model, f, x);
+  });
   return out;
 }
