@@ -18,6 +18,7 @@ import { peopleRouter, skillsRouter } from './people/router';
 import { rostersRouter } from './rosters/router';
 import { pairingsRouter } from './pairings/router';
 import { runsRouter } from './runs/router';
+import { billingRouter } from './billing/router';
 import { feedsRouter, staffRouter } from './staff/router';
 
 export interface AppDeps {
@@ -47,6 +48,8 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   );
 
   const api = express.Router();
+  // The payment service signs the exact bytes it sends, so its webhook gets the raw body (before the JSON parser).
+  api.use('/billing/webhook', express.raw({ type: () => true, limit: '1mb' }));
   api.use(express.json({ limit: '1mb' }));
   // Session, then the user (passport), then req.auth (workspace and role), then the CSRF header check.
   const passport = createPassport(env);
@@ -67,6 +70,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
+  api.use('/billing', billingRouter(env));
   api.use('/health', healthRouter({ sequelize, version: env.version }));
   api.use(apiNotFound);
   app.use('/api', api);

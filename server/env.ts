@@ -39,6 +39,17 @@ const envSchema = z.object({
   // Failed sign-ins allowed per 15 minutes, per account and per client address.
   ROTALOOM_SIGNIN_MAX_PER_ACCOUNT: z.coerce.number().int().min(1).default(10),
   ROTALOOM_SIGNIN_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(50),
+  // Payments through the stripe SDK: a secret key turns billing on; host/port/protocol point it at the
+  // local fake (without them the SDK talks to the real service).
+  ROTALOOM_STRIPE_SECRET_KEY: z.string().optional(),
+  ROTALOOM_STRIPE_WEBHOOK_SECRET: z.string().optional(),
+  ROTALOOM_STRIPE_HOST: z.string().optional(),
+  ROTALOOM_STRIPE_PORT: z.coerce.number().int().min(1).max(65535).optional(),
+  ROTALOOM_STRIPE_PROTOCOL: z.enum(['http', 'https']).optional(),
+  /** A price to use instead of finding or creating the team plan's price by its lookup key. */
+  ROTALOOM_STRIPE_PRICE_ID: z.string().optional(),
+  /** How long people changes must settle before the seat count is synced. */
+  ROTALOOM_SEAT_SYNC_DELAY_MS: z.coerce.number().int().min(0).default(5000),
 });
 
 export interface Env {
@@ -59,6 +70,15 @@ export interface Env {
   };
   google: { clientId: string; clientSecret: string; authUrl?: string; tokenUrl?: string; profileUrl?: string } | null;
   signInLimits: { perAccount: number; perAddress: number };
+  billing: {
+    secretKey: string;
+    webhookSecret: string;
+    host?: string;
+    port?: number;
+    protocol?: 'http' | 'https';
+    priceId?: string;
+    seatSyncDelayMs: number;
+  } | null;
 }
 
 /** Reads and checks the environment once; a bad value stops the process with the variable named. */
@@ -107,6 +127,18 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
           }
         : null,
     signInLimits: { perAccount: e.ROTALOOM_SIGNIN_MAX_PER_ACCOUNT, perAddress: e.ROTALOOM_SIGNIN_MAX_PER_ADDRESS },
+    billing:
+      e.ROTALOOM_STRIPE_SECRET_KEY && e.ROTALOOM_STRIPE_WEBHOOK_SECRET
+        ? {
+            secretKey: e.ROTALOOM_STRIPE_SECRET_KEY,
+            webhookSecret: e.ROTALOOM_STRIPE_WEBHOOK_SECRET,
+            host: e.ROTALOOM_STRIPE_HOST,
+            port: e.ROTALOOM_STRIPE_PORT,
+            protocol: e.ROTALOOM_STRIPE_PROTOCOL,
+            priceId: e.ROTALOOM_STRIPE_PRICE_ID,
+            seatSyncDelayMs: e.ROTALOOM_SEAT_SYNC_DELAY_MS,
+          }
+        : null,
   };
 }
 

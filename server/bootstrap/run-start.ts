@@ -41,6 +41,8 @@ async function main(): Promise<void> {
     // Outside production the server talks to the fakes for every service not configured for real.
     const appEnv = env.nodeEnv === 'production' ? env : readEnv({ ...process.env, NODE_ENV: env.nodeEnv, ...fakeEnv(fakes) });
     if (appEnv !== env) log(`Google sign-in fake at ${fakes.google.url}; sent mail at ${env.publicUrl}/dev/mail`);
+    fakes.stripe.webhookUrl = `http://${env.host === '0.0.0.0' ? '127.0.0.1' : env.host}:${env.port}/api/billing/webhook`;
+    if (appEnv.billing?.host) log(`payments fake at ${fakes.stripe.url} (test cards: 4242 4242 4242 4242 succeeds, 4000 0000 0000 0002 is declined)`);
     const app = createApp({ env: appEnv, sequelize });
     const server: Server = await new Promise((resolve, reject) => {
       const s = app.listen(env.port, env.host, () => resolve(s));

@@ -93,6 +93,7 @@ async function main(): Promise<number> {
       cleanups.push(() => fakes.stop());
       // A known port, so links in e-mails (built from the public URL) point at this server.
       const appPort = await freePort();
+      fakes.stripe.webhookUrl = `http://127.0.0.1:${appPort}/api/billing/webhook`;
       const env = readEnv({ ...childEnv, ROTALOOM_DB_NAME: 'rotaloom_e2e', ROTALOOM_PORT: String(appPort), ...fakeEnv(fakes, {}) });
       const sequelize = await prepareDatabase(env.db, (l) => log(`e2e database: ${l}`));
       cleanups.push(() => sequelize.close());
@@ -113,6 +114,7 @@ async function main(): Promise<number> {
         ...childEnv,
         ROTALOOM_E2E_URL: url,
         ROTALOOM_MAIL_FAKE_URL: `http://127.0.0.1:${fakes.mail.httpPort}`,
+        ROTALOOM_STRIPE_FAKE_URL: fakes.stripe.url,
       });
       add(readVitestJson(out), 'browser tests');
     }

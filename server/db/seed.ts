@@ -4,6 +4,7 @@ import { Membership, Person, User, Workspace, type Role } from './models';
 import { makeWillowmereRoster, WILLOWMERE_PATTERNS } from '../../shared/demo/willowmere';
 import { shiftPatternSchema } from '../../shared/roster/schema';
 import { importRosterJson } from '../rosters/import';
+import { grantTeamPlan } from '../billing/service';
 
 /** Shown by `npm start` and used by the browser tests; an invented workspace with invented people. */
 export const DEMO_PASSWORD = 'willowmere-demo';
@@ -35,6 +36,8 @@ export async function seedDemoIfEmpty(sequelize: Sequelize): Promise<boolean> {
     for (const [name, userId] of users) {
       await Person.update({ userId }, { where: { workspaceId: workspace.id, name }, transaction });
     }
+    // 18 people are more than the free plan allows: the demo runs on the team plan (without a subscription at the payment service).
+    await grantTeamPlan(workspace.id, await Person.count({ where: { workspaceId: workspace.id }, transaction }), transaction);
   });
   return true;
 }

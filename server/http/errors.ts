@@ -11,6 +11,10 @@ export type ErrorCode =
   | 'gone'
   | 'rate_limited'
   | 'payload_too_large'
+  | 'plan_limit'
+  | 'payment_overdue'
+  | 'payment_service_unavailable'
+  | 'bad_signature'
   | 'internal';
 
 /** One field at fault: its path in the request (`body.period.end`) and what is wrong with it. */

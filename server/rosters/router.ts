@@ -17,6 +17,7 @@ import {
   wishBody,
 } from '../../shared/api/rosters';
 import * as repo from './repository';
+import { enforcePlanLimit } from '../billing/limits';
 import { assembleRoster } from './assemble';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
@@ -28,7 +29,7 @@ export function rostersRouter() {
   r.get('/', COORDINATOR_UP, validate({ query: rostersListQuery }), async (req, res) => {
     res.json(await repo.listRosters(ws(req), req.query as never));
   });
-  r.post('/', COORDINATOR_UP, validate({ body: createRosterBody }), async (req, res) => {
+  r.post('/', COORDINATOR_UP, validate({ body: createRosterBody }), enforcePlanLimit('activeRosters'), async (req, res) => {
     res.status(201).json(await repo.createRoster(ws(req), req.body));
   });
   r.get('/:rosterId', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {

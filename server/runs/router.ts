@@ -8,6 +8,7 @@ import { assembleRoster } from '../rosters/assemble';
 import { rosterIds, parseRosterId } from '../rosters/ids';
 import { AssignmentRow, RunRow } from '../rosters/models';
 import { finite } from './execute';
+import { requireRunsAllowed } from '../billing/limits';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -40,7 +41,7 @@ async function solvableRoster(workspaceId: number, rosterId: number) {
 
 export function runsRouter() {
   const routes = new ApiRoutes('/rosters');
-  routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), async (req, res) => {
+  routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), requireRunsAllowed, async (req, res) => {
     const workspaceId = ws(req);
     const rosterId = Number(req.params.rosterId);
     const { roster, version } = await solvableRoster(workspaceId, rosterId);

@@ -2,6 +2,7 @@ import type { QueryInterface } from 'sequelize';
 import * as m0001 from './0001-workspaces-users-people';
 import * as m0002 from './0002-accounts';
 import * as m0003 from './0003-rosters';
+import * as m0004 from './0004-billing';
 import * as m0005 from './0005-staff-feeds';
 
 export interface Migration {
@@ -15,5 +16,6 @@ export const migrations: Migration[] = [
   { name: '0001-workspaces-users-people', ...m0001 },
   { name: '0002-accounts', ...m0002 },
   { name: '0003-rosters', ...m0003 },
+  { name: '0004-billing', ...m0004 },
   { name: '0005-staff-feeds', ...m0005 },
 ];

@@ -5,6 +5,7 @@ import { createApp } from '../../../server/app';
 import { Membership, Person, User, Workspace, type Role } from '../../../server/db/models';
 import type { Mailer, OutgoingMail } from '../../../server/mail/mailer';
 import type { TestDb } from '../helpers/test-db';
+import { grantTeamPlan } from '../../../server/billing/service';
 
 export const PASSWORD = 'correct horse battery';
 // One hash for every fixture user: bcrypt is slow on purpose, fixtures need not be.
@@ -38,8 +39,11 @@ export function agent(app: Express | import('node:http').Server) {
 let counter = 0;
 export const uniqueEmail = (prefix = 'user') => `${prefix}.${Date.now().toString(36)}.${++counter}@example.test`;
 
-export async function makeWorkspace(name = `Workspace ${++counter}`) {
-  return Workspace.create({ name, timeZone: 'Europe/London' });
+/** Fixture workspaces are on the team plan (no plan limits) unless a test asks for the free one; tests/server/billing checks the limits. */
+export async function makeWorkspace(name = `Workspace ${++counter}`, options: { plan?: 'free' | 'team' } = {}) {
+  const workspace = await Workspace.create({ name, timeZone: 'Europe/London' });
+  if ((options.plan ?? 'team') === 'team') await grantTeamPlan(workspace.id, 0);
+  return workspace;
 }
 
 export async function makeUser(overrides: { email?: string; displayName?: string; workspace?: Workspace; role?: Role; emailVerified?: boolean; passwordHash?: string | null } = {}) {

@@ -1,0 +1,85 @@
+import { Op, type Transaction } from 'sequelize';
+import type { RequestHandler } from 'express';
+import { Person } from '../db/models';
+import { Roster } from '../rosters/models';
+import { BillingAccount } from './models';
+import { PAYMENT_OVERDUE_CODE, PLAN_LIMIT_CODE, PLANS, planForStatus, type LimitName, type PlanId, type SubscriptionStatus } from '../../shared/billing/plans';
+
+export interface Usage {
+  people: number;
+  activeRosters: number;
+}
+
+export interface Standing {
+  plan: PlanId;
+  status: SubscriptionStatus;
+  account: BillingAccount | null;
+}
+
+/** The plan a workspace is on now: no billing row, or a subscription that is not live, means the free plan. */
+export async function standingOf(workspaceId: number, transaction?: Transaction): Promise<Standing> {
+  const account = await BillingAccount.findByPk(workspaceId, { transaction });
+  const status = (account?.status ?? 'none') as SubscriptionStatus;
+  return { plan: planForStatus(status), status, account };
+}
+
+/** People count as seats; a roster is active until it is published (draft or solved). */
+export async function usageOf(workspaceId: number, transaction?: Transaction): Promise<Usage> {
+  const [people, activeRosters] = await Promise.all([
+    Person.count({ where: { workspaceId }, transaction }),
+    Roster.count({ where: { workspaceId, status: { [Op.ne]: 'published' } }, transaction }),
+  ]);
+  return { people, activeRosters };
+}
+
+const LIMIT_WORDS: Record<LimitName, { noun: (n: number) => string; what: string }> = {
+  people: { noun: (n) => `${n} ${n === 1 ? 'person' : 'people'}`, what: 'add more people' },
+  activeRosters: { noun: (n) => `${n} roster${n === 1 ? '' : 's'} in progress (not yet published)`, what: 'start another roster, or publish the one in progress first' },
+};
+
+/**
+ * Refuses to create one more of `limit` when the workspace's plan is full: 402 with a JSON body
+ * naming the limit, its size and the current count, and the hint where to upgrade. Used by the
+ * people and roster create routes, so the limit holds whatever client calls the API.
+ */
+export function enforcePlanLimit(limit: LimitName): RequestHandler {
+  return async (req, res, next) => {
+    const workspaceId = req.auth?.workspaceId;
+    if (!workspaceId) return next();
+    const { plan } = await standingOf(workspaceId);
+    const max = PLANS[plan].limits[limit];
+    if (max === null) return next();
+    const current = (await usageOf(workspaceId))[limit];
+    if (current < max) return next();
+    const words = LIMIT_WORDS[limit];
+    const hint = req.auth?.role === 'admin' ? `Move to the ${PLANS.team.name} plan under Plan & billing to ${words.what}.` : `An admin of this workspace can move it to the ${PLANS.team.name} plan to ${words.what}.`;
+    res.status(402).json({
+      error: {
+        code: PLAN_LIMIT_CODE,
+        message: `The ${PLANS[plan].name} plan allows ${words.noun(max)}, and this workspace has ${current}. ${hint}`,
+        fields: [{ path: `plan.${limit}`, message: `limit of ${max} reached` }],
+        limit: { name: limit, max, current, plan },
+        upgrade: { plan: 'team', path: '/billing' },
+      },
+    });
+  };
+}
+
+/** Overdue payment: everything stays readable, but no new solver runs until it is settled. */
+export const requireRunsAllowed: RequestHandler = async (req, res, next) => {
+  const workspaceId = req.auth?.workspaceId;
+  if (!workspaceId) return next();
+  const { status } = await standingOf(workspaceId);
+  if (status !== 'past_due') return next();
+  res.status(402).json({
+    error: {
+      code: PAYMENT_OVERDUE_CODE,
+      message:
+        req.auth?.role === 'admin'
+          ? 'The last payment for this workspace failed, so new runs are paused. Rosters and results stay readable. Update the card under Plan & billing to carry on.'
+          : 'The last payment for this workspace failed, so new runs are paused. Rosters and results stay readable. An admin can settle it under Plan & billing.',
+      fields: [{ path: 'plan.status', message: 'past_due' }],
+      upgrade: { plan: 'team', path: '/billing' },
+    },
+  });
+};
