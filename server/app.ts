@@ -20,6 +20,8 @@ import { pairingsRouter } from './pairings/router';
 import { runsRouter } from './runs/router';
 import { billingRouter } from './billing/router';
 import { feedsRouter, staffRouter } from './staff/router';
+import { runWorkflowRouters } from './runs/workflow-router';
+import { publishRouter } from './rosters/publish-router';
 
 export interface AppDeps {
   env: Env;
@@ -65,8 +67,9 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/skills', skillsRouter());
   api.use('/people', peopleRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter);
-  api.use('/runs', runRouter);
+  const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
+  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }));
+  api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());

@@ -19,6 +19,7 @@ import {
 import * as repo from './repository';
 import { enforcePlanLimit } from '../billing/limits';
 import { assembleRoster } from './assemble';
+import { refuseWhenPublished as frozen } from './publish';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 const rid = (req: { params: Record<string, unknown> }) => Number(req.params.rosterId);
@@ -51,7 +52,7 @@ export function rostersRouter() {
   r.get('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
     res.json(await repo.getRules(ws(req), rid(req)));
   });
-  r.put('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams, body: rulesBody }), async (req, res) => {
+  r.put('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams, body: rulesBody }), frozen, async (req, res) => {
     res.json(await repo.putRules(ws(req), rid(req), req.body.rules, req.body.version));
   });
 
@@ -61,10 +62,10 @@ export function rostersRouter() {
   r.post('/:rosterId/patterns/preview', COORDINATOR_UP, validate({ params: rosterIdParams, body: patternBody }), async (req, res) => {
     res.json({ items: await repo.previewPattern(ws(req), rid(req), req.body) });
   });
-  r.post('/:rosterId/patterns', COORDINATOR_UP, validate({ params: rosterIdParams, body: patternBody }), async (req, res) => {
+  r.post('/:rosterId/patterns', COORDINATOR_UP, validate({ params: rosterIdParams, body: patternBody }), frozen, async (req, res) => {
     res.status(201).json(await repo.createPattern(ws(req), rid(req), req.body));
   });
-  r.delete('/:rosterId/patterns/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+  r.delete('/:rosterId/patterns/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), frozen, async (req, res) => {
     await repo.deletePattern(ws(req), rid(req), cid(req));
     res.status(204).end();
   });
@@ -72,13 +73,13 @@ export function rostersRouter() {
   r.get('/:rosterId/shifts', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
     res.json({ items: await repo.listShifts(ws(req), rid(req)) });
   });
-  r.post('/:rosterId/shifts', COORDINATOR_UP, validate({ params: rosterIdParams, body: shiftBody }), async (req, res) => {
+  r.post('/:rosterId/shifts', COORDINATOR_UP, validate({ params: rosterIdParams, body: shiftBody }), frozen, async (req, res) => {
     res.status(201).json(await repo.createShift(ws(req), rid(req), req.body));
   });
-  r.patch('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams, body: updateShiftBody }), async (req, res) => {
+  r.patch('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams, body: updateShiftBody }), frozen, async (req, res) => {
     res.json(await repo.updateShift(ws(req), rid(req), cid(req), req.body));
   });
-  r.delete('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+  r.delete('/:rosterId/shifts/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), frozen, async (req, res) => {
     await repo.deleteShift(ws(req), rid(req), cid(req));
     res.status(204).end();
   });
@@ -97,10 +98,10 @@ export function rostersRouter() {
   r.get('/:rosterId/pins', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
     res.json({ items: await repo.listPins(ws(req), rid(req)) });
   });
-  r.put('/:rosterId/pins', COORDINATOR_UP, validate({ params: rosterIdParams, body: pinBody }), async (req, res) => {
+  r.put('/:rosterId/pins', COORDINATOR_UP, validate({ params: rosterIdParams, body: pinBody }), frozen, async (req, res) => {
     res.json(await repo.putPin(ws(req), rid(req), req.body));
   });
-  r.delete('/:rosterId/pins/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
+  r.delete('/:rosterId/pins/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), frozen, async (req, res) => {
     await repo.deletePin(ws(req), rid(req), cid(req));
     res.status(204).end();
   });

@@ -9,6 +9,8 @@ import { rosterIds, parseRosterId } from '../rosters/ids';
 import { AssignmentRow, RunRow } from '../rosters/models';
 import { finite } from './execute';
 import { requireRunsAllowed } from '../billing/limits';
+import { refuseWhenPublished } from '../rosters/publish';
+import { findRoster } from '../rosters/repository';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -41,7 +43,7 @@ async function solvableRoster(workspaceId: number, rosterId: number) {
 
 export function runsRouter() {
   const routes = new ApiRoutes('/rosters');
-  routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), requireRunsAllowed, async (req, res) => {
+  routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), requireRunsAllowed, refuseWhenPublished, async (req, res) => {
     const workspaceId = ws(req);
     const rosterId = Number(req.params.rosterId);
     const { roster, version } = await solvableRoster(workspaceId, rosterId);
@@ -52,6 +54,7 @@ export function runsRouter() {
     res.status(202).json(toRunDto(run));
   });
   routes.get('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
+    await findRoster(ws(req), Number(req.params.rosterId)); // another workspace's roster is a 404, not an empty list
     const rows = await RunRow.findAll({ where: { workspaceId: ws(req), rosterId: Number(req.params.rosterId) }, order: [['id', 'DESC']], limit: 50, attributes: { exclude: ['result'] } });
     res.json({ items: rows.map(toRunDto) });
   });

@@ -106,3 +106,47 @@ export const startRunBody = z.object({
 export const scoreBody = z.object({ assignment: z.record(z.string().regex(/^\d+$/, 'seat ids are numbers'), z.number().int().min(1).nullable()) });
 
 export { rosterAssignmentSchema };
+
+// ---- issue 6: roster workflow (concessions, alternatives, manual saves, publish, exports) ----
+
+export const runIdParams = z.object({ id: z.coerce.number().int().min(1, 'must be a positive id') });
+export const seatAlternativesParams = z.object({ id: z.coerce.number().int().min(1), seatId: z.coerce.number().int().min(1) });
+
+/** "What would it cost to honour this": one re-solve with the concession enforced, bounded in time. */
+export const priceConcessionBody = z.object({ index: z.number({ error: 'name the concession by its number' }).int().min(0, 'concessions are numbered from 0'), timeLimitSeconds: z.number().min(0.5).max(30).default(5), seed: z.number().int().min(0).max(2 ** 31).default(1) });
+
+/** A hand-edited roster saved as a "manual" run; `version` is the roster version the editor started from. */
+export const manualRunBody = z.object({
+  assignment: z.record(z.string().regex(/^\d+$/, 'seat ids are numbers'), z.number().int().min(1).nullable()),
+  version: versionField,
+  basedOnRunId: z.number().int().min(1).nullable().optional(),
+});
+
+export const publishBody = z.object({ runId: z.number().int().min(1, 'pick a finished run to publish'), version: versionField });
+export const reopenBody = z.object({ version: versionField });
+
+export const rosterExportQuery = z.object({
+  runId: z.coerce.number().int().min(1).optional(),
+  personId: z.coerce.number().int().min(1).optional(),
+});
+
+/** Plain names of the rules and score terms, for screens, e-mails and concession texts. */
+export const TERM_LABELS: Record<string, string> = {
+  coverage: 'Every seat filled',
+  minRest: 'Minimum rest between shifts',
+  weeklyRest: 'Weekly rest',
+  maxHoursPer7Days: 'Hours in any 7 days',
+  nightShiftLength: 'Night shift length',
+  maxConsecutiveDays: 'Consecutive working days',
+  maxNightsInRow: 'Nights in a row',
+  contractedHours: 'Close to contracted hours',
+  fairNights: 'Fair share of nights',
+  fairWeekends: 'Fair share of weekends',
+  skillMix: 'Skill mix per shift',
+  wishes: 'Wishes',
+  pairings: 'Pairings',
+  doubleBooking: 'No double booking',
+  skills: 'Skills',
+  pins: 'Pins',
+  unknown: 'Unknown seat or person',
+};

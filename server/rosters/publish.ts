@@ -1,0 +1,172 @@
+import { Person, User, Workspace } from '../db/models';
+import { HttpError } from '../http/errors';
+import type { Mailer, OutgoingMail } from '../mail/mailer';
+import { localDateTimeToInstant } from '../../shared/roster/time';
+import { formatDay } from '../../shared/roster/derive';
+import { AssignmentRow, Roster, RunRow, SeatRow, ShiftRow } from './models';
+import { findRoster, toRosterDto } from './repository';
+import { buildCalendar, buildCsv, type CalendarEvent } from './ical';
+
+/** Every shift of a run with who works it, in start order; the data the mails and files are made from. */
+export async function runShifts(workspaceId: number, rosterId: number, runId: number) {
+  const run = await RunRow.findOne({ where: { id: runId, workspaceId, rosterId } });
+  if (!run) throw new HttpError(404, 'not_found', 'Run not found for this roster', [{ path: 'query.runId', message: 'not a run of this roster' }]);
+  if (run.status !== 'done' && run.status !== 'cancelled') throw new HttpError(409, 'conflict', 'This run has no finished roster yet.');
+  const assignments = await AssignmentRow.findAll({ where: { runId, workspaceId } });
+  const seats = await SeatRow.findAll({ where: { workspaceId, id: assignments.map((a) => a.seatId) } });
+  const shifts = await ShiftRow.findAll({ where: { workspaceId, rosterId }, order: [['startsLocal', 'ASC'], ['id', 'ASC']] });
+  const people = await Person.findAll({ where: { workspaceId } });
+  const personName = new Map(people.map((p) => [p.id, p.name]));
+  const seatShift = new Map(seats.map((s) => [s.id, s.shiftId]));
+  const byShift = new Map<number, Array<{ personId: number; name: string }>>();
+  for (const a of assignments) {
+    const shiftId = seatShift.get(a.seatId);
+    if (shiftId === undefined || a.personId === null) continue;
+    const list = byShift.get(shiftId) ?? [];
+    list.push({ personId: a.personId, name: personName.get(a.personId) ?? `person ${a.personId}` });
+    byShift.set(shiftId, list);
+  }
+  return {
+    run,
+    people,
+    shifts: shifts.map((s) => ({ id: s.id, label: s.label, startsLocal: s.startsLocal, endsLocal: s.endsLocal, people: byShift.get(s.id) ?? [] })),
+  };
+}
+
+const time = (local: string) => local.slice(11, 16);
+
+/** The run to export: the one asked for, else the published one. */
+async function exportRunId(workspaceId: number, rosterId: number, runId?: number): Promise<number> {
+  if (runId) return runId;
+  const roster = await findRoster(workspaceId, rosterId);
+  if (!roster.publishedRunId) throw new HttpError(409, 'conflict', 'This roster is not published yet: publish it, or name a run to export (?runId=).', [{ path: 'query.runId', message: 'required until the roster is published' }]);
+  return roster.publishedRunId;
+}
+
+export async function exportCsv(workspaceId: number, rosterId: number, q: { runId?: number; personId?: number }) {
+  const roster = await findRoster(workspaceId, rosterId);
+  const { shifts, people } = await runShifts(workspaceId, rosterId, await exportRunId(workspaceId, rosterId, q.runId));
+  if (q.personId && !people.some((p) => p.id === q.personId)) throw new HttpError(404, 'not_found', 'Person not found', [{ path: 'query.personId', message: 'unknown person' }]);
+  const rows: Array<Array<string | number>> = [['date', 'start', 'end', 'shift', 'person', 'time zone']];
+  for (const s of shifts) {
+    for (const p of s.people) {
+      if (q.personId && p.personId !== q.personId) continue;
+      rows.push([s.startsLocal.slice(0, 10), time(s.startsLocal), time(s.endsLocal), s.label, p.name, roster.timeZone]);
+    }
+  }
+  const who = q.personId ? `-${slug(people.find((p) => p.id === q.personId)!.name)}` : '';
+  return { filename: `${slug(roster.name)}${who}.csv`, body: buildCsv(rows) };
+}
+
+export async function exportIcs(workspaceId: number, rosterId: number, q: { runId?: number; personId?: number }) {
+  const roster = await findRoster(workspaceId, rosterId);
+  const workspace = await Workspace.findByPk(workspaceId);
+  const runId = await exportRunId(workspaceId, rosterId, q.runId);
+  const { shifts, people } = await runShifts(workspaceId, rosterId, runId);
+  const person = q.personId ? people.find((p) => p.id === q.personId) : undefined;
+  if (q.personId && !person) throw new HttpError(404, 'not_found', 'Person not found', [{ path: 'query.personId', message: 'unknown person' }]);
+  const events: CalendarEvent[] = [];
+  for (const s of shifts) {
+    if (s.people.length === 0) continue;
+    if (person && !s.people.some((p) => p.personId === person.id)) continue;
+    const start = localDateTimeToInstant(s.startsLocal, roster.timeZone);
+    const end = localDateTimeToInstant(s.endsLocal, roster.timeZone);
+    events.push({
+      // Stable across re-publishing, so calendar programs update an event instead of adding a copy.
+      uid: person ? `roster${roster.id}-shift${s.id}-person${person.id}@rotaloom` : `roster${roster.id}-shift${s.id}@rotaloom`,
+      start,
+      end,
+      summary: person ? `${capital(s.label)} shift` : `${capital(s.label)} shift: ${s.people.map((p) => p.name).join(', ')}`,
+      description: `${roster.name}\n${capital(s.label)} shift, ${time(s.startsLocal)}–${time(s.endsLocal)} (${roster.timeZone})\nOn this shift: ${s.people.map((p) => p.name).join(', ')}`,
+      location: workspace?.name,
+    });
+  }
+  const name = person ? `${person.name} — ${roster.name}` : roster.name;
+  return { filename: `${slug(roster.name)}${person ? `-${slug(person.name)}` : ''}.ics`, body: buildCalendar({ name, events }) };
+}
+
+const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+const slug = (s: string) => s.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'roster';
+
+function shiftsMail(input: { to: string; personName: string; rosterName: string; workspaceName: string; timeZone: string; lines: string[]; url: string }): OutgoingMail {
+  const esc = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
+  const subject = `Your shifts: ${input.rosterName}`;
+  const intro = `${input.workspaceName} has published ${input.rosterName}. These are your ${input.lines.length} shift${input.lines.length === 1 ? '' : 's'} (times in ${input.timeZone}):`;
+  const text = [`Hello ${input.personName},`, '', intro, '', ...input.lines.map((l) => `- ${l}`), '', `See the roster: ${input.url}`, '', '— Rotaloom'].join('\n');
+  const html = `<!doctype html><html><body style="font-family:system-ui,-apple-system,sans-serif;color:#1d2a33;line-height:1.5;max-width:560px;margin:0 auto;padding:24px">
+<p>Hello ${esc(input.personName)},</p><p>${esc(intro)}</p><ul>${input.lines.map((l) => `<li>${esc(l)}</li>`).join('')}</ul>
+<p><a href="${esc(input.url)}">See the roster</a></p><p style="color:#51606b">— Rotaloom</p></body></html>`;
+  return { to: input.to, subject, text, html };
+}
+
+/**
+ * Freezes the roster on one finished run (status published, published_run_id), then mails every
+ * person on it their own shifts. A person without an address (their own or their linked account's)
+ * is listed, not skipped silently; a mail that fails is reported and the publication stands.
+ */
+export async function publishRoster(workspaceId: number, rosterId: number, body: { runId: number; version: number }, deps: { mailer: Mailer; publicUrl: string }) {
+  const roster = await findRoster(workspaceId, rosterId);
+  if (roster.status === 'published') throw new HttpError(409, 'conflict', 'This roster is already published. Reopen it first to publish another version.', [{ path: 'body.version', message: 'already published' }]);
+  const { run, shifts, people } = await runShifts(workspaceId, rosterId, body.runId).catch((err: unknown) => {
+    if (err instanceof HttpError && err.status === 404) throw new HttpError(422, 'unprocessable', 'That run is not a run of this roster', [{ path: 'body.runId', message: 'not a run of this roster' }]);
+    throw err;
+  });
+  const result = run.result as { feasible?: boolean } | null;
+  if (run.status !== 'done' || !result?.feasible) throw new HttpError(422, 'unprocessable', 'Only a finished run that keeps every hard rule can be published.', [{ path: 'body.runId', message: 'run not finished or not feasible' }]);
+  const [count] = await Roster.update(
+    { status: 'published', publishedRunId: run.id, publishedAt: new Date(), version: body.version + 1 },
+    { where: { id: rosterId, workspaceId, version: body.version } },
+  );
+  if (count === 0) {
+    throw new HttpError(409, 'conflict', 'Someone changed this roster after you last loaded it. Reload, check the roster, then publish again.', [{ path: 'body.version', message: `you saw version ${body.version}; the current one is ${roster.version}` }]);
+  }
+
+  const workspace = await Workspace.findByPk(workspaceId);
+  const users = await User.findAll({ where: { id: people.map((p) => p.userId).filter((id): id is number => typeof id === 'number') } });
+  const userEmail = new Map(users.map((u) => [u.id, u.email]));
+  const sent: Array<{ personId: number; name: string; to: string }> = [];
+  const noAddress: Array<{ personId: number; name: string }> = [];
+  const failed: Array<{ personId: number; name: string; reason: string }> = [];
+  for (const person of people) {
+    const own = shifts.filter((s) => s.people.some((p) => p.personId === person.id));
+    if (own.length === 0) continue;
+    const to = person.email ?? (person.userId ? userEmail.get(person.userId) : undefined);
+    if (!to) {
+      noAddress.push({ personId: person.id, name: person.name });
+      continue;
+    }
+    const lines = own.map((s) => `${formatDay(s.startsLocal.slice(0, 10))}: ${s.label}, ${time(s.startsLocal)}–${time(s.endsLocal)}`);
+    try {
+      await deps.mailer.send(shiftsMail({ to, personName: person.name, rosterName: roster.name, workspaceName: workspace?.name ?? 'Your workspace', timeZone: roster.timeZone, lines, url: `${deps.publicUrl}/rosters/${roster.id}` }));
+      sent.push({ personId: person.id, name: person.name, to });
+    } catch (err) {
+      failed.push({ personId: person.id, name: person.name, reason: err instanceof Error ? err.message : String(err) });
+    }
+  }
+  return { roster: toRosterDto(await findRoster(workspaceId, rosterId)), mail: { sent, noAddress, failed } };
+}
+
+/** Back to "solved": the published run stays recorded, changes and runs are allowed again. */
+export async function reopenRoster(workspaceId: number, rosterId: number, version: number) {
+  const roster = await findRoster(workspaceId, rosterId);
+  if (roster.status !== 'published') throw new HttpError(409, 'conflict', 'This roster is not published.');
+  const [count] = await Roster.update({ status: 'solved', version: version + 1 }, { where: { id: rosterId, workspaceId, version } });
+  if (count === 0) throw new HttpError(409, 'conflict', 'Someone changed this roster after you last loaded it. Reload and try again.', [{ path: 'body.version', message: `the current version is ${roster.version}` }]);
+  return toRosterDto(await findRoster(workspaceId, rosterId));
+}
+
+/** Mutating a published roster's content is refused until it is reopened. */
+export async function assertNotPublished(workspaceId: number, rosterId: number): Promise<void> {
+  const roster = await findRoster(workspaceId, rosterId);
+  if (roster.status === 'published') throw new HttpError(409, 'conflict', 'This roster is published and frozen. Reopen it for changes first.', [{ path: 'params.rosterId', message: 'roster is published' }]);
+}
+
+/** Route guard for content changes: a published roster is frozen (409 in words) until reopened. */
+export const refuseWhenPublished = async (req: { auth?: { workspaceId: number }; params: Record<string, unknown> }, _res: unknown, next: (err?: unknown) => void) => {
+  try {
+    await assertNotPublished(req.auth!.workspaceId, Number(req.params.rosterId));
+    next();
+  } catch (err) {
+    next(err);
+  }
+};
