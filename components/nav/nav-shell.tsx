@@ -21,6 +21,7 @@ export function NavShell({ session, children }: { session: Session; children: Re
   const signOut = useSignOut();
   const isActive = (href: string) => pathname === href || pathname.startsWith(`${href}/`);
 
+  // Styles below are flattened: Link asChild passes them to a DOM anchor on web, which rejects arrays.
   if (wide) {
     return (
       <View style={styles.wideRoot}>
@@ -30,7 +31,7 @@ export function NavShell({ session, children }: { session: Session; children: Re
           <View style={styles.sideItems}>
             {items.map((item) => (
               <Link key={item.href} href={item.href} asChild>
-                <Pressable role="link" aria-current={isActive(item.href) ? 'page' : undefined} style={[styles.sideItem, isActive(item.href) && styles.sideItemActive]}>
+                <Pressable role="link" aria-current={isActive(item.href) ? 'page' : undefined} style={StyleSheet.flatten([styles.sideItem, isActive(item.href) && styles.sideItemActive])}>
                   <Text style={[styles.sideLabel, isActive(item.href) && styles.sideLabelActive]}>{item.label}</Text>
                 </Pressable>
               </Link>

@@ -83,7 +83,10 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
     handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', 'Too many requests from this address; try again in a few minutes')),
   });
 
-  routes.get('/session', 'signed-in', async (req, res) => {
+  // Public, and 200 with { user: null } when signed out: the front page asks on every visit and a
+  // 401 there would show up as a failed request in every browser console.
+  routes.get('/session', 'public', async (req, res) => {
+    if (!req.isAuthenticated()) return void res.json({ user: null });
     res.json(await currentSession(req));
   });
 

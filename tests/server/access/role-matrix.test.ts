@@ -70,8 +70,8 @@ describe('role-by-route matrix', () => {
         const publicOk = route.access === 'public' && res.status === 401 && route.path.startsWith('/api/auth/');
         if (!ok && !publicOk) wrong.push(`${route.method.toUpperCase()} ${route.path} as ${who}: got ${res.status}, want ${want}`);
         // A route that changed the session (sign-in, sign-out, switch) must not spoil the next check.
-        if (who !== 'signed out' && (await agents.get(who)!.get('/api/auth/session')).status !== 200) await signIn(who);
-        if (who === 'signed out' && (await agents.get(who)!.get('/api/auth/session')).status !== 401) await signIn(who);
+        const signedInNow = (await agents.get(who)!.get('/api/auth/session')).body?.user != null;
+        if (signedInNow !== (who !== 'signed out')) await signIn(who);
       }
     }
     expect(wrong).toEqual([]);
