@@ -328,13 +328,16 @@ export function compileRoster(roster: Roster): CompiledRoster {
       maxSum += w;
       if (w !== 1) allOnes = false;
     }
-    const length = Math.min(maxSum, cap) + 1;
-    const table = new Float64Array(length);
+    let length = Math.min(maxSum, cap) + 1;
+    let table = new Float64Array(length);
     let varies = false;
     for (let k = 0; k < length; k++) {
       table[k] = scoreAt(k);
       if (table[k] !== table[0]) varies = true;
     }
+    // a constant tail is one entry (the type repeats the last entry): a hard limit of 6 stops at 7 entries
+    while (length > 1 && table[length - 2] === table[length - 1]) length--;
+    if (length < table.length) table = table.slice(0, length);
     if (vars.length === 0 || !varies) {
       termConstants[term] += table[0];
       return;
