@@ -163,6 +163,12 @@ export async function startGoogleFake(options: { port?: number } = {}): Promise<
         const a = found.account;
         return sendJson(res, 200, { sub: a.sub, name: a.name, given_name: a.givenName, family_name: a.familyName, email: a.email, email_verified: a.emailVerified, locale: 'en' });
       }
+      // Browsers ask every host for an icon; an empty answer keeps their consoles clean.
+      if (req.method === 'GET' && url.pathname === '/favicon.ico') {
+        res.writeHead(204);
+        res.end();
+        return;
+      }
       sendJson(res, 404, { error: 'not_found' });
     };
     handle().catch((err: unknown) => sendJson(res, 500, { error: 'server_error', error_description: err instanceof Error ? err.message : String(err) }));

@@ -1,0 +1,119 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+
+// Signed out, the session query is answered 401 by design (hooks/api/get-session.ts reads it as "nobody").
+const SIGNED_OUT = [/HTTP 401: GET .*\/api\/auth\/session/, /status of 401/];
+
+const run = Date.now().toString(36);
+let n = 0;
+const unique = (who: string) => `${who}.${run}.${++n}@example.test`;
+
+async function navLabels(page: Page): Promise<string[]> {
+  const nav = page.getByRole('navigation', { name: 'Main' });
+  await nav.waitFor();
+  return (await nav.getByRole('link').allTextContents()).map((t) => t.trim());
+}
+
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('accounts and roles at %s size', (label, viewport) => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('signs up (making a workspace, as its admin), signs out, and signs back in with the password', async () => {
+    const { page, problems, close } = await openPage(browser, viewport, SIGNED_OUT);
+    const email = unique('founder');
+    await page.goto('/');
+    await page.getByTestId('sign-up-link').click();
+    await page.getByRole('heading', { name: 'Make a workspace' }).waitFor();
+    await page.getByTestId('sign-up-name').fill('Maren Fairweather');
+    await page.getByTestId('sign-up-email').fill(email);
+    await page.getByTestId('sign-up-password').fill('short');
+    await page.getByTestId('sign-up-workspace').fill('Gullhaven Hospice');
+    await page.getByTestId('sign-up-submit').click();
+    await page.getByText('Use at least 10 characters').waitFor();
+    await page.getByTestId('sign-up-password').fill('a long enough passphrase');
+    await page.getByTestId('sign-up-submit').click();
+    await page.getByRole('heading', { name: 'Hello, Maren' }).waitFor();
+    await page.getByText('You are signed in to Gullhaven Hospice as admin.').waitFor();
+    expect(await navLabels(page)).toEqual(['Overview', 'Members', 'Account']);
+    await screenshot(page, `signed-up-admin-${label}`);
+
+    await page.getByRole('button', { name: 'Sign out' }).first().click();
+    await page.getByRole('heading', { name: /Rosters your team can trust/ }).waitFor();
+    await page.getByLabel('E-mail').fill(email);
+    await page.getByLabel('Password').fill('a long enough passphrase');
+    await page.getByTestId('sign-in-submit').click();
+    await page.getByRole('heading', { name: 'Hello, Maren' }).waitFor();
+    expect(problems).toEqual([]);
+    await close();
+  });
+
+  it('signs in with Google through the fake, invites a coordinator, who accepts from the mailbox and sees a coordinator menu', async () => {
+    const admin = await openPage(browser, viewport, SIGNED_OUT);
+    const adminEmail = unique('google.admin');
+    await admin.page.goto('/');
+    await admin.page.getByTestId('google-sign-in').click();
+    await admin.page.getByRole('heading', { name: 'Choose an account' }).waitFor();
+    await admin.page.getByLabel('Name').fill('Tobias Wrenfield');
+    await admin.page.getByLabel('E-mail').fill(adminEmail);
+    await admin.page.getByRole('button', { name: 'Continue' }).click();
+    await admin.page.getByRole('heading', { name: 'Hello, Tobias' }).waitFor();
+    await admin.page.getByText("You are signed in to Tobias Wrenfield's team as admin.").waitFor();
+
+    await admin.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Members' }).click();
+    await admin.page.getByRole('heading', { name: /Members of/ }).waitFor();
+    const coordinatorEmail = unique('coordinator');
+    await admin.page.getByTestId('invite-email').fill(coordinatorEmail);
+    await admin.page.getByTestId('invite-role').getByRole('radio', { name: 'Coordinator' }).click();
+    await admin.page.getByTestId('invite-submit').click();
+    await admin.page.getByText(`Invitation sent to ${coordinatorEmail}.`).waitFor();
+    await admin.page.getByTestId(`invitation-${coordinatorEmail}`).waitFor();
+    await screenshot(admin.page, `members-admin-${label}`);
+    expect(admin.problems).toEqual([]);
+
+    // The invitee, in a browser of their own, opens the mail on the dev mail page and follows the link.
+    const invitee = await openPage(browser, viewport, SIGNED_OUT);
+    await invitee.page.goto('/dev/mail');
+    const mail = invitee.page.locator('article', { hasText: coordinatorEmail }).first();
+    await mail.getByText(/invited you to Tobias Wrenfield's team/).waitFor();
+    await mail.getByRole('link', { name: /\/invitation\?token=/ }).click();
+    await invitee.page.getByRole('heading', { name: "Join Tobias Wrenfield's team" }).waitFor();
+    await invitee.page.getByText(`Tobias Wrenfield invited ${coordinatorEmail}`, { exact: false }).waitFor();
+    await invitee.page.getByTestId('invitation-name').fill('Priya Lansdowne');
+    await invitee.page.getByTestId('invitation-password').fill('coordinator passphrase');
+    await invitee.page.getByTestId('accept-invitation').click();
+    await invitee.page.getByRole('heading', { name: 'Hello, Priya' }).waitFor();
+    await invitee.page.getByText("You are signed in to Tobias Wrenfield's team as coordinator.").waitFor();
+    const menu = await navLabels(invitee.page);
+    expect(menu).toContain('Account');
+    expect(menu).not.toContain('Members');
+    await screenshot(invitee.page, `coordinator-${label}`);
+    expect(invitee.problems).toEqual([]);
+
+    // The admin's members list now shows the coordinator, and the invitation is gone.
+    await admin.page.reload();
+    await admin.page.getByTestId(`member-${coordinatorEmail}`).waitFor();
+    expect(await admin.page.getByTestId(`invitation-${coordinatorEmail}`).count()).toBe(0);
+    expect(admin.problems).toEqual([]);
+    await admin.close();
+    await invitee.close();
+  });
+
+  it('the same invitation link cannot be used twice', async () => {
+    const { page, problems, close } = await openPage(browser, viewport, [...SIGNED_OUT, /HTTP 410/, /status of 410/]);
+    await page.goto('/dev/mail');
+    const link = await page.locator('article', { hasText: 'invited you to' }).first().getByRole('link', { name: /\/invitation\?token=/ }).first().getAttribute('href');
+    await page.goto(new URL(link!).pathname + new URL(link!).search);
+    await page.getByText(/already used/).waitFor();
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
