@@ -25,7 +25,9 @@ function needStripe(deps: BillingDeps): { stripe: Stripe; config: BillingConfig 
 
 /** The row of a workspace, created when missing and locked for the rest of the transaction. */
 export async function lockAccount(workspaceId: number, transaction: Transaction): Promise<BillingAccount> {
-  // INSERT IGNORE waits for a concurrent insert of the same row to commit, then finds it: never two rows, never an error.
+  // The workspace row always exists, so locking it first serialises every billing change of one workspace
+  // (locking a billing row that may not exist yet would deadlock two concurrent first upgrades on gap locks).
+  await BillingAccount.sequelize!.query('SELECT id FROM workspaces WHERE id = ? FOR UPDATE', { replacements: [workspaceId], transaction });
   await BillingAccount.sequelize!.query('INSERT IGNORE INTO billing_accounts (workspace_id, created_at, updated_at) VALUES (?, NOW(), NOW())', { replacements: [workspaceId], transaction });
   return (await BillingAccount.findByPk(workspaceId, { transaction, lock: transaction.LOCK.UPDATE }))!;
 }
