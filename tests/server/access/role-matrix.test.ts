@@ -75,7 +75,8 @@ describe('role-by-route matrix', () => {
       }
     }
     expect(wrong).toEqual([]);
-  });
+    // Four identities and two requests each for every route: minutes on a busy machine.
+  }, 240_000);
 
   it('refuses every state-changing route without the CSRF header, before anything else', async () => {
     const admin = await makeUser({ workspace: await makeWorkspace(), role: 'admin' });
@@ -90,5 +91,5 @@ describe('role-by-route matrix', () => {
       if (res.status !== 403 || !res.body.error?.message?.includes('X-Rotaloom-CSRF')) wrong.push(`${route.method} ${route.path}: ${res.status}`);
     }
     expect(wrong).toEqual([]);
-  });
+  }, 120_000);
 });
