@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Link, usePathname } from 'expo-router';
 import { Pressable, ScrollView, StyleSheet, Text, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
@@ -16,7 +16,11 @@ import { navItemsFor } from './nav-items';
 export function NavShell({ session, children }: { session: Session; children: ReactNode }) {
   const wide = useIsWide();
   const pathname = usePathname();
-  const items = navItemsFor(session.role);
+  const items = navItemsFor(session.role, session.personId);
+  // A phone has room for about five tabs; the rest go behind "More".
+  const tabs = items.length > MAX_TABS ? items.slice(0, MAX_TABS - 1) : items;
+  const overflow = items.slice(tabs.length);
+  const [moreOpen, setMoreOpen] = useState(false);
   const insets = useSafeAreaInsets();
   const signOut = useSignOut();
   const isActive = (href: string) => pathname === href || pathname.startsWith(`${href}/`);
@@ -63,10 +67,21 @@ export function NavShell({ session, children }: { session: Session; children: Re
       <ScrollView style={styles.content} contentContainerStyle={styles.phoneContent}>
         {children}
       </ScrollView>
+      {moreOpen ? (
+        <View style={styles.moreSheet} role="menu" aria-label="More sections" testID="more-sheet">
+          {overflow.map((item) => (
+            <Link key={item.href} href={item.href} asChild>
+              <Pressable role="menuitem" onPress={() => setMoreOpen(false)} style={styles.moreItem}>
+                <Text style={[styles.moreLabel, isActive(item.href) && styles.tabLabelActive]}>{item.label}</Text>
+              </Pressable>
+            </Link>
+          ))}
+        </View>
+      ) : null}
       <View style={[styles.tabs, { paddingBottom: Math.max(insets.bottom, space.sm) }]} role="navigation" aria-label="Main" testID="bottom-tabs">
-        {items.map((item) => (
+        {tabs.map((item) => (
           <Link key={item.href} href={item.href} asChild>
-            <Pressable role="link" aria-current={isActive(item.href) ? 'page' : undefined} style={styles.tab}>
+            <Pressable role="link" aria-current={isActive(item.href) ? 'page' : undefined} style={styles.tab} onPress={() => setMoreOpen(false)}>
               <View style={[styles.tabMark, isActive(item.href) && styles.tabMarkActive]} />
               <Text style={[styles.tabLabel, isActive(item.href) && styles.tabLabelActive]} numberOfLines={1}>
                 {item.label}
@@ -74,10 +89,18 @@ export function NavShell({ session, children }: { session: Session; children: Re
             </Pressable>
           </Link>
         ))}
+        {overflow.length > 0 ? (
+          <Pressable role="button" aria-expanded={moreOpen} accessibilityLabel="More sections" style={styles.tab} onPress={() => setMoreOpen((o) => !o)} testID="more-tab">
+            <View style={[styles.tabMark, (moreOpen || overflow.some((i) => isActive(i.href))) && styles.tabMarkActive]} />
+            <Text style={[styles.tabLabel, overflow.some((i) => isActive(i.href)) && styles.tabLabelActive]}>More</Text>
+          </Pressable>
+        ) : null}
       </View>
     </View>
   );
 }
+
+const MAX_TABS = 5;
 
 const styles = StyleSheet.create({
   wideRoot: { flex: 1, flexDirection: 'row', backgroundColor: colors.paper },
@@ -99,6 +122,9 @@ const styles = StyleSheet.create({
   topBar: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', paddingHorizontal: space.lg, paddingVertical: space.md, borderBottomWidth: 1, borderBottomColor: colors.line, backgroundColor: colors.card },
   topSignOut: { color: colors.loom, fontFamily: fonts.bodyBold, fontSize: 14 },
   phoneContent: { padding: space.lg, paddingBottom: space.xxl },
+  moreSheet: { position: 'absolute', right: space.sm, bottom: 72, minWidth: 200, backgroundColor: colors.card, borderRadius: 12, borderWidth: 1, borderColor: colors.line, paddingVertical: space.xs, shadowColor: '#000', shadowOpacity: 0.12, shadowRadius: 12, shadowOffset: { width: 0, height: 4 }, zIndex: 10 },
+  moreItem: { paddingVertical: space.md, paddingHorizontal: space.lg, minHeight: 48, justifyContent: 'center' },
+  moreLabel: { fontFamily: fonts.body, fontSize: 16, color: colors.ink },
   tabs: { flexDirection: 'row', borderTopWidth: 1, borderTopColor: colors.line, backgroundColor: colors.card, paddingTop: space.xs },
   tab: { flex: 1, alignItems: 'center', paddingVertical: space.xs, gap: 4, minHeight: 48, justifyContent: 'center' },
   tabMark: { width: 24, height: 4, borderRadius: 2, backgroundColor: 'transparent' },
