@@ -4,14 +4,22 @@ export interface NavItem {
   href: string;
   label: string;
   roles: ReadonlyArray<NonNullable<Session['role']>>;
+  /** Shown to coordinators and admins only when they are also a rostered person (staff always see it). */
+  rosteredOnly?: boolean;
 }
 
 /** The workspace's sections; each person sees only those their role may use (DESIGN.md, Roles). */
 export const NAV_ITEMS: NavItem[] = [
   { href: '/home', label: 'Overview', roles: ['admin', 'coordinator', 'staff'] },
+  { href: '/my-shifts', label: 'My shifts', roles: ['admin', 'coordinator', 'staff'], rosteredOnly: true },
+  { href: '/wishes', label: 'Wishes', roles: ['staff'] },
   // Each feature adds its section here when its screens land.
+  { href: '/rosters', label: 'Rosters', roles: ['admin', 'coordinator'] },
+  { href: '/people', label: 'People', roles: ['admin', 'coordinator'] },
+  { href: '/pairings', label: 'Pairings', roles: ['admin', 'coordinator'] },
   { href: '/members', label: 'Members', roles: ['admin'] },
   { href: '/account', label: 'Account', roles: ['admin', 'coordinator', 'staff'] },
 ];
 
-export const navItemsFor = (role: Session['role']) => NAV_ITEMS.filter((item) => role !== null && item.roles.includes(role));
+export const navItemsFor = (role: Session['role'], personId: number | null = null) =>
+  NAV_ITEMS.filter((item) => role !== null && item.roles.includes(role) && (!item.rosteredOnly || role === 'staff' || personId !== null));

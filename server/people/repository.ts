@@ -13,6 +13,7 @@ export const toPersonDto = (p: Person): PersonDto => ({
   skillIds: p.skills ?? [],
   userId: p.userId ?? null,
   version: p.version,
+  createdAt: new Date(p.createdAt).toISOString(),
 });
 
 export async function listSkills(workspaceId: number): Promise<SkillDto[]> {

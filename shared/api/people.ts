@@ -33,6 +33,7 @@ export interface PersonDto {
   skillIds: number[];
   userId: number | null;
   version: number;
+  createdAt: string;
 }
 export interface SkillDto {
   id: number;

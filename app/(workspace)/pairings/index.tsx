@@ -1,0 +1,3 @@
+import { PairingsScreen } from '@/components/pairings/pairings-screen';
+
+export default PairingsScreen;

@@ -1,0 +1,3 @@
+import { ImportPeopleScreen } from '@/components/people/import-screen';
+
+export default ImportPeopleScreen;

@@ -1,0 +1,3 @@
+import { PeopleScreen } from '@/components/people/people-screen';
+
+export default PeopleScreen;

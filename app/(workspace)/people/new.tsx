@@ -1,0 +1,3 @@
+import { NewPersonScreen } from '@/components/people/person-form-screen';
+
+export default NewPersonScreen;

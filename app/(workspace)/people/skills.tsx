@@ -1,0 +1,3 @@
+import { SkillsScreen } from '@/components/people/skills-screen';
+
+export default SkillsScreen;

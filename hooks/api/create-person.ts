@@ -1,0 +1,18 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { createPersonBody, PersonDto } from '@/shared/api/people';
+import { apiFetch } from './api-client';
+import { skillsQueryOptions } from './get-skills';
+
+export const createPerson = (input: z.input<typeof createPersonBody>) => apiFetch<PersonDto>('/people', { method: 'POST', body: input });
+
+export function useCreatePerson() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: createPerson,
+    onSuccess: () => {
+      void queryClient.invalidateQueries({ queryKey: ['people'] });
+      void queryClient.invalidateQueries({ queryKey: skillsQueryOptions().queryKey });
+    },
+  });
+}
