@@ -23,7 +23,7 @@ export async function publishDirectly(
     rosterVersion: roster.version,
     startedAt: now,
     finishedAt: now,
-    result: { feasible: true, publishedBy: 'test helper' },
+    result: { feasible: true, publishedBy: 'test helper' } as object,
   });
   await AssignmentRow.bulkCreate(assignments.map((a) => ({ workspaceId, runId: run.id, seatId: a.seatId, personId: a.personId, pinned: false })));
   // A later publish must carry a later stamp even within the same second (DTSTAMP has seconds).

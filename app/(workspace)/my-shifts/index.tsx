@@ -1,0 +1,3 @@
+import { MyShiftsScreen } from '@/components/staff/my-shifts-screen';
+
+export default MyShiftsScreen;

@@ -1,0 +1,3 @@
+import { WishesScreen } from '@/components/staff/wishes-screen';
+
+export default WishesScreen;

@@ -1,0 +1,14 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { MyPairingRequest, PairingRequestInput } from '@/shared/api/staff';
+import { apiFetch } from './api-client';
+import { myPairingsQueryOptions } from './get-my-pairings';
+
+export const requestMyPairing = (body: PairingRequestInput) => apiFetch<MyPairingRequest>('/me/pairings', { method: 'POST', body });
+
+export function useRequestMyPairing() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: requestMyPairing,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: myPairingsQueryOptions().queryKey }),
+  });
+}

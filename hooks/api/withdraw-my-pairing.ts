@@ -1,0 +1,13 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+import { myPairingsQueryOptions } from './get-my-pairings';
+
+export const withdrawMyPairing = (id: number) => apiFetch<void>(`/me/pairings/${id}`, { method: 'DELETE' });
+
+export function useWithdrawMyPairing() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: withdrawMyPairing,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: myPairingsQueryOptions().queryKey }),
+  });
+}
