@@ -3,6 +3,6 @@ export { compileRoster, modelTerms, termOf, OPEN } from './compile';
 export type { CompiledRoster } from './compile';
 export { decodeAssignment, encodeAssignment } from './decode';
 export type { DecodedRoster, DecodedSeat, PersonSummary } from './decode';
-export { scoreRoster, TERM_NAMES } from './score-roster';
+export { scoreRoster, makeRosterScorer, TERM_NAMES } from './score-roster';
 export type { RosterScore, RosterViolation, TermName } from './score-roster';
 export { explainInfeasible } from './explain-infeasible';

@@ -84,12 +84,38 @@ type Worked = { seat: number; shift: ShiftFacts };
 
 /** Score a filled roster (seat id → person id; null or absent = open). */
 export function scoreRoster(roster: Roster, assignment: RosterAssignment): RosterScore {
+  return makeRosterScorer(roster)(assignment);
+}
+
+/**
+ * A scorer for many fillings of one roster (a coordinator's edits, brute force in tests):
+ * the time-zone arithmetic and fair shares are done once. The roster must not change after.
+ */
+export function makeRosterScorer(roster: Roster): (assignment: RosterAssignment) => RosterScore {
   const facts = shiftFacts(roster);
   const shiftIdx = new Map(roster.shifts.map((s, i) => [s.id, i]));
   const personIdx = new Map(roster.people.map((p, i) => [p.id, i]));
   const seatIdx = new Map(roster.seats.map((s, i) => [s.id, i]));
   const rules = roster.rules;
   const days = periodDays(roster);
+  const nightShares = fairShares(roster, facts, (f) => f.night);
+  const weekendShares = fairShares(roster, facts, (f) => f.weekend);
+  return (assignment) => scoreWith(roster, assignment, { facts, shiftIdx, personIdx, seatIdx, days, nightShares, weekendShares });
+}
+
+type Prepared = {
+  facts: ShiftFacts[];
+  shiftIdx: Map<string, number>;
+  personIdx: Map<string, number>;
+  seatIdx: Map<string, number>;
+  days: number;
+  nightShares: Map<number, number>;
+  weekendShares: Map<number, number>;
+};
+
+function scoreWith(roster: Roster, assignment: RosterAssignment, prep: Prepared): RosterScore {
+  const { facts, shiftIdx, personIdx, seatIdx, days } = prep;
+  const rules = roster.rules;
 
   const terms = Object.fromEntries(TERM_NAMES.map((t) => [t, 0])) as Record<TermName, number>;
   const hardCounts = Object.fromEntries(TERM_NAMES.map((t) => [t, 0])) as Record<TermName, number>;
@@ -270,7 +296,7 @@ export function scoreRoster(roster: Roster, assignment: RosterAssignment): Roste
   // fair spread of nights and weekends
   const fair = (term: 'fairNights' | 'fairWeekends', pickShift: (f: ShiftFacts) => boolean, noun: string) => {
     if (!on(term)) return;
-    const shares = fairShares(roster, facts, pickShift);
+    const shares = term === 'fairNights' ? prep.nightShares : prep.weekendShares;
     for (const [p, share] of shares) {
       const mine = worked[p].filter((x) => pickShift(x.shift));
       const over = mine.length - share;

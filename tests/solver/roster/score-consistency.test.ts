@@ -67,7 +67,7 @@ function allSoft(r: Roster): Roster {
 }
 
 describe('scoreRoster equals the model score', () => {
-  const seeds = Array.from({ length: 24 }, (_, i) => i + 1);
+  const seeds = Array.from({ length: 14 }, (_, i) => i + 1);
   it.each(seeds.flatMap((seed) => [[seed, 'as drawn'], [seed, 'all soft']] as const))('random roster %i (%s), random assignments', (seed, variant) => {
     const r = variant === 'all soft' ? allSoft(randomRoster(seed)) : randomRoster(seed);
     const c = compileRoster(r);
@@ -91,7 +91,7 @@ describe('scoreRoster equals the model score', () => {
   });
 
   it('the random assignments above included feasible ones (per-term comparisons ran)', () => {
-    expect(feasibleSeen).toBeGreaterThan(100);
+    expect(feasibleSeen).toBeGreaterThan(60);
   });
 
   it('agrees on the demo with the rules soft, for assignments with every term non-zero', () => {
