@@ -17,6 +17,7 @@ export interface RosterDto {
   wishDeadline: string | null;
   maxCannotDays: number | null;
   publishedAt: string | null;
+  publishedRunId: number | null;
   version: number;
 }
 
@@ -30,6 +31,7 @@ export const toRosterDto = (r: Roster): RosterDto => ({
   wishDeadline: r.wishDeadline ? new Date(r.wishDeadline).toISOString() : null,
   maxCannotDays: r.maxCannotDays ?? null,
   publishedAt: r.publishedAt ? new Date(r.publishedAt).toISOString() : null,
+  publishedRunId: r.publishedRunId ?? null,
   version: r.version,
 });
 

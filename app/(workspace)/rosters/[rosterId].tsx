@@ -1,0 +1,3 @@
+import { RosterScreen } from '@/components/rosters/roster-screen';
+
+export default RosterScreen;

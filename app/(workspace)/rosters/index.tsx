@@ -1,0 +1,3 @@
+import { RostersScreen } from '@/components/rosters/rosters-screen';
+
+export default RostersScreen;

@@ -1,0 +1,33 @@
+import { format } from 'date-fns';
+
+/** Points as people read them: one decimal below 10, whole numbers above. */
+export const points = (x: number | null | undefined): string => {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  const a = Math.abs(x);
+  const s = a < 10 ? a.toFixed(1) : Math.round(a).toLocaleString('en-GB');
+  return `${x < 0 ? '−' : ''}${s}`;
+};
+
+/**
+ * The solver's gap in words. gap = (bound − score) / max(1, |score|) (solver/inference/solve.ts):
+ * the best possible roster scores at most `bound`, so this one is at most that far from it.
+ */
+export function gapWords(score: number | null, bound: number | null, gap: number | null, optimal?: boolean): string {
+  if (score === null) return 'No roster that keeps every hard rule has been found yet.';
+  if (optimal || (gap !== null && gap <= 1e-9)) return 'Proven the best possible roster for these rules and wishes.';
+  if (bound === null || gap === null) return 'Score found; no bound on the best possible roster yet.';
+  const pct = gap * 100;
+  const text = pct < 0.1 ? 'less than 0.1%' : pct < 10 ? `${pct.toFixed(1)}%` : `${Math.round(pct)}%`;
+  return `At most ${text} from the best possible roster (the best possible scores at most ${points(bound)} points).`;
+}
+
+const localDate = (s: string) => new Date(Number(s.slice(0, 4)), Number(s.slice(5, 7)) - 1, Number(s.slice(8, 10)), 12);
+
+/** "Mon 4 Jan" for a YYYY-MM-DD (or the date part of a local date-time). */
+export const dayWords = (s: string) => format(localDate(s.slice(0, 10)), 'EEE d MMM');
+export const longDayWords = (s: string) => format(localDate(s.slice(0, 10)), 'EEEE d MMMM yyyy');
+export const timeOf = (local: string) => local.slice(11, 16);
+export const periodWords = (start: string, end: string) => `${dayWords(start)} – ${dayWords(end)} ${end.slice(0, 4)}`;
+
+/** Roster JSON ids (p12, st99) back to database ids. */
+export const dbId = (prefixed: string) => Number(prefixed.replace(/^[a-z]+/, ''));

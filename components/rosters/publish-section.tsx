@@ -1,0 +1,79 @@
+import { StyleSheet, View } from 'react-native';
+import { colors, space } from '@/constants/theme';
+import { WORKING_TIME_CAUTION } from '@/shared/caution';
+import { useRun } from '@/hooks/api/get-run';
+import { usePublishRoster } from '@/hooks/api/publish-roster';
+import { useReopenRoster } from '@/hooks/api/reopen-roster';
+import type { RosterDto } from '@/hooks/api/roster-types';
+import { Button } from '@/components/ui/button';
+import { Notice } from '@/components/ui/notice';
+import { Body } from '@/components/ui/typography';
+import { Loadable, Panel } from './parts';
+import { dbId, gapWords, points } from './format';
+import { DownloadLink } from './download-link';
+
+/** Freeze the roster on one run, mail everyone their shifts, and hand out CSV and iCalendar files. */
+export function PublishSection({ roster, runId }: { roster: RosterDto; runId: number | null }) {
+  const publish = usePublishRoster();
+  const reopen = useReopenRoster();
+  const shownRun = roster.status === 'published' ? roster.publishedRunId : runId;
+  const run = useRun(shownRun);
+  if (shownRun === null) return <Notice kind="info">No finished run to publish yet. Solve the roster first.</Notice>;
+  const slug = roster.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'roster';
+  const base = `/api/rosters/${roster.id}`;
+  const q = roster.status === 'published' ? '' : `?runId=${shownRun}`;
+  const sep = q ? '&' : '?';
+  return (
+    <View style={{ gap: space.lg }}>
+      <Loadable query={run} label="The run">
+        {(r) => (
+          <Panel title={roster.status === 'published' ? `Published: run ${r.id}` : `Publish run ${r.id}`} lead={roster.status === 'published' ? `Published ${roster.publishedAt ? new Date(roster.publishedAt).toLocaleString() : ''}. Staff see their shifts; the roster is frozen.` : 'Publishing freezes the roster on this run and e-mails every person on it their own shifts.'} testID="publish-panel">
+            <Body>{`${points(r.score)} points. ${r.parameters.manual ? 'Edited by hand.' : gapWords(r.score, r.bound, r.gap, r.result?.optimal)}`}</Body>
+            {r.result && r.result.openSeats > 0 ? <Notice kind="caution">{`${r.result.openSeats} seat${r.result.openSeats === 1 ? '' : 's'} stay open in this roster.`}</Notice> : null}
+            <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>
+            {publish.error ? <Notice>{publish.error.message}</Notice> : null}
+            {reopen.error ? <Notice>{reopen.error.message}</Notice> : null}
+            {roster.status === 'published' ? (
+              <Button kind="quiet" label="Reopen for changes" onPress={() => reopen.mutate({ rosterId: roster.id, version: roster.version })} busy={reopen.isPending} testID="publish-reopen" />
+            ) : (
+              <Button label="Publish and e-mail staff" onPress={() => publish.mutate({ rosterId: roster.id, runId: r.id, version: roster.version })} busy={publish.isPending} disabled={r.status !== 'done' || !r.result?.feasible} testID="publish-go" />
+            )}
+            {publish.data ? (
+              <View style={{ gap: space.xs }} testID="publish-mail-report">
+                <Notice kind="info">{`Published. ${publish.data.mail.sent.length} e-mail${publish.data.mail.sent.length === 1 ? '' : 's'} sent: ${publish.data.mail.sent.map((m) => m.name).join(', ') || 'none'}.`}</Notice>
+                {publish.data.mail.noAddress.length ? <Notice kind="caution">{`No e-mail address for ${publish.data.mail.noAddress.map((m) => m.name).join(', ')}: give them their shifts another way (the files below).`}</Notice> : null}
+                {publish.data.mail.failed.length ? <Notice>{`Could not send to ${publish.data.mail.failed.map((m) => `${m.name} (${m.reason})`).join(', ')}.`}</Notice> : null}
+              </View>
+            ) : null}
+          </Panel>
+        )}
+      </Loadable>
+      <Panel title="Files" lead={roster.status === 'published' ? 'The published roster, for everyone or one person. Calendar files (.ics) open in any calendar program.' : 'Files of the run shown above (not yet published).'}>
+        <View style={styles.links}>
+          <DownloadLink href={`${base}/roster.ics${q}`} filename={`${slug}.ics`} label="Calendar for everyone (.ics)" testID="download-ics-all" />
+          <DownloadLink href={`${base}/roster.csv${q}`} filename={`${slug}.csv`} label="Table for everyone (.csv)" testID="download-csv-all" />
+        </View>
+        <Loadable query={run} label="People">
+          {(r) => (
+            <View style={{ gap: space.xs }}>
+              {(r.result?.people ?? [])
+                .filter((p) => p.shifts > 0)
+                .map((p) => (
+                  <View key={p.personId} style={styles.person}>
+                    <Body style={{ flex: 1, minWidth: 160 }}>{`${p.name} · ${p.shifts} shifts`}</Body>
+                    <DownloadLink href={`${base}/roster.ics${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.ics`} label={`${p.name.split(' ')[0]}: .ics`} />
+                    <DownloadLink href={`${base}/roster.csv${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.csv`} label=".csv" />
+                  </View>
+                ))}
+            </View>
+          )}
+        </Loadable>
+      </Panel>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  links: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  person: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.xs },
+});

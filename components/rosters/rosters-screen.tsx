@@ -1,0 +1,99 @@
+import { useState } from 'react';
+import { Link } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { colors, radius, space } from '@/constants/theme';
+import { createRosterBody } from '@/shared/api/rosters';
+import { useSession } from '@/hooks/api/get-session';
+import { useRosters } from '@/hooks/api/get-rosters';
+import { useCreateRoster } from '@/hooks/api/create-roster';
+import { Button } from '@/components/ui/button';
+import { Notice } from '@/components/ui/notice';
+import { TextField } from '@/components/ui/text-field';
+import { Body, Heading } from '@/components/ui/typography';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { Loadable, Panel, Pill } from './parts';
+import { periodWords } from './format';
+
+const statusWords = { draft: 'draft', solved: 'solved', published: 'published' } as const;
+const statusTone = { draft: 'plain', solved: 'warn', published: 'good' } as const;
+
+/** Coordinators: every roster of the workspace, newest period first, and a form to start one. */
+export function RostersScreen() {
+  const { data: session } = useSession();
+  if (session && session.role !== 'admin' && session.role !== 'coordinator') return <Notice>Only coordinators and admins plan rosters.</Notice>;
+  return (
+    <View style={styles.page}>
+      <Heading>Rosters</Heading>
+      <RosterList />
+      <CreateRoster timeZone={session?.workspace?.timeZone} />
+    </View>
+  );
+}
+
+function RosterList() {
+  const rosters = useRosters();
+  return (
+    <Loadable query={rosters} label="Rosters">
+      {(page) =>
+        page.items.length === 0 ? (
+          <Notice kind="info">No rosters yet. Start one below: a name, the period it covers and its time zone.</Notice>
+        ) : (
+          <View style={styles.list} role="list" aria-label="Rosters">
+            {page.items.map((r) => (
+              <Link key={r.id} href={`/rosters/${r.id}`} asChild>
+                <Pressable role="link" accessibilityLabel={`Open roster ${r.name}`} style={({ pressed, hovered }: { pressed: boolean; hovered?: boolean }) => [styles.item, (pressed || hovered) && styles.itemHover]} testID={`roster-${r.id}`}>
+                  <View style={{ flex: 1, gap: 2 }}>
+                    <Body bold>{r.name}</Body>
+                    <Body muted>{`${periodWords(r.periodStart, r.periodEnd)} · ${r.timeZone}`}</Body>
+                  </View>
+                  <Pill tone={statusTone[r.status]}>{statusWords[r.status]}</Pill>
+                </Pressable>
+              </Link>
+            ))}
+          </View>
+        )
+      }
+    </Loadable>
+  );
+}
+
+function CreateRoster({ timeZone }: { timeZone?: string }) {
+  const create = useCreateRoster();
+  const [name, setName] = useState('');
+  const [periodStart, setStart] = useState('');
+  const [periodEnd, setEnd] = useState('');
+  const [zone, setZone] = useState(timeZone ?? 'Europe/London');
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const submit = () => {
+    const checked = checkForm(createRosterBody, { name, periodStart, periodEnd, timeZone: zone });
+    setErrors(checked.errors ?? {});
+    if (checked.data) create.mutate(checked.data, { onSuccess: () => { setName(''); setStart(''); setEnd(''); } });
+  };
+  const names = ['name', 'periodStart', 'periodEnd', 'timeZone'];
+  return (
+    <Panel title="Start a roster" lead="The period's first and last day, and the time zone its shift times are in.">
+      <TextField label="Name" value={name} onChangeText={setName} error={fieldError(errors, create.error, 'name')} testID="roster-name" />
+      <View style={styles.row}>
+        <View style={styles.cell}>
+          <TextField label="First day (YYYY-MM-DD)" value={periodStart} onChangeText={setStart} placeholder="2027-02-01" error={fieldError(errors, create.error, 'periodStart')} testID="roster-start" />
+        </View>
+        <View style={styles.cell}>
+          <TextField label="Last day (YYYY-MM-DD)" value={periodEnd} onChangeText={setEnd} placeholder="2027-02-28" error={fieldError(errors, create.error, 'periodEnd')} testID="roster-end" />
+        </View>
+      </View>
+      <TextField label="Time zone (IANA, e.g. Europe/London)" value={zone} onChangeText={setZone} autoCapitalize="none" error={fieldError(errors, create.error, 'timeZone')} testID="roster-zone" />
+      {formError(create.error, names) ? <Notice>{formError(create.error, names)!}</Notice> : null}
+      {create.isSuccess ? <Notice kind="info">{`Roster “${create.data.name}” created. Open it above to add shift patterns.`}</Notice> : null}
+      <Button label="Create roster" onPress={submit} busy={create.isPending} testID="roster-create" />
+    </Panel>
+  );
+}
+
+const styles = StyleSheet.create({
+  page: { gap: space.lg, maxWidth: 1000 },
+  list: { gap: space.sm },
+  item: { flexDirection: 'row', alignItems: 'center', gap: space.md, padding: space.lg, borderRadius: radius.md, backgroundColor: colors.card, borderWidth: 1, borderColor: colors.line, minHeight: 56 },
+  itemHover: { backgroundColor: colors.loomSoft },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  cell: { flex: 1, minWidth: 150 },
+});

@@ -1,0 +1,236 @@
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { colors, radius, space } from '@/constants/theme';
+import { patternBody, updateShiftBody } from '@/shared/api/rosters';
+import { useSkills } from '@/hooks/api/get-skills';
+import { usePatterns } from '@/hooks/api/get-patterns';
+import { usePreviewPattern, type PatternInput } from '@/hooks/api/preview-pattern';
+import { useCreatePattern } from '@/hooks/api/create-pattern';
+import { useDeletePattern } from '@/hooks/api/delete-pattern';
+import { useShifts } from '@/hooks/api/get-shifts';
+import { useUpdateShift } from '@/hooks/api/update-shift';
+import type { RosterDto, ShiftDto } from '@/hooks/api/roster-types';
+import { Button } from '@/components/ui/button';
+import { Notice } from '@/components/ui/notice';
+import { TextField } from '@/components/ui/text-field';
+import { Body } from '@/components/ui/typography';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { Choices, Loadable, Panel } from './parts';
+import { dayWords, timeOf } from './format';
+
+const WEEKDAYS = [
+  { value: 'mon', label: 'Mon' },
+  { value: 'tue', label: 'Tue' },
+  { value: 'wed', label: 'Wed' },
+  { value: 'thu', label: 'Thu' },
+  { value: 'fri', label: 'Fri' },
+  { value: 'sat', label: 'Sat' },
+  { value: 'sun', label: 'Sun' },
+] as const;
+type Weekday = (typeof WEEKDAYS)[number]['value'];
+
+export function SetupSection({ roster }: { roster: RosterDto }) {
+  return (
+    <View style={styles.stack}>
+      <PatternForm roster={roster} />
+      <PatternList roster={roster} />
+      <ShiftList roster={roster} />
+    </View>
+  );
+}
+
+function useSkillOptions() {
+  const skills = useSkills();
+  const options = [{ value: 'any', label: 'Anyone' }, ...(skills.data ?? []).map((s) => ({ value: String(s.id), label: s.name }))];
+  const name = (id: number | null) => (id === null ? 'anyone' : (skills.data?.find((s) => s.id === id)?.name ?? `skill ${id}`));
+  return { options, name, skills };
+}
+
+function PatternForm({ roster }: { roster: RosterDto }) {
+  const { options, name } = useSkillOptions();
+  const preview = usePreviewPattern();
+  const create = useCreatePattern();
+  const [label, setLabel] = useState('');
+  const [weekdays, setWeekdays] = useState<Weekday[]>(['mon', 'tue', 'wed', 'thu', 'fri']);
+  const [startTime, setStart] = useState('07:00');
+  const [endTime, setEnd] = useState('15:00');
+  const [seats, setSeats] = useState<Array<{ skill: string; count: string }>>([{ skill: 'any', count: '2' }]);
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const values = (): PatternInput => ({ label, weekdays, startTime, endTime, seats: seats.map((s) => ({ skillId: s.skill === 'any' ? null : Number(s.skill), count: Number(s.count) })) });
+  const check = () => {
+    const checked = checkForm(patternBody, values());
+    setErrors(checked.errors ?? {});
+    return checked.data;
+  };
+  const frozen = roster.status === 'published';
+  const names = ['label', 'weekdays', 'startTime', 'endTime', 'seats', 'count', 'skillId'];
+  const error = create.error ?? preview.error;
+  return (
+    <Panel title="Add a shift pattern" lead="A recurring shift: the weekdays it runs, its times, and how many seats of which skill. It makes dated shifts over the whole period.">
+      <TextField label="Pattern label" value={label} onChangeText={setLabel} placeholder="early, late, night…" error={fieldError(errors, error, 'label')} testID="pattern-label" />
+      <Body bold>Weekdays</Body>
+      <Choices label="Weekdays" multi options={[...WEEKDAYS]} value={weekdays} onChange={setWeekdays} testID="pattern-weekdays" />
+      {fieldError(errors, error, 'weekdays') ? <Notice>{fieldError(errors, error, 'weekdays')!}</Notice> : null}
+      <View style={styles.row}>
+        <View style={styles.cell}>
+          <TextField label="Starts (HH:mm)" value={startTime} onChangeText={setStart} error={fieldError(errors, error, 'startTime')} testID="pattern-start" />
+        </View>
+        <View style={styles.cell}>
+          <TextField label="Ends (HH:mm; earlier = next day)" value={endTime} onChangeText={setEnd} error={fieldError(errors, error, 'endTime')} testID="pattern-end" />
+        </View>
+      </View>
+      <Body bold>Seats by skill</Body>
+      {seats.map((s, i) => (
+        <View key={i} style={styles.seatRow}>
+          <View style={{ flex: 1, minWidth: 200 }}>
+            <Choices label={`Skill for seat group ${i + 1}`} options={options} value={[s.skill]} onChange={(v) => setSeats(seats.map((x, j) => (j === i ? { ...x, skill: v[0] } : x)))} />
+          </View>
+          <View style={{ width: 110 }}>
+            <TextField label={`How many (group ${i + 1})`} value={s.count} onChangeText={(count) => setSeats(seats.map((x, j) => (j === i ? { ...x, count } : x)))} inputMode="numeric" />
+          </View>
+          {seats.length > 1 ? <Button kind="quiet" label="Remove" onPress={() => setSeats(seats.filter((_, j) => j !== i))} /> : null}
+        </View>
+      ))}
+      {fieldError(errors, error, 'seats') ? <Notice>{fieldError(errors, error, 'seats')!}</Notice> : null}
+      <Button kind="quiet" label="Add seats with another skill" onPress={() => setSeats([...seats, { skill: 'any', count: '1' }])} />
+      {formError(error, names) ? <Notice>{formError(error, names)!}</Notice> : null}
+      <View style={styles.row}>
+        <Button kind="quiet" label="Preview shifts" onPress={() => { const data = check(); if (data) preview.mutate({ rosterId: roster.id, pattern: data }); }} busy={preview.isPending} testID="pattern-preview" />
+        <Button
+          label="Save pattern"
+          disabled={frozen}
+          onPress={() => { const data = check(); if (data) create.mutate({ rosterId: roster.id, pattern: data }, { onSuccess: () => { setLabel(''); preview.reset(); } }); }}
+          busy={create.isPending}
+          testID="pattern-save"
+        />
+      </View>
+      {preview.data ? (
+        <View style={styles.preview} testID="pattern-preview-list" aria-label="Preview of generated shifts">
+          <Body bold>{`${preview.data.length} shift${preview.data.length === 1 ? '' : 's'}, ${preview.data.reduce((n, s) => n + s.seats.length, 0)} seats over the period`}</Body>
+          {preview.data.slice(0, 8).map((s, i) => (
+            <Body key={i} muted>{`${dayWords(s.startsLocal)} ${timeOf(s.startsLocal)}–${timeOf(s.endsLocal)}${s.endsLocal.slice(0, 10) !== s.startsLocal.slice(0, 10) ? ' (next day)' : ''} · ${s.seats.map((x) => name(x.skillId)).join(', ')}`}</Body>
+          ))}
+          {preview.data.length > 8 ? <Body muted>{`… and ${preview.data.length - 8} more`}</Body> : null}
+        </View>
+      ) : null}
+      {create.isSuccess ? <Notice kind="info">{`Pattern “${create.data.label}” saved; its shifts are in the list below.`}</Notice> : null}
+    </Panel>
+  );
+}
+
+function PatternList({ roster }: { roster: RosterDto }) {
+  const patterns = usePatterns(roster.id);
+  const remove = useDeletePattern();
+  const { name } = useSkillOptions();
+  return (
+    <Panel title="Shift patterns">
+      <Loadable query={patterns} label="Shift patterns">
+        {(items) =>
+          items.length === 0 ? (
+            <Body muted>No patterns yet.</Body>
+          ) : (
+            <View style={{ gap: space.sm }}>
+              {items.map((p) => (
+                <View key={p.id} style={styles.line}>
+                  <View style={{ flex: 1, minWidth: 200 }}>
+                    <Body bold>{p.label}</Body>
+                    <Body muted>{`${p.weekdays.join(' ')} · ${p.startTime}–${p.endTime} · ${p.seats.map((s) => `${s.count} × ${name(s.skillId)}`).join(', ')}`}</Body>
+                  </View>
+                  <Button kind="quiet" label={`Delete ${p.label}`} disabled={roster.status === 'published'} onPress={() => remove.mutate({ rosterId: roster.id, patternId: p.id })} busy={remove.isPending && remove.variables?.patternId === p.id} />
+                </View>
+              ))}
+              {remove.error ? <Notice>{remove.error.message}</Notice> : null}
+            </View>
+          )
+        }
+      </Loadable>
+    </Panel>
+  );
+}
+
+function ShiftList({ roster }: { roster: RosterDto }) {
+  const shifts = useShifts(roster.id);
+  const [limit, setLimit] = useState(21);
+  const [editing, setEditing] = useState<number | null>(null);
+  const { name } = useSkillOptions();
+  return (
+    <Panel title="Shifts" lead="Every dated shift. Open one to change its times, label or seats.">
+      <Loadable query={shifts} label="Shifts">
+        {(items) =>
+          items.length === 0 ? (
+            <Notice kind="info">No shifts yet: add a shift pattern above.</Notice>
+          ) : (
+            <View style={{ gap: space.xs }} testID="shift-list">
+              <Body muted>{`${items.length} shifts, ${items.reduce((n, s) => n + s.seats.length, 0)} seats`}</Body>
+              {items.slice(0, limit).map((s) =>
+                editing === s.id ? (
+                  <ShiftEditor key={s.id} roster={roster} shift={s} onDone={() => setEditing(null)} />
+                ) : (
+                  <Pressable key={s.id} role="button" accessibilityLabel={`Edit the ${s.label} shift on ${dayWords(s.startsLocal)}`} onPress={() => setEditing(s.id)} style={styles.shift}>
+                    <Body style={{ flex: 1 }}>{`${dayWords(s.startsLocal)} · ${s.label} · ${timeOf(s.startsLocal)}–${timeOf(s.endsLocal)}`}</Body>
+                    <Body muted>{s.seats.map((x) => name(x.skillId)).join(', ')}</Body>
+                  </Pressable>
+                ),
+              )}
+              {items.length > limit ? <Button kind="quiet" label={`Show ${Math.min(42, items.length - limit)} more`} onPress={() => setLimit(limit + 42)} /> : null}
+            </View>
+          )
+        }
+      </Loadable>
+    </Panel>
+  );
+}
+
+function ShiftEditor({ roster, shift, onDone }: { roster: RosterDto; shift: ShiftDto; onDone: () => void }) {
+  const update = useUpdateShift();
+  const { options } = useSkillOptions();
+  const [label, setLabel] = useState(shift.label);
+  const [startsLocal, setStarts] = useState(shift.startsLocal);
+  const [endsLocal, setEnds] = useState(shift.endsLocal);
+  const [seats, setSeats] = useState(shift.seats.map((s) => (s.skillId === null ? 'any' : String(s.skillId))));
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const save = () => {
+    const checked = checkForm(updateShiftBody, { label, startsLocal, endsLocal, seats: seats.map((s) => ({ skillId: s === 'any' ? null : Number(s) })), version: shift.version });
+    setErrors(checked.errors ?? {});
+    if (checked.data) update.mutate({ rosterId: roster.id, shiftId: shift.id, changes: checked.data }, { onSuccess: onDone });
+  };
+  const names = ['label', 'startsLocal', 'endsLocal', 'seats'];
+  return (
+    <View style={styles.editor} testID={`shift-editor-${shift.id}`}>
+      <TextField label="Shift label" value={label} onChangeText={setLabel} error={fieldError(errors, update.error, 'label')} />
+      <View style={styles.row}>
+        <View style={styles.cell}>
+          <TextField label="Starts (YYYY-MM-DDTHH:mm)" value={startsLocal} onChangeText={setStarts} error={fieldError(errors, update.error, 'startsLocal')} />
+        </View>
+        <View style={styles.cell}>
+          <TextField label="Ends (YYYY-MM-DDTHH:mm)" value={endsLocal} onChangeText={setEnds} error={fieldError(errors, update.error, 'endsLocal')} />
+        </View>
+      </View>
+      {seats.map((s, i) => (
+        <View key={i} style={styles.seatRow}>
+          <View style={{ flex: 1, minWidth: 200 }}>
+            <Choices label={`Seat ${i + 1} skill`} options={options} value={[s]} onChange={(v) => setSeats(seats.map((x, j) => (j === i ? v[0] : x)))} />
+          </View>
+          {seats.length > 1 ? <Button kind="quiet" label={`Remove seat ${i + 1}`} onPress={() => setSeats(seats.filter((_, j) => j !== i))} /> : null}
+        </View>
+      ))}
+      <Button kind="quiet" label="Add a seat" onPress={() => setSeats([...seats, 'any'])} />
+      {formError(update.error, names) ? <Notice>{formError(update.error, names)!}</Notice> : null}
+      <View style={styles.row}>
+        <Button label="Save shift" onPress={save} busy={update.isPending} disabled={roster.status === 'published'} />
+        <Button kind="quiet" label="Cancel" onPress={onDone} />
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  stack: { gap: space.lg },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
+  cell: { flex: 1, minWidth: 150 },
+  seatRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
+  preview: { gap: 2, padding: space.md, borderRadius: radius.sm, backgroundColor: colors.loomSoft },
+  line: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.sm },
+  shift: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, paddingVertical: space.sm, minHeight: 44, alignItems: 'center', borderTopWidth: 1, borderTopColor: colors.line },
+  editor: { gap: space.md, padding: space.md, borderRadius: radius.sm, borderWidth: 1, borderColor: colors.thread, backgroundColor: colors.white },
+});

@@ -1,0 +1,10 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+
+export const deletePattern = ({ rosterId, patternId }: { rosterId: number; patternId: number }) =>
+  apiFetch<void>(`/rosters/${rosterId}/patterns/${patternId}`, { method: 'DELETE' });
+
+export function useDeletePattern() {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: deletePattern, onSuccess: (_d, v) => queryClient.invalidateQueries({ queryKey: ['rosters', v.rosterId] }) });
+}

@@ -1,0 +1,12 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+
+export const deletePin = ({ rosterId, seatId }: { rosterId: number; seatId: number }) => apiFetch<void>(`/rosters/${rosterId}/pins/${seatId}`, { method: 'DELETE' });
+
+export function useDeletePin() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: deletePin,
+    onSuccess: (_d, v) => Promise.all([queryClient.invalidateQueries({ queryKey: ['rosters', v.rosterId] }), queryClient.invalidateQueries({ queryKey: ['runs'] })]),
+  });
+}

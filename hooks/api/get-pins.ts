@@ -1,0 +1,13 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+
+export interface PinDto {
+  seatId: number;
+  personId: number | null;
+}
+
+export const getPins = (rosterId: number) => apiFetch<{ items: PinDto[] }>(`/rosters/${rosterId}/pins`).then((r) => r.items);
+
+export const pinsQueryOptions = (rosterId: number) => queryOptions({ queryKey: ['rosters', rosterId, 'pins'], queryFn: () => getPins(rosterId) });
+
+export const usePins = (rosterId: number) => useQuery(pinsQueryOptions(rosterId));

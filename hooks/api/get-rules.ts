@@ -1,0 +1,9 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+import type { RuleSet } from './roster-types';
+
+export const getRules = (rosterId: number) => apiFetch<{ rules: RuleSet; version: number }>(`/rosters/${rosterId}/rules`);
+
+export const rulesQueryOptions = (rosterId: number) => queryOptions({ queryKey: ['rosters', rosterId, 'rules'], queryFn: () => getRules(rosterId) });
+
+export const useRules = (rosterId: number) => useQuery(rulesQueryOptions(rosterId));

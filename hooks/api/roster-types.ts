@@ -1,0 +1,153 @@
+/** Shapes of the roster and run API answers (server/rosters, server/runs), as the screens use them. */
+import type { RuleSet } from '@/shared/roster/schema';
+
+export type { RuleSet };
+
+export interface RosterDto {
+  id: number;
+  name: string;
+  periodStart: string;
+  periodEnd: string;
+  timeZone: string;
+  status: 'draft' | 'solved' | 'published';
+  wishDeadline: string | null;
+  maxCannotDays: number | null;
+  publishedAt: string | null;
+  publishedRunId: number | null;
+  version: number;
+}
+
+export interface PatternDto {
+  id: number;
+  label: string;
+  weekdays: string[];
+  startTime: string;
+  endTime: string;
+  seats: Array<{ skillId: number | null; count: number }>;
+  night: boolean | null;
+  version: number;
+}
+
+export interface ShiftDto {
+  id: number;
+  patternId: number | null;
+  label: string;
+  startsLocal: string;
+  endsLocal: string;
+  night: boolean | null;
+  seats: Array<{ id: number; skillId: number | null; position: number }>;
+  version: number;
+}
+
+export interface PreviewShift {
+  label: string;
+  startsLocal: string;
+  endsLocal: string;
+  night: boolean | null;
+  seats: Array<{ skillId: number | null }>;
+}
+
+export interface Violation {
+  term: string;
+  hard: boolean;
+  points: number | null;
+  message: string;
+  people: string[];
+  seats: string[];
+}
+
+export interface PersonTotals {
+  personId: string;
+  name: string;
+  shifts: number;
+  hours: number;
+  nights: number;
+  weekendShifts: number;
+  contractedHours?: number;
+}
+
+export interface RunDto {
+  id: number;
+  rosterId: number;
+  status: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+  parameters: { timeLimitSeconds: number; seed: number; manual?: boolean; basedOnRunId?: number | null };
+  progress: { iteration: number; score: number; bound: number; gap: number; elapsedMs: number } | null;
+  score: number | null;
+  bound: number | null;
+  gap: number | null;
+  rosterVersion: number;
+  cancelRequested: boolean;
+  startedAt: string | null;
+  finishedAt: string | null;
+  timeMs: number | null;
+  error: string | null;
+  createdAt: string;
+}
+
+export interface RunDetail extends RunDto {
+  result: {
+    feasible: boolean;
+    optimal: boolean;
+    stopReason: string;
+    method: string;
+    openSeats: number;
+    checkedScore: number | null;
+    terms: Record<string, number>;
+    violations: Violation[];
+    violationCount: number;
+    people: PersonTotals[];
+    manual?: boolean;
+  } | null;
+  assignments: Array<{ seatId: number; personId: number | null; pinned: boolean }>;
+}
+
+export interface Concession extends Violation {
+  index: number;
+}
+
+export interface ConcessionPrice {
+  concession: { index: number; term: string; message: string; points: number | null };
+  method: 'resolve-enforced';
+  enforced: string;
+  exact: boolean;
+  feasible: boolean;
+  baseScore: number | null;
+  score: number | null;
+  bound: number | null;
+  price: number | null;
+  changedSeats: number;
+  timeMs: number;
+  words: string;
+}
+
+export interface SeatAlternatives {
+  runId: number;
+  seatId: number;
+  shift: { id: number; label: string; startsLocal: string; endsLocal: string; words: string };
+  skill: string | null;
+  current: { personId: number | null; name: string | null };
+  pinned: { personId: number | null } | null;
+  score: number | null;
+  method: 'rescored-swap';
+  methodWords: string;
+  contested: string;
+  alternatives: Array<{ personId: number | null; name: string | null; swapsWithSeatId: number | null; feasible: boolean; scoreChange: number | null; breaks: string[] }>;
+}
+
+export interface ScoreResult {
+  total: number | null;
+  feasible: boolean;
+  softTotal: number;
+  terms: Record<string, number>;
+  hardCounts: Record<string, number>;
+  violations: Array<Omit<Violation, 'seats'> & { seats: number[] }>;
+}
+
+export interface PublishResult {
+  roster: RosterDto;
+  mail: {
+    sent: Array<{ personId: number; name: string; to: string }>;
+    noAddress: Array<{ personId: number; name: string }>;
+    failed: Array<{ personId: number; name: string; reason: string }>;
+  };
+}

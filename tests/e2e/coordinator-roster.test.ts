@@ -1,0 +1,143 @@
+import { readFileSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import ICAL from 'ical.js';
+import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+
+const ROSTER = 'Willowmere House, January 2027';
+
+async function signIn(page: Page) {
+  await page.goto('/');
+  await page.getByLabel('E-mail').fill('coordinator@willowmere.example');
+  await page.getByLabel('Password').fill('willowmere-demo');
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
+/** Starts a run with a short time limit and waits for it to finish (the worker claims it from MariaDB). */
+async function solve(page: Page, shot: string) {
+  await page.getByTestId('section-solve').click();
+  await page.getByTestId('solve-seconds').fill('3');
+  await page.getByTestId('solve-start').click();
+  await page.getByTestId('run-progress').waitFor();
+  await screenshot(page, `${shot}-progress`);
+  await page.getByTestId('run-show-result').waitFor({ timeout: 45_000 });
+  // The score and the gap are stated in words once the run is done.
+  expect(await page.getByTestId('run-gap-words').textContent()).toMatch(/best possible roster/);
+  await screenshot(page, `${shot}-done`);
+  await page.getByTestId('run-show-result').click();
+  await page.getByTestId('result-summary').waitFor();
+}
+
+/** The messages the SMTP fake kept (newest first); `npm test` passes its HTTP address. */
+async function mailbox(): Promise<Array<{ to: string[]; subject: string; raw: string; receivedAt: string }>> {
+  const url = process.env.ROTALOOM_MAIL_FAKE_URL;
+  if (!url) throw new Error('ROTALOOM_MAIL_FAKE_URL is not set: run browser tests through `npm test`');
+  return (await fetch(`${url}/messages`)).json();
+}
+
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('the coordinator plans, solves, adjusts and publishes the Willowmere roster at %s size', (label, viewport) => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('solves, reads a concession and its price, pins a seat, re-solves keeping the pin, publishes, mails and downloads a valid .ics', { timeout: 240_000 }, async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    const shot = (name: string) => screenshot(page, `coordinator-roster-${label}-${name}`);
+    await signIn(page);
+
+    // The roster list, reached through the navigation.
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
+    await page.getByRole('heading', { name: 'Rosters', exact: true }).waitFor();
+    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).waitFor();
+    await shot('01-list');
+    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
+    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    await page.getByTestId('shift-list').waitFor();
+    await shot('02-shifts');
+
+    // An earlier test at the other size may have published it: reopen first (the roster says so).
+    if (await page.getByText('Published and frozen').isVisible()) {
+      await page.getByTestId('section-publish').click();
+      await page.getByTestId('publish-reopen').click();
+      await page.getByTestId('publish-go').waitFor();
+    }
+
+    // Rules carry the working-time caution.
+    await page.getByTestId('section-rules').click();
+    await page.getByText('Rosters affect rest and fatigue').first().waitFor();
+    await shot('03-rules');
+
+    await solve(page, `coordinator-roster-${label}-04-solve`);
+    expect(await page.getByTestId('result-gap-words').textContent()).toMatch(/best possible roster/);
+    await shot('05-result');
+
+    // A concession in words, and what honouring it would cost (a bounded re-solve on the server).
+    const first = page.getByTestId('concession-0');
+    await first.scrollIntoViewIfNeeded();
+    const concessionText = await first.textContent();
+    expect(concessionText).toMatch(/points/);
+    await page.getByTestId('concession-price-0').click();
+    await first.getByText(/Honouring this/).waitFor({ timeout: 45_000 });
+    await first.scrollIntoViewIfNeeded();
+    await shot('06-concession-price');
+
+    // Seat details: pin the first seat of the first day to whoever the solver put there.
+    const seat = page.locator('[data-testid^="seat-"]').first();
+    await seat.scrollIntoViewIfNeeded();
+    const seatId = (await seat.getAttribute('data-testid'))!.replace('seat-', '');
+    const holder = (await seat.textContent())!;
+    await seat.click();
+    await page.getByTestId('seat-panel').getByText('Alternatives').waitFor();
+    await page.getByTestId('seat-pin').click();
+    await page.getByText('Pinned. The next run keeps this seat').waitFor();
+    await page.getByTestId('seat-panel').scrollIntoViewIfNeeded();
+    await shot('07-pinned');
+
+    // Re-solve: the pinned seat keeps its person and says it is pinned.
+    await solve(page, `coordinator-roster-${label}-08-resolve`);
+    const pinnedSeat = page.getByTestId(`seat-${seatId}`);
+    await pinnedSeat.scrollIntoViewIfNeeded();
+    const after = (await pinnedSeat.textContent())!;
+    expect(after.startsWith('Pinned: ')).toBe(true);
+    expect(after.replace('Pinned: ', '')).toBe(holder.replace(/^Pinned: /, ''));
+    await shot('09-resolved-with-pin');
+
+    // Publish: frozen, mails out through the SMTP fake.
+    const publishedAt = new Date();
+    await page.getByTestId('section-publish').click();
+    await page.getByTestId('publish-go').click();
+    await page.getByTestId('publish-mail-report').waitFor({ timeout: 30_000 });
+    expect(await page.getByTestId('publish-mail-report').textContent()).toMatch(/Hattie Lowther/);
+    await shot('10-published');
+    const mails = (await mailbox()).filter((m) => m.to.includes('staff@willowmere.example') && m.subject.includes('Your shifts') && new Date(m.receivedAt) >= new Date(publishedAt.getTime() - 1000));
+    expect(mails.length).toBeGreaterThanOrEqual(1);
+    expect(mails[0].raw).toMatch(/Hattie Lowther/);
+
+    // The calendar file for everyone, downloaded like a person would, parsed by ical.js (an independent RFC 5545 parser).
+    const ics = page.getByTestId('download-ics-all');
+    await ics.scrollIntoViewIfNeeded();
+    const [download] = await Promise.all([page.waitForEvent('download'), ics.click()]);
+    expect(download.suggestedFilename()).toMatch(/\.ics$/);
+    const text = readFileSync((await download.path())!, 'utf8');
+    expect(text.startsWith('BEGIN:VCALENDAR\r\n')).toBe(true);
+    const events = new ICAL.Component(ICAL.parse(text)).getAllSubcomponents('vevent');
+    expect(events.length).toBeGreaterThan(50); // four weeks of early, late and night shifts
+    const one = new ICAL.Event(events[0]);
+    expect(one.startDate.toJSDate().getTime()).toBeLessThan(one.endDate.toJSDate().getTime());
+    await shot('11-files');
+
+    // Nothing wider than the screen.
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+    expect(overflow).toBeLessThanOrEqual(0);
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
