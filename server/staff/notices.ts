@@ -2,7 +2,7 @@ import { format, parseISO } from 'date-fns';
 import { Person, User, Workspace } from '../db/models';
 import type { Env } from '../env';
 import type { Mailer, OutgoingMail } from '../mail/mailer';
-import { Roster } from '../rosters/models';
+import { Roster, RunRow, ShiftRow } from '../rosters/models';
 import type { MyShift } from '../../shared/api/staff';
 import { shiftsOfRun } from './shifts';
 
@@ -44,6 +44,13 @@ export async function notifyPublished(
   if (!roster?.publishedRunId) return report;
   const now = await shiftsOfRun(workspaceId, roster, roster.publishedRunId, 'all');
   const before = previousRunId ? await shiftsOfRun(workspaceId, roster, previousRunId, 'all') : null;
+  // A shift kept from the earlier run but edited after it was made (times, seats) counts as changed.
+  const previousRun = previousRunId ? await RunRow.findOne({ where: { id: previousRunId, workspaceId }, attributes: ['id', 'createdAt'] }) : null;
+  const editedSince = new Set<number>();
+  if (previousRun) {
+    const rows = await ShiftRow.findAll({ where: { workspaceId, rosterId }, attributes: ['id', 'updatedAt'] });
+    for (const r of rows) if (new Date(r.updatedAt) > new Date(previousRun.createdAt)) editedSince.add(r.id);
+  }
   const personIds = [...new Set([...now.keys(), ...(before?.keys() ?? [])])];
   const people = await Person.findAll({ where: { workspaceId, id: personIds } });
   const users = await User.findAll({ where: { id: people.map((p) => p.userId).filter((id): id is number => typeof id === 'number') } });
@@ -62,11 +69,12 @@ export async function notifyPublished(
       const newKeys = new Set(mine.map(key));
       const added = mine.filter((s) => !oldKeys.has(key(s)));
       const removed = old.filter((s) => !newKeys.has(key(s)));
-      if (added.length === 0 && removed.length === 0) {
+      const edited = mine.filter((s) => oldKeys.has(key(s)) && editedSince.has(s.shiftId));
+      if (added.length === 0 && removed.length === 0 && edited.length === 0) {
         report.unchanged += 1;
         continue;
       }
-      mail = to ? changeMail({ to, name: person.name, rosterName: roster.name, workspaceName, timeZone: roster.timeZone, added, removed, mine, url: `${publicUrl}/my-shifts` }) : null;
+      mail = to ? changeMail({ to, name: person.name, rosterName: roster.name, workspaceName, timeZone: roster.timeZone, added, removed, edited, mine, url: `${publicUrl}/my-shifts` }) : null;
     } else {
       if (mine.length === 0) continue;
       mail = to ? publishedMail({ to, name: person.name, rosterName: roster.name, workspaceName, timeZone: roster.timeZone, mine, url: `${publicUrl}/my-shifts` }) : null;
@@ -106,11 +114,12 @@ function publishedMail(i: { to: string; name: string; rosterName: string; worksp
   );
 }
 
-function changeMail(i: { to: string; name: string; rosterName: string; workspaceName: string; timeZone: string; added: MyShift[]; removed: MyShift[]; mine: MyShift[]; url: string }): OutgoingMail {
+function changeMail(i: { to: string; name: string; rosterName: string; workspaceName: string; timeZone: string; added: MyShift[]; removed: MyShift[]; edited: MyShift[]; mine: MyShift[]; url: string }): OutgoingMail {
   const sections = [
     { lead: `${i.workspaceName} has published a new version of ${i.rosterName}, and your shifts changed (times in ${i.timeZone}).`, lines: [] },
     ...(i.added.length ? [{ lead: 'Now on:', lines: i.added.map(line) }] : []),
     ...(i.removed.length ? [{ lead: 'No longer on:', lines: i.removed.map(line) }] : []),
+    ...(i.edited.length ? [{ lead: 'Changed since the last version (as it is now):', lines: i.edited.map(line) }] : []),
     { lead: i.mine.length ? `All your shifts now (${i.mine.length}):` : 'You have no shifts on this roster now.', lines: i.mine.map(line) },
   ];
   return render(i.to, `Your shifts changed: ${i.rosterName}`, `Hello ${i.name},`, sections, i.url);

@@ -290,5 +290,22 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
     expect(change.text).toMatch(/Now on:\n- Wed 10 Mar: early, 07:00–15:00/);
     expect(change.text).toMatch(/No longer on:\n- Mon 8 Mar: early, 07:00–15:00/);
     expect(change.html).toContain('Wed 10 Mar');
+
+    // Reopened, Monday's shift moved an hour later, published again with the same people: both on it hear of it.
+    const monday = seats.find((s) => s.startsLocal === '2027-03-01T07:00')!.shiftId;
+    // DATETIME keeps whole seconds: the edit is stamped clearly after the run it follows.
+    await db.sequelize.query("UPDATE shifts SET starts_local = '2027-03-01T08:00', version = version + 1, updated_at = DATE_ADD(NOW(), INTERVAL 2 SECOND) WHERE id = ?", { replacements: [monday] });
+    const sameAgain = await publishDirectly(workspace.id, rosterId, [
+      { seatId: day('2027-03-01', 0), personId: me.id },
+      { seatId: day('2027-03-01', 1), personId: colleague.id },
+      { seatId: day('2027-03-03', 0), personId: me.id },
+      { seatId: day('2027-03-10', 0), personId: me.id },
+      { seatId: day('2027-03-09', 0), personId: colleague.id },
+    ]);
+    mailer.outbox.length = 0;
+    const third = await notifyPublished(workspace.id, rosterId, sameAgain.previousRunId);
+    expect(third.sent.map((s) => s.to).sort()).toEqual(['colleague@example.test', staffEmail].sort());
+    expect(mailer.last(staffEmail)!.text).toMatch(/Changed since the last version \(as it is now\):\n- Mon 1 Mar: early, 08:00–15:00/);
+    expect(mailer.last(staffEmail)!.text).not.toContain('Now on:');
   });
 });
