@@ -17,6 +17,8 @@ import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
 import { RolePicker } from './role-picker';
+import { PersonPicker } from './person-picker';
+import { useLinkMemberPerson } from '@/hooks/api/link-member-person';
 
 /** Admins: who is in the workspace and with which role; invitations sent and still open. */
 export function MembersScreen() {
@@ -37,18 +39,31 @@ function InviteForm() {
   const invite = useCreateInvitation();
   const [email, setEmail] = useState('');
   const [role, setRole] = useState<Role>('staff');
+  const [person, setPerson] = useState<{ id: number; name: string } | null>(null);
+  const [picking, setPicking] = useState(false);
   const [errors, setErrors] = useState<FieldErrors>({});
   const submit = () => {
-    const checked = checkForm(inviteSchema, { email, role });
+    const checked = checkForm(inviteSchema, { email, role, personId: person?.id ?? null });
     setErrors(checked.errors ?? {});
-    if (checked.data) invite.mutate(checked.data, { onSuccess: () => setEmail('') });
+    if (checked.data) invite.mutate(checked.data, { onSuccess: () => { setEmail(''); setPerson(null); } });
   };
   return (
     <Section title="Invite someone" lead="They get an e-mail with a link that works once, for 7 days.">
       <TextField label="E-mail" value={email} onChangeText={setEmail} autoCapitalize="none" autoComplete="off" inputMode="email" error={fieldError(errors, invite.error, 'email')} onSubmitEditing={submit} testID="invite-email" />
       <RolePicker label="Role for the invitation" value={role} onChange={setRole} testID="invite-role" />
       {fieldError(errors, invite.error, 'role') ? <Notice>{fieldError(errors, invite.error, 'role')!}</Notice> : null}
-      {formError(invite.error, ['email', 'role']) ? <Notice>{formError(invite.error, ['email', 'role'])!}</Notice> : null}
+      {person ? (
+        <View style={styles.row}>
+          <Body style={styles.rowText}>{`Will be rostered as ${person.name}`}</Body>
+          <Button kind="quiet" label="Not this person" onPress={() => setPerson(null)} />
+        </View>
+      ) : picking ? (
+        <PersonPicker label="Who are they on the roster?" onPick={(p) => { setPerson(p); setPicking(false); }} />
+      ) : (
+        <Button kind="quiet" label="Link to a person on the roster (optional)" onPress={() => setPicking(true)} />
+      )}
+      {fieldError(errors, invite.error, 'personId') ? <Notice>{fieldError(errors, invite.error, 'personId')!}</Notice> : null}
+      {formError(invite.error, ['email', 'role', 'personId']) ? <Notice>{formError(invite.error, ['email', 'role'])!}</Notice> : null}
       {invite.isSuccess ? (
         <Notice kind={invite.data.mailSent ? 'info' : 'caution'}>
           {invite.data.mailSent ? `Invitation sent to ${invite.data.invitation.email}.` : `The invitation is saved, but the e-mail to ${invite.data.invitation.email} could not be sent. Try again later.`}
@@ -98,14 +113,24 @@ function MemberRow({ member, isMe }: { member: Member; isMe: boolean }) {
   const wide = useIsWide();
   const update = useUpdateMember();
   const remove = useRemoveMember();
+  const link = useLinkMemberPerson();
   const [confirming, setConfirming] = useState(false);
-  const error = update.error ?? remove.error;
+  const [picking, setPicking] = useState(false);
+  const error = update.error ?? remove.error ?? link.error;
   return (
     <View style={[styles.member, wide && styles.memberWide]} testID={`member-${member.email}`}>
       <View style={styles.rowText}>
         <Body bold>{isMe ? `${member.displayName} (you)` : member.displayName}</Body>
         <Body muted>{member.email}</Body>
-        {member.personName ? <Body muted>{`Rostered as ${member.personName}`}</Body> : null}
+        <Body muted>{member.personName ? `Rostered as ${member.personName}` : 'Not linked to a person on the roster'}</Body>
+        {picking ? (
+          <PersonPicker label={`Who is ${member.displayName} on the roster?`} forUserId={member.userId} onPick={(p) => link.mutate({ userId: member.userId, personId: p.id }, { onSuccess: () => setPicking(false) })} />
+        ) : (
+          <View style={styles.linkRow}>
+            <Button kind="quiet" label={member.personName ? 'Change person' : 'Link a person'} onPress={() => setPicking(true)} />
+            {member.personName ? <Button kind="quiet" label="Unlink" onPress={() => link.mutate({ userId: member.userId, personId: null })} busy={link.isPending} /> : null}
+          </View>
+        )}
       </View>
       <RolePicker label={`Role of ${member.displayName}`} value={member.role} disabled={update.isPending} onChange={(role) => update.mutate({ userId: member.userId, role })} />
       {confirming ? (
@@ -128,4 +153,5 @@ const styles = StyleSheet.create({
   member: { gap: space.sm, paddingVertical: space.md, borderTopWidth: 1, borderTopColor: colors.line },
   memberWide: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', gap: space.md },
   confirm: { flexDirection: 'row', gap: space.sm },
+  linkRow: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', marginTop: space.xs },
 });

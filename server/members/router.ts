@@ -110,10 +110,18 @@ export function invitationsRouter({ env, mailer }: { env: Env; mailer: Mailer })
       ...(password ? [] : [{ path: 'body.password', message: 'Choose a password' }]),
     ];
     if (missing.length) throw new HttpError(400, 'validation_failed', 'Please enter your name and choose a password', missing);
-    // The invitee proved the address by opening the e-mailed link.
-    const user = await User.create({ email: invitation.email, displayName: displayName!, passwordHash: await hashPassword(password!), emailVerified: true });
-    await joinByInvitation(invitation, user.id);
-    await logIn(req, { id: user.id, email: user.email, displayName: user.displayName }, invitation.workspaceId);
+    const passwordHash = await hashPassword(password!);
+    let userId: number;
+    try {
+      // The invitee proved the address by opening the e-mailed link.
+      userId = await joinByInvitation(invitation, async (transaction) => (await User.create({ email: invitation.email, displayName: displayName!, passwordHash, emailVerified: true }, { transaction })).id);
+    } catch (err) {
+      if ((err as { name?: string }).name === 'SequelizeUniqueConstraintError') {
+        throw new HttpError(409, 'conflict', `An account for ${invitation.email} was just made; sign in to accept`, [{ path: 'body.token', message: 'Sign in first' }]);
+      }
+      throw err;
+    }
+    await logIn(req, { id: userId, email: invitation.email, displayName: displayName! }, invitation.workspaceId);
     res.status(201).json(await currentSession(req));
   });
 

@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { Membership, Person, User, Workspace, type Role } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import type { AuthContext } from '../auth/context';
@@ -42,7 +42,7 @@ const lastAdmin = () =>
  * Role changes and removals lock the workspace's admin rows, so two admins demoting each other at
  * the same moment cannot leave the workspace with none.
  */
-async function withAdminCheck(workspaceId: number, userId: number, change: (m: Membership, t: import('sequelize').Transaction) => Promise<void>, leavesAdmin: (m: Membership) => boolean): Promise<void> {
+async function withAdminCheck(workspaceId: number, userId: number, change: (m: Membership, t: Transaction) => Promise<void>, leavesAdmin: (m: Membership) => boolean): Promise<void> {
   await Membership.sequelize!.transaction(async (transaction) => {
     const admins = await Membership.findAll({ where: { workspaceId, role: 'admin' }, lock: transaction.LOCK.UPDATE, transaction });
     const membership = await Membership.findOne({ where: { workspaceId, userId }, transaction });
@@ -184,8 +184,10 @@ export async function previewInvitation(token: string) {
  * twice (or twice at the same moment) joins only one account. A matching person record (the
  * one named in the invitation, else an unlinked one with the same e-mail) is linked.
  */
-export async function joinByInvitation(invitation: Invitation, userId: number): Promise<void> {
-  await Invitation.sequelize!.transaction(async (transaction) => {
+export async function joinByInvitation(invitation: Invitation, who: number | ((transaction: Transaction) => Promise<number>)): Promise<number> {
+  return Invitation.sequelize!.transaction(async (transaction) => {
+    // A new account is made inside the same transaction, so a refused join leaves no account behind.
+    const userId = typeof who === 'number' ? who : await who(transaction);
     const [changed] = await Invitation.update(
       { acceptedAt: new Date(), acceptedBy: userId },
       { where: { id: invitation.id, acceptedAt: null, revokedAt: null }, transaction },
@@ -194,10 +196,11 @@ export async function joinByInvitation(invitation: Invitation, userId: number): 
     const existing = await Membership.findOne({ where: { workspaceId: invitation.workspaceId, userId }, transaction });
     if (!existing) await Membership.create({ workspaceId: invitation.workspaceId, userId, role: invitation.role }, { transaction });
     const alreadyLinked = await Person.count({ where: { workspaceId: invitation.workspaceId, userId }, transaction });
-    if (alreadyLinked) return;
+    if (alreadyLinked) return userId;
     const person =
       (invitation.personId ? await Person.findOne({ where: { id: invitation.personId, workspaceId: invitation.workspaceId, userId: null }, transaction }) : null) ??
       (await Person.findOne({ where: { workspaceId: invitation.workspaceId, email: invitation.email, userId: null }, transaction }));
     if (person) await person.update({ userId }, { transaction });
+    return userId;
   });
 }

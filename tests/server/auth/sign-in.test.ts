@@ -41,6 +41,17 @@ describe('password sign-in, session and sign-out', () => {
     expect((await a.get('/api/auth/session')).body.user).toBeNull();
   });
 
+  it('gives a new session id at each sign-in, so a planted session cookie is worthless', async () => {
+    const user = await makeUser({ workspace: await makeWorkspace() });
+    const a = agent(app);
+    const sid = (res: { headers: Record<string, unknown> }) => /rotaloom\.sid=([^;]+)/.exec(String((res.headers['set-cookie'] as string[])[0]))?.[1];
+    const first = sid(await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD }));
+    const second = sid(await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD }));
+    expect(first).toBeTruthy();
+    expect(second).toBeTruthy();
+    expect(second).not.toBe(first);
+  });
+
   it('marks the cookie Secure when the request came over HTTPS (through the loopback proxy)', async () => {
     const user = await makeUser({ workspace: await makeWorkspace() });
     const res = await request(app).post('/api/auth/sign-in').set('X-Rotaloom-CSRF', '1').set('X-Forwarded-Proto', 'https').send({ email: user.email, password: PASSWORD });
