@@ -95,11 +95,18 @@ export class LocalSearch {
     this.hold(i, v, true);
   }
 
+  /** Passes stop early once Date.now() passes this. */
+  deadline = Infinity;
+  private late(step: number): boolean {
+    return (step & 31) === 0 && Date.now() > this.deadline;
+  }
+
   /** One pass of single-variable moves; returns the total gain. */
   icmPass(order: number[]): number {
-    let gain = 0;
+    let gain = 0, step = 0;
     const acc = this.acc;
     for (const i of order) {
+      if (this.late(++step)) break;
       if (this.fixed[i]) continue;
       const K = this.E.card[i]!;
       this.local(i, acc);
@@ -116,9 +123,10 @@ export class LocalSearch {
 
   /** One pass of key swaps / ejections; returns the total gain. */
   swapPass(order: number[], candidates = 3): number {
-    let gain = 0;
+    let gain = 0, step = 0;
     const E = this.E, acc = this.acc, acc2 = this.acc2;
     for (const a of order) {
+      if (this.late(++step)) break;
       if (this.fixed[a]) continue;
       const K = E.card[a]!;
       this.local(a, acc);
@@ -155,8 +163,48 @@ export class LocalSearch {
     return gain;
   }
 
+  /**
+   * Moves toward a target assignment (e.g. the decoded beliefs), one variable at a
+   * time; a move that takes a key held elsewhere also re-optimizes that holder.
+   * Kept when the exact change is ≥ 0 (plateau moves allowed), else undone.
+   */
+  guided(target: Int32Array, order: number[]): number {
+    let gain = 0, step = 0;
+    const E = this.E, acc = this.acc, acc2 = this.acc2;
+    for (const a of order) {
+      if (this.late(++step)) break;
+      const v = target[a]!, cur = this.x[a]!;
+      if (v === cur || this.fixed[a]) continue;
+      this.local(a, acc);
+      const da = acc[v]! - acc[cur]!;
+      const g = E.keys.group[a]![v]!;
+      const hs = g !== 0 ? this.holders.get(g) : undefined;
+      const b = hs && hs.size ? (hs.values().next().value as number) : -1;
+      this.set(a, v);
+      let db = 0;
+      if (b >= 0 && b !== a && !this.fixed[b]) {
+        this.local(b, acc2);
+        const xb = this.x[b]!;
+        let vb = xb;
+        for (let u = 0; u < E.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
+        db = acc2[vb]! - acc2[xb]!;
+        if (da + db >= -EPS) {
+          this.set(b, vb);
+          gain += da + db;
+          continue;
+        }
+      } else if (da >= -EPS) {
+        gain += da;
+        continue;
+      }
+      this.set(a, cur);
+    }
+    return gain;
+  }
+
   /** Moves and swaps until no gain or the deadline passes. Returns the big-M score. */
   run(deadline: number, maxRounds = 100): number {
+    this.deadline = deadline;
     const order = shuffle(Array.from({ length: this.E.n }, (_, i) => i), this.random);
     for (let r = 0; r < maxRounds; r++) {
       let g = this.icmPass(order);

@@ -18,7 +18,7 @@ import type { Model } from '../model/types';
 import { score as exactScore } from '../model/score';
 import { OpBuffers, buildEngine, decodeBeliefs, engineScore, isForest, log10States, newMessageState, type Engine, type MessageState } from './engine';
 import { enumerateModel, exactTreeMap } from './exact';
-import { LocalSearch, rng } from './local-search';
+import { LocalSearch, rng, shuffle } from './local-search';
 import { generalDualBound, mplpBound, mplpUpdate, productUpdate } from './message-passing';
 import { branchAndBound } from './branch-bound';
 import { resolveMapOptions, type MapOptions, type Progress } from './options';
@@ -58,6 +58,19 @@ export function relativeGap(score: number, bound: number): number {
   if (score === -Infinity) return bound === -Infinity ? 0 : Infinity;
   const g = (bound - score) / Math.max(1, Math.abs(score));
   return g < 0 ? 0 : g;
+}
+
+/** Per variable: the best keyless value by its unary score if there is one, else the best value. */
+function safeStart(E: Engine): Int32Array {
+  return Int32Array.from(E.theta, (t, i) => {
+    const g = E.keys.group[i]!;
+    let best = -1, any = 0;
+    for (let x = 0; x < t.length; x++) {
+      if (t[x]! > t[any]!) any = x;
+      if (g[x] === 0 && (best < 0 || t[x]! > t[best]!)) best = x;
+    }
+    return best >= 0 && t[best]! > -E.H / 2 ? best : any;
+  });
 }
 
 /** Internal: a solve as a generator that yields whenever the caller may pause (async) or check the signal. */
@@ -176,11 +189,13 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   const orderF = Array.from(E.ops.keys());
   const orderB = [...orderF].reverse();
 
-  // initial incumbent: the caller's start, or unary argmax, improved locally
-  const start = opt.initial ? Int32Array.from(opt.initial) : decodeBeliefs(st);
+  // initial incumbent: the caller's start, else a "safe" start where every variable takes its best
+  // keyless value when it has one (e.g. a seat left open: collides with nothing), improved locally;
+  // local search never trades a feasible state for an infeasible one, so a feasible start stays feasible
+  const start = opt.initial ? Int32Array.from(opt.initial) : safeStart(E);
   {
     const ls = new LocalSearch(E, start, R);
-    const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + Math.max(50, opt.timeLimitMs * 0.05))) : engineScore(E, ls.x);
+    const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + Math.max(50, opt.timeLimitMs * 0.15))) : engineScore(E, ls.x);
     offer(ls.x, s);
   }
   progress();
@@ -189,7 +204,8 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   let stopReason: StopReason = 'iterations';
   let bestBoundAt = 0;
   let lastBoundImprove = Infinity;
-  let decodeMs = 0;
+  let decodeMs = 0, decodes = 0;
+  const shuffleOrder = (n: number): number[] => shuffle(Array.from({ length: n }, (_, i) => i), R);
   let sweepMs = 0;
   const bbAllowed = useMplp && E.n <= opt.branchAndBoundMaxVars;
   let opsSinceYield = 0;
@@ -222,15 +238,26 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     // decode every few sweeps while decoding has used under a third of the time, and on the last sweep
     const now = elapsed();
     const stalledDual = iterations - lastBoundImprove >= opt.stallSweeps;
-    if (cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.35 * now) || iterations === opt.maxIterations) {
+    if ((cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.4 * now) || iterations === opt.maxIterations) && Date.now() < deadline) {
       const td = Date.now();
-      const x = decodeBeliefs(st);
-      let s: number;
-      if (opt.localSearch) {
-        const ls = new LocalSearch(E, x, R);
-        s = ls.run(Math.min(deadline, Date.now() + Math.max(20, sweepMs * 3, (deadline - Date.now()) * 0.1)));
-        x.set(ls.x);
-      } else s = engineScore(E, x);
+      const target = decodeBeliefs(st);
+      let x: Int32Array, s: number;
+      if (!opt.localSearch) {
+        x = target;
+        s = engineScore(E, x);
+      } else {
+        // alternate: the decoded beliefs repaired from scratch, or the incumbent moved toward them
+        const fromIncumbent = bestX !== null && decodes % 2 === 1;
+        const ls = new LocalSearch(E, fromIncumbent ? bestX! : target, R);
+        const until = Math.min(deadline, Date.now() + Math.max(20, Math.min(sweepMs * 3 + 50, (deadline - Date.now()) * 0.25)));
+        if (fromIncumbent) {
+          ls.deadline = until;
+          ls.guided(target, shuffleOrder(E.n));
+        }
+        s = ls.run(until);
+        x = ls.x;
+      }
+      decodes++;
       offer(x, s);
       decodeMs += Date.now() - td;
     }
@@ -278,6 +305,8 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     stopReason = signal?.aborted ? 'aborted' : 'time';
   }
   void bestBoundAt;
+  // no sweep finished in time: fall back to the sum of each factor's own maximum (always valid)
+  if (bound === Infinity) bound = generalDualBound(E, newMessageState(E), buf);
   finish(useMplp ? 'mplp' : 'maxProduct', gapClosed() ? 'gap' : stopReason, false, st.belief);
 }
 
