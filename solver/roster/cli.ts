@@ -15,6 +15,7 @@ import { compileRoster, type CompiledRoster } from './compile';
 import { decodeAssignment, type DecodedRoster } from './decode';
 import { scoreRoster, TERM_NAMES, type RosterScore } from './score-roster';
 import { explainInfeasible } from './explain-infeasible';
+import { greedyAssignment } from './greedy';
 
 type Args = { roster: string; timeLimitS: number; json: boolean; exportUai?: string; seed: number };
 
@@ -173,7 +174,8 @@ export async function main(argv: string[]): Promise<number> {
       return 2;
     }
   }
-  const result = await solveMap(compiled.model, { timeLimitMs: args.timeLimitS * 1000, seed: args.seed });
+  // a greedy first roster gives local search covered seats to improve on from the start
+  const result = await solveMap(compiled.model, { timeLimitMs: args.timeLimitS * 1000, seed: args.seed, initial: greedyAssignment(compiled) });
   const decoded = decodeAssignment(compiled, result.assignment);
   const scored = scoreRoster(roster, decoded.assignment);
   if (args.json) {

@@ -6,3 +6,4 @@ export type { DecodedRoster, DecodedSeat, PersonSummary } from './decode';
 export { scoreRoster, makeRosterScorer, TERM_NAMES } from './score-roster';
 export type { RosterScore, RosterViolation, TermName } from './score-roster';
 export { explainInfeasible } from './explain-infeasible';
+export { greedyAssignment } from './greedy';

@@ -5,6 +5,8 @@ import { rosterSchema, type Roster } from '../../../shared/roster/schema';
 import { compileRoster, OPEN } from '../../../solver/roster/compile';
 import { decodeAssignment, encodeAssignment } from '../../../solver/roster/decode';
 import { explainInfeasible } from '../../../solver/roster/explain-infeasible';
+import { greedyAssignment } from '../../../solver/roster/greedy';
+import { scoreRoster } from '../../../solver/roster/score-roster';
 import { score, validateModel } from '../../../solver/model';
 
 describe('compileRoster', () => {
@@ -140,5 +142,20 @@ describe('explainInfeasible', () => {
     expect(explainInfeasible(r)).toEqual([
       'Priya Hollinshead is pinned to the late shift on Mon 4 Jan and the early shift on Tue 5 Jan, with 8 h rest; minimum 11 h (hard)',
     ]);
+  });
+});
+
+describe('greedyAssignment (the solver’s starting roster)', () => {
+  it.each([
+    ['demo', () => makeWillowmereRoster()],
+    ['demo with consecutive days and nights in a row hard', () => makeWillowmereRoster({ rules: { maxConsecutiveDays: { hard: true }, maxNightsInRow: { hard: true } } })],
+    ['fixture 30 × 6', () => makeRoster({ people: 30, weeks: 6, seed: 4 })],
+  ])('%s: keeps every hard rule and fills nearly every seat', (_, make) => {
+    const r = make();
+    const c = compileRoster(r);
+    const d = decodeAssignment(c, greedyAssignment(c));
+    const s = scoreRoster(r, d.assignment);
+    expect(s.violations.filter((v) => v.hard)).toEqual([]);
+    expect(d.openSeats.length).toBeLessThanOrEqual(r.seats.length * 0.02);
   });
 });
