@@ -18,6 +18,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: '/people', label: 'People', roles: ['admin', 'coordinator'] },
   { href: '/pairings', label: 'Pairings', roles: ['admin', 'coordinator'] },
   { href: '/members', label: 'Members', roles: ['admin'] },
+  { href: '/billing', label: 'Plan & billing', roles: ['admin'] },
   { href: '/account', label: 'Account', roles: ['admin', 'coordinator', 'staff'] },
 ];
 

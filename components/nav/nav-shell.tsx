@@ -8,6 +8,7 @@ import type { Session } from '@/hooks/api/get-session';
 import { useSignOut } from '@/hooks/api/sign-out';
 import { LoomMark } from './loom-mark';
 import { navItemsFor } from './nav-items';
+import { PastDueBanner } from '@/components/billing/past-due-banner';
 
 /**
  * The signed-in frame: a side column on wide screens, a bottom bar on phones, with the same
@@ -50,6 +51,7 @@ export function NavShell({ session, children }: { session: Session; children: Re
           </View>
         </View>
         <ScrollView style={styles.content} contentContainerStyle={styles.wideContent}>
+          {session.role === 'admin' ? <PastDueBanner /> : null}
           {children}
         </ScrollView>
       </View>
@@ -65,6 +67,7 @@ export function NavShell({ session, children }: { session: Session; children: Re
         </Pressable>
       </View>
       <ScrollView style={styles.content} contentContainerStyle={styles.phoneContent}>
+        {session.role === 'admin' ? <PastDueBanner /> : null}
         {children}
       </ScrollView>
       {moreOpen ? (

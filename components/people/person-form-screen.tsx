@@ -11,6 +11,7 @@ import { useUpdatePerson } from '@/hooks/api/update-person';
 import { useDeletePerson } from '@/hooks/api/delete-person';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
@@ -43,7 +44,7 @@ export function NewPersonScreen() {
         <TextLink href="/people" label="← All people" />
         <Heading>Add a person</Heading>
         <PersonFields values={values} onChange={setValues} errors={errors} error={create.error} onSubmit={submit} />
-        {formError(create.error, FIELDS) ? <Notice>{formError(create.error, FIELDS)!}</Notice> : null}
+        {isBillingRefusal(create.error) ? <PlanLimitPrompt error={create.error} /> : formError(create.error, FIELDS) ? <Notice>{formError(create.error, FIELDS)!}</Notice> : null}
         <Button label="Add person" onPress={submit} busy={create.isPending} testID="person-save" />
       </View>
     </CoordinatorsOnly>

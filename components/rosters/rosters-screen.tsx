@@ -8,6 +8,7 @@ import { useRosters } from '@/hooks/api/get-rosters';
 import { useCreateRoster } from '@/hooks/api/create-roster';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
@@ -82,7 +83,7 @@ function CreateRoster({ timeZone }: { timeZone?: string }) {
         </View>
       </View>
       <TextField label="Time zone (IANA, e.g. Europe/London)" value={zone} onChangeText={setZone} autoCapitalize="none" error={fieldError(errors, create.error, 'timeZone')} testID="roster-zone" />
-      {formError(create.error, names) ? <Notice>{formError(create.error, names)!}</Notice> : null}
+      {isBillingRefusal(create.error) ? <PlanLimitPrompt error={create.error} /> : formError(create.error, names) ? <Notice>{formError(create.error, names)!}</Notice> : null}
       {create.isSuccess ? <Notice kind="info">{`Roster “${create.data.name}” created. Open it above to add shift patterns.`}</Notice> : null}
       <Button label="Create roster" onPress={submit} busy={create.isPending} testID="roster-create" />
     </Panel>

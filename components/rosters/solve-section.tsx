@@ -10,6 +10,7 @@ import { useCancelRun } from '@/hooks/api/cancel-run';
 import type { RosterDto, RunDto } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
+import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel, Pill } from './parts';
@@ -44,7 +45,7 @@ export function SolveSection({ roster, onFinished, onShowResult }: { roster: Ros
         <View style={{ maxWidth: 220 }}>
           <TextField label="Or seconds (0.5–600)" value={limit} onChangeText={setLimit} inputMode="decimal" error={limitError ?? undefined} testID="solve-seconds" />
         </View>
-        {start.error ? <Notice>{start.error.message}</Notice> : null}
+        {isBillingRefusal(start.error) ? <PlanLimitPrompt error={start.error} /> : start.error ? <Notice>{start.error.message}</Notice> : null}
         <Button label={active ? 'A run is in progress' : 'Start solving'} onPress={go} busy={start.isPending} disabled={Boolean(active) || roster.status === 'published'} testID="solve-start" />
       </Panel>
       {current !== null ? <RunProgress runId={current} onFinished={onFinished} onShowResult={onShowResult} /> : null}

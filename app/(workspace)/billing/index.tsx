@@ -1,0 +1,3 @@
+import { BillingScreen } from '@/components/billing/billing-screen';
+
+export default BillingScreen;
