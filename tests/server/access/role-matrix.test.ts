@@ -86,6 +86,8 @@ describe('role-by-route matrix', () => {
     const request = (await import('supertest')).default;
     const wrong: string[] = [];
     // Exempt paths (the payment webhook) are called by a service, not a browser, and checked by signature instead.
+    // And only public routes may be exempt: a route needing a session always needs the header.
+    for (const exempt of CSRF_EXEMPT_PATHS) expect(routes.filter((r) => r.path === exempt).map((r) => r.access)).toEqual(['public']);
     for (const route of routes.filter((r) => r.method !== 'get' && !CSRF_EXEMPT_PATHS.has(r.path))) {
       const res = await request(app)[route.method](route.path.replace(/:[A-Za-z]+/g, '4000000001')).set('Cookie', cookie).send({});
       if (res.status !== 403 || !res.body.error?.message?.includes('X-Rotaloom-CSRF')) wrong.push(`${route.method} ${route.path}: ${res.status}`);
