@@ -38,7 +38,25 @@ function finiteRange(values: Iterable<number>): number {
   return hi >= lo ? hi - lo : 0;
 }
 
+const tableCache = new WeakMap<object, number[]>();
+
+/** Scores of a counting factor for every reachable sum 0..max (cached per factor object). */
 function countingTable(f: Factor & { kind: 'counting' }): number[] {
+  const hit = tableCache.get(f);
+  if (hit) return hit;
+  const t = countingTableUncached(f);
+  tableCache.set(f, t);
+  return t;
+}
+
+function countingTableUncached(f: Factor & { kind: 'counting' }): number[] {
+  if (typeof f.score !== 'function') {
+    // a table repeats its last entry: no need to expand past it
+    const maxS = Math.min(countingMaxSum(f), Math.max(0, f.score.length - 1));
+    const t: number[] = [];
+    for (let s = 0; s <= maxS; s++) t.push(countingScoreAt(f, s));
+    return t;
+  }
   const maxS = countingMaxSum(f);
   const t: number[] = [];
   for (let s = 0; s <= maxS; s++) t.push(countingScoreAt(f, s));
@@ -139,6 +157,17 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
   const countingOp = (fi: number, vars: number[], weights: Array<Array<[number, number]>>, table: number[]): CountingOp | null => {
     const vs: number[] = [], off: number[] = [0], sup: number[] = [], wts: number[] = [];
     weights.forEach((ws, j) => {
+      if (ws.length === 1) {
+        // common case: one weighted value (e.g. this seat taken by the factor's person)
+        const [x, w] = ws[0]!;
+        if (w > 0) {
+          vs.push(vars[j]!);
+          sup.push(x);
+          wts.push(w);
+          off.push(sup.length);
+        }
+        return;
+      }
       const m = new Map<number, number>();
       for (const [x, w] of ws) if (w > 0) m.set(x, (m.get(x) ?? 0) + w);
       if (m.size === 0) return; // weighs 0 whatever its value: not part of the sum

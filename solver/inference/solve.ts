@@ -195,7 +195,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   const start = opt.initial ? Int32Array.from(opt.initial) : safeStart(E);
   {
     const ls = new LocalSearch(E, start, R);
-    const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + Math.max(50, opt.timeLimitMs * 0.15))) : engineScore(E, ls.x);
+    const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + Math.max(50, opt.timeLimitMs * 0.08))) : engineScore(E, ls.x);
     offer(ls.x, s);
   }
   progress();
