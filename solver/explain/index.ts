@@ -9,7 +9,7 @@
 import type { Assignment, Factor, Model } from '../model/types';
 import { factorScore, isHardFactor, keyOf, scopeOf, valueLabel, countingScoreAt } from '../model/factor-graph';
 import { score } from '../model/score';
-import { buildEngine, isForest, log10States } from '../inference/engine';
+import { buildEngine, isForest, log10States, type Engine } from '../inference/engine';
 import { enumerateModel, exactTreeMap } from '../inference/exact';
 import { LocalSearch, rng } from '../inference/local-search';
 import { solveMap, type MapResult } from '../inference/solve';
@@ -113,6 +113,8 @@ export interface Alternative {
 }
 
 export interface AlternativeOptions {
+  /** A compiled engine of the same model, to reuse across calls (buildEngine(model)). */
+  engine?: Engine;
   count: number;
   /** Time for each local repair. */
   repairMs: number;
@@ -129,7 +131,7 @@ export function alternatives(model: Model, result: MapResult, i: number, options
   const o: AlternativeOptions = { count: 3, repairMs: 200, seed: 1, ...options };
   const v = model.variables[i]!;
   const cur = result.assignment[i]!;
-  const E = buildEngine(model);
+  const E = o.engine ?? buildEngine(model);
   const mk = (value: number, delta: number, deltaBound: number, how: Alternative['how']): Alternative => ({ value, label: valueLabel(v, value), key: keyOf(v, value), delta, deltaBound, how });
   if (log10States(E) <= 5.3 || isForest(E)) {
     const mm = log10States(E) <= 5.3 ? enumerateModel(model).maxMarginals[i]! : exactMaxMarginals(model)[i]!;
@@ -160,6 +162,12 @@ export function alternatives(model: Model, result: MapResult, i: number, options
     res.push(mk(x, s - result.score, ub(x), 'repair'));
   }
   return res.sort((p, q) => q.delta - p.delta || p.value - q.value).slice(0, o.count);
+}
+
+/** Alternatives for several variables, compiling the model once. */
+export function alternativesFor(model: Model, result: MapResult, vars: number[], options: Partial<AlternativeOptions> = {}): Map<number, Alternative[]> {
+  const engine = options.engine ?? buildEngine(model);
+  return new Map(vars.map((i) => [i, alternatives(model, result, i, { ...options, engine })]));
 }
 
 /** Exact max-marginals on a forest (absolute scores). */

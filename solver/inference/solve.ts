@@ -87,7 +87,15 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   let lastProgress = 0;
   const R = rng(opt.seed);
   const elapsed = (): number => Date.now() - t0;
-  const trueScore = (x: ArrayLike<number>): number => exactScore(model, x);
+  // exact score of the incumbent, recomputed only when the incumbent changes
+  let cachedFor: Int32Array | null = null, cachedScore = -Infinity;
+  const trueScore = (x: Int32Array): number => {
+    if (x !== cachedFor) {
+      cachedFor = x;
+      cachedScore = exactScore(model, x);
+    }
+    return cachedScore;
+  };
 
   const record = (): void => {
     const s = bestX ? trueScore(bestX) : -Infinity;
