@@ -1,3 +1,4 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
 import { useSeatAlternatives } from '@/hooks/api/get-seat-alternatives';
@@ -15,6 +16,7 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
   const details = useSeatAlternatives(runId, seatId);
   const pin = usePutPin();
   const unpin = useDeletePin();
+  const [all, setAll] = useState(false);
   const frozen = roster.status === 'published';
   const error = pin.error ?? unpin.error;
   return (
@@ -36,14 +38,15 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
             {error ? <Notice>{error.message}</Notice> : null}
             <Body bold>Alternatives</Body>
             <Body muted style={{ fontSize: 13 }}>{d.methodWords}</Body>
-            {d.alternatives.slice(0, 6).map((a) => (
+            {d.alternatives.slice(0, all ? undefined : 6).map((a) => (
               <View key={a.personId ?? 'open'} style={styles.alt}>
                 <Body style={{ flex: 1, minWidth: 140 }}>{`${a.name ?? 'Leave open'}${a.swapsWithSeatId ? ' (swaps seats)' : ''}`}</Body>
-                {a.feasible ? <Pill tone={(a.scoreChange ?? 0) >= 0 ? 'good' : 'warn'}>{`${(a.scoreChange ?? 0) >= 0 ? '+' : ''}${points(a.scoreChange)} points`}</Pill> : <Pill tone="bad">breaks a hard rule</Pill>}
+                {a.feasible ? <Pill tone={(a.scoreChange ?? 0) >= 0 ? 'good' : 'warn'}>{Math.abs(a.scoreChange ?? 0) < 0.05 ? 'no change' : `${(a.scoreChange ?? 0) > 0 ? '+' : ''}${points(a.scoreChange)} points`}</Pill> : <Pill tone="bad">breaks a hard rule</Pill>}
                 {a.feasible && !frozen ? <Button kind="quiet" label={`Pin ${a.name ?? 'open'}`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
                 {!a.feasible && a.breaks[0] ? <Body muted style={{ width: '100%', fontSize: 13 }}>{a.breaks[0]}</Body> : null}
               </View>
             ))}
+            {!all && d.alternatives.length > 6 ? <Button kind="quiet" label={`Show all ${d.alternatives.length} alternatives`} onPress={() => setAll(true)} testID="seat-show-all" /> : null}
           </View>
         )}
       </Loadable>

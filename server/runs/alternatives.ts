@@ -15,8 +15,10 @@ import { runAssignment } from './run-view';
  * this is the change for that one move, not the best roster with that person in the seat.
  */
 export async function seatAlternatives(workspaceId: number, runId: number, seatId: number) {
-  const { run, roster, assignment } = await runAssignment(workspaceId, runId);
+  const { run, roster: asStored, assignment } = await runAssignment(workspaceId, runId);
   const seatKey = rosterIds.seat(seatId);
+  // This seat's own pin is what the coordinator is weighing, so alternatives are scored without it.
+  const roster = { ...asStored, pins: asStored.pins.filter((p) => p.seat !== seatKey) };
   const seat = roster.seats.find((s) => s.id === seatKey);
   if (!seat) throw new HttpError(404, 'not_found', 'Seat not found in this roster', [{ path: 'params.seatId', message: 'not a seat of this roster' }]);
   const base = scoreRoster(roster, assignment);

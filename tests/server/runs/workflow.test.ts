@@ -92,7 +92,8 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     await db.drop();
   });
 
-  it('lists the concessions largest cost first and prices honouring one against exhaustive enumeration', async () => {
+  // Solves in worker threads: generous on a loaded machine.
+  it('lists the concessions largest cost first and prices honouring one against exhaustive enumeration', { timeout: 180_000 }, async () => {
     const run = await solve();
     runId = run.id;
     // Closed form: everybody works every day (coverage 100 per seat beats the 7-point wish) → −7.
@@ -147,7 +148,8 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     expect((await coordinator.get(`/api/runs/${runId}/seats/999999/alternatives`)).status).toBe(404);
   });
 
-  it('keeps a pin through a re-solve', async () => {
+  // Solves in worker threads: generous on a loaded machine.
+  it('keeps a pin through a re-solve', { timeout: 180_000 }, async () => {
     const shifts = (await coordinator.get(`/api/rosters/${rosterId}/shifts`)).body.items as Array<{ id: number; startsLocal: string; seats: Array<{ id: number }> }>;
     const monday = shifts.find((s) => s.startsLocal.startsWith('2027-07-05'))!;
     // Pin Monday's first seat open: the optimum now pays one open seat (−100) and the wish (−7).
@@ -157,6 +159,13 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     const pinned = run.assignments.find((a) => a.seatId === monday.seats[0].id)!;
     expect(pinned).toMatchObject({ personId: null, pinned: true });
     expect(run.score).toBeCloseTo(-107, 6);
+    // The seat's own pin is what is being weighed: its alternatives are scored without it
+    // (filling it again gains the 100-point open-seat penalty back).
+    const alts = await coordinator.get(`/api/runs/${run.id}/seats/${monday.seats[0].id}/alternatives`);
+    expect(alts.body.pinned).toEqual({ personId: null });
+    const best = alts.body.alternatives[0];
+    expect(best.feasible).toBe(true);
+    expect(best.scoreChange).toBeCloseTo(100, 6);
     expect((await coordinator.delete(`/api/rosters/${rosterId}/pins/${monday.seats[0].id}`)).status).toBe(204);
     runId = (await solve()).id;
   });
