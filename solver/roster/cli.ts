@@ -16,6 +16,8 @@ import { decodeAssignment, type DecodedRoster } from './decode';
 import { scoreRoster, TERM_NAMES, type RosterScore } from './score-roster';
 import { explainInfeasible } from './explain-infeasible';
 import { greedyAssignment } from './greedy';
+import { expandCountingForUai } from './uai-expand';
+import { writeUaiWithOffset } from '../io/uai';
 
 type Args = { roster: string; timeLimitS: number; json: boolean; exportUai?: string; seed: number };
 
@@ -70,17 +72,17 @@ async function loadRoster(file: string): Promise<Roster> {
   return r.roster;
 }
 
-/** Write the compiled model as a UAI MARKOV file with the colleague's writer, if it exists yet. */
-async function exportUai(compiled: CompiledRoster, file: string): Promise<void> {
-  let mod: Record<string, unknown>;
-  try {
-    mod = (await import('../io')) as Record<string, unknown>;
-  } catch {
-    throw new UsageError('--export-uai: the UAI writer (solver/io) is not available in this build');
-  }
-  const writer = (mod.writeUai ?? mod.toUai ?? mod.formatUai) as ((m: CompiledRoster['model']) => string) | undefined;
-  if (typeof writer !== 'function') throw new UsageError('--export-uai: solver/io has no writeUai(model) function');
-  await writeFile(file, writer(compiled.model), 'utf8');
+/**
+ * Write the compiled model as a UAI MARKOV file: counting factors become chains of partial
+ * sums (uai-expand.ts) so every table stays small; the seats are the first variables.
+ */
+function exportUai(compiled: CompiledRoster, file: string): Promise<string> {
+  const expanded = expandCountingForUai(compiled.model);
+  const { text, offset } = writeUaiWithOffset(expanded.model);
+  return writeFile(file, text, 'utf8').then(
+    () =>
+      `wrote ${file}: ${expanded.model.variables.length} variables (the first ${expanded.originalVariables} are the seats, in roster order), ${expanded.model.factors.length} factors; roster score = ln(UAI value) + ${offset}`,
+  );
 }
 
 function pad(s: string, n: number): string {
@@ -168,7 +170,8 @@ export async function main(argv: string[]): Promise<number> {
   const compiled = compileRoster(roster);
   if (args.exportUai) {
     try {
-      await exportUai(compiled, args.exportUai);
+      // a note on stderr keeps --json output on stdout clean
+      process.stderr.write(`solve: ${await exportUai(compiled, args.exportUai)}\n`);
     } catch (e) {
       process.stderr.write(`solve: ${(e as Error).message}\n`);
       return 2;
