@@ -57,6 +57,14 @@ export interface Op {
   score(x: Int32Array): number;
   /** Add to acc[v] the operator's score as a function of x[vars[slot]] = v, others as in x, up to a constant. */
   cond(slot: number, x: Int32Array, acc: Float64Array): void;
+  /** An upper bound on the operator's score (its largest entry). */
+  upper(): number;
+}
+
+function maxOf(t: ArrayLike<number>): number {
+  let m = NEG;
+  for (let i = 0; i < t.length; i++) if (t[i]! > m) m = t[i]!;
+  return m;
 }
 
 /** Per-variable key information in dense form. */
@@ -121,6 +129,9 @@ export class PairwiseOp implements Op {
   score(x: Int32Array): number {
     return this.t[x[this.vars[0]!]! * this.kb + x[this.vars[1]!]!]!;
   }
+  upper(): number {
+    return maxOf(this.t);
+  }
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     const { ka, kb, t } = this;
     if (slot === 0) {
@@ -174,6 +185,9 @@ export class TableOp implements Op {
     let e = 0;
     for (let j = 0; j < this.vars.length; j++) e += x[this.vars[j]!]! * this.strides[j]!;
     return this.t[e]!;
+  }
+  upper(): number {
+    return maxOf(this.t);
   }
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     let e = 0;
@@ -283,6 +297,9 @@ export class PottsOp implements Op {
     const a = this.vars[0]!, b = this.vars[1]!;
     const ga = this.keys.group[a]![x[a]!]!;
     return ga !== 0 && ga === this.keys.group[b]![x[b]!]! ? this.w : 0;
+  }
+  upper(): number {
+    return Math.max(0, this.w);
   }
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     const other = this.vars[1 - slot]!, self = this.vars[slot]!;
@@ -415,6 +432,9 @@ export class SparseOp implements Op {
     const s = this.lookup.get(ga * this.keys.numGroups + gb);
     return s === undefined ? this.def : s;
   }
+  upper(): number {
+    return Math.max(this.def, ...this.lookup.values());
+  }
   score(x: Int32Array): number {
     const a = this.vars[0]!, b = this.vars[1]!;
     return this.at(this.keys.group[a]![x[a]!]!, this.keys.group[b]![x[b]!]!);
@@ -477,6 +497,7 @@ export abstract class CompactOp implements Op {
   score(x: Int32Array): number {
     return this.gLocal(this.sumOf(x, -1));
   }
+  abstract upper(): number;
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     this.condFromSum(slot, this.sumOf(x, slot), acc);
   }
@@ -504,6 +525,9 @@ export class CountingOp extends CompactOp {
   }
   g(sum: number): number {
     return this.table[sum > this.S ? this.S : sum]!;
+  }
+  upper(): number {
+    return maxOf(this.table);
   }
   /** Graded local-search scores over 0..S (hard sums cost H per unit of distance to an allowed sum). */
   localTable: Float64Array | null = null;
@@ -594,6 +618,9 @@ export class AtMostOneOp extends CompactOp {
   }
   g(sum: number): number {
     return sum <= 1 ? 0 : -this.H;
+  }
+  upper(): number {
+    return 0;
   }
   message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void {
     const n = this.vars.length, off = this.off, d = this.d;

@@ -60,6 +60,11 @@ export function relativeGap(score: number, bound: number): number {
   return g < 0 ? 0 : g;
 }
 
+/** Beliefs of a fresh message state are the unary scores. */
+function st0(E: Engine): MessageState {
+  return { belief: E.theta, msg: [], opConst: new Float64Array(0), tops: null as never };
+}
+
 /** Per variable: the best keyless value by its unary score if there is one, else the best value. */
 function safeStart(E: Engine): Int32Array {
   return Int32Array.from(E.theta, (t, i) => {
@@ -197,14 +202,19 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   const orderF = Array.from(E.ops.keys());
   const orderB = [...orderF].reverse();
 
-  // initial incumbent: the caller's start, else a "safe" start where every variable takes its best
-  // keyless value when it has one (e.g. a seat left open: collides with nothing), improved locally;
-  // local search never trades a feasible state for an infeasible one, so a feasible start stays feasible
-  const start = opt.initial ? Int32Array.from(opt.initial) : safeStart(E);
+  // initial incumbent: the caller's start, else each variable's best value by its unary score,
+  // improved locally; if that stays infeasible, a "safe" start where every variable takes its best
+  // keyless value when it has one (a seat left open collides with nothing). Local search never
+  // trades a feasible state for an infeasible one, so a feasible start stays feasible.
   {
-    const ls = new LocalSearch(E, start, R);
-    const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + Math.max(50, opt.timeLimitMs * 0.08))) : engineScore(E, ls.x);
-    offer(ls.x, s);
+    const budget = Math.max(50, opt.timeLimitMs * 0.08);
+    const starts = opt.initial ? [Int32Array.from(opt.initial)] : [decodeBeliefs(st0(E)), safeStart(E)];
+    for (const start of starts) {
+      const ls = new LocalSearch(E, start, R);
+      const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + budget)) : engineScore(E, ls.x);
+      offer(ls.x, s);
+      if (trueScore(bestX!) > -Infinity || Date.now() > deadline) break;
+    }
   }
   progress();
   yield;
@@ -313,8 +323,12 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     stopReason = signal?.aborted ? 'aborted' : 'time';
   }
   void bestBoundAt;
-  // no sweep finished in time: fall back to the sum of each factor's own maximum (always valid)
-  if (bound === Infinity) bound = generalDualBound(E, newMessageState(E), buf);
+  // no sweep finished in time: fall back to the sum of each part's own maximum (always valid)
+  if (bound === Infinity) {
+    bound = E.constant;
+    for (const t of E.theta) bound += Math.max(...t);
+    for (const op of E.ops) bound += op.upper();
+  }
   finish(useMplp ? 'mplp' : 'maxProduct', gapClosed() ? 'gap' : stopReason, false, st.belief);
 }
 
