@@ -48,7 +48,8 @@ function readVitestJson(file: string): Tally | null {
  */
 async function main(): Promise<number> {
   const only = process.argv.slice(2); // e.g. `npm test -- unit` or `npm test -- e2e`
-  const wants = (part: string) => only.length === 0 || only.includes(part);
+  // After Ctrl-C the step in progress ends on its own; the steps after it are skipped.
+  const wants = (part: string) => !interrupted && (only.length === 0 || only.includes(part));
   ensureDebianPackages(wants('e2e') ? [...MARIADB, ...CHROMIUM] : MARIADB);
   const tmp = mkdtempSync(path.join(os.tmpdir(), 'rotaloom-test-'));
   const port = await freePort();
