@@ -7,7 +7,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Section } from '@/components/auth/section';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, type FieldErrors } from '@/components/auth/form-errors';
 import { ChoiceChips } from './choice-chips';
 import { WISH_CHOICES, WISH_WORDS } from './wish-kinds';
 
@@ -29,23 +29,26 @@ export function WeeklyWishForm({ rosterId }: { rosterId: number }) {
   const [kind, setKind] = useState<StaffWishKind | null>(null);
   const [note, setNote] = useState('');
   const [errors, setErrors] = useState<FieldErrors>({});
+  const [shown, setShown] = useState(false);
   const submit = () => {
     const checked = checkForm(weeklyWishBody, { weekday: weekday ?? undefined, kind: kind ?? undefined, note: note || null });
     setErrors(checked.errors ?? {});
     if (checked.data) weekly.mutate({ rosterId, ...checked.data }, { onSuccess: () => setNote('') });
   };
   const long = WEEKDAYS.find((d) => d.value === weekday)?.long;
+  if (!shown) return <Button kind="quiet" label="Same wish every week…" onPress={() => setShown(true)} testID="weekly-open" />;
   return (
     <Section title="Every week" lead="Same wish on one weekday all through this roster, for example “I cannot do Tuesdays”. It replaces what you said about those days.">
       <ChoiceChips label="Weekday" choices={WEEKDAYS} value={weekday} onChange={setWeekday} testID="weekly-weekday" />
-      {errors.weekday ? <Notice>{'Choose a weekday'}</Notice> : null}
+      {errors.weekday ? <Notice>Choose a weekday</Notice> : null}
       <ChoiceChips label="Wish for that weekday" choices={WISH_CHOICES} value={kind} onChange={setKind} testID="weekly-kind" />
-      {fieldError(errors, weekly.error, 'kind') ? <Notice>{fieldError(errors, weekly.error, 'kind')!}</Notice> : null}
-      <TextField label="Note (optional)" value={note} onChangeText={setNote} maxLength={500} error={fieldError(errors, weekly.error, 'note')} testID="weekly-note" />
-      {formError(weekly.error, ['kind', 'note', 'weekday']) ? <Notice>{formError(weekly.error, ['kind', 'note', 'weekday'])!}</Notice> : null}
+      {errors.kind ? <Notice>{errors.kind}</Notice> : null}
+      <TextField label="Note (optional)" value={note} onChangeText={setNote} maxLength={500} error={errors.note} testID="weekly-note" />
+      {weekly.error ? <Notice>{weekly.error.message}</Notice> : null}
       {weekly.isSuccess ? <Notice kind="info">{`Saved: ${WISH_WORDS[weekly.variables.kind as StaffWishKind].label.toLowerCase()} on ${weekly.data.wishes.length} day${weekly.data.wishes.length === 1 ? '' : 's'}.`}</Notice> : null}
       <View style={styles.row}>
         <Button label={long && kind ? `${WISH_WORDS[kind].label} all ${long}` : 'Apply to every week'} onPress={submit} busy={weekly.isPending} testID="weekly-apply" />
+        <Button kind="quiet" label="Close" onPress={() => setShown(false)} />
       </View>
     </Section>
   );

@@ -8,7 +8,8 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, type FieldErrors } from '@/components/auth/form-errors';
+import { ApiError } from '@/hooks/api/api-client';
 import { ChoiceChips } from './choice-chips';
 import { plainDay, plainLongDay } from './format';
 import { WISH_CHOICES, WISH_WORDS } from './wish-kinds';
@@ -113,9 +114,10 @@ function DayEditor({ rosterId, date, wish, shifts, shiftWishes, onToggle }: Para
       ) : null}
       <ChoiceChips label="Your wish" choices={WISH_CHOICES} value={kind} onChange={setKind} testID={`wish-kind-${date}`} />
       {kind ? <Body muted>{WISH_WORDS[kind].hint}</Body> : null}
-      {fieldError(errors, set.error, 'kind') ? <Notice>{fieldError(errors, set.error, 'kind')!}</Notice> : null}
-      <TextField label="Note for your coordinator (optional)" value={note} onChangeText={setNote} maxLength={500} error={fieldError(errors, set.error, 'note')} testID={`wish-note-${date}`} />
-      {formError(error, ['kind', 'note']) ? <Notice>{formError(error, ['kind', 'note'])!}</Notice> : null}
+      {errors.kind ? <Notice>{errors.kind}</Notice> : null}
+      <TextField label="Note for your coordinator (optional)" value={note} onChangeText={setNote} maxLength={500} error={errors.note ?? (set.error instanceof ApiError ? set.error.fieldMessage('note') : undefined)} testID={`wish-note-${date}`} />
+      {/* The server's own words (over the cannot limit, past the deadline…): nothing was saved. */}
+      {error ? <Notice>{error.message}</Notice> : null}
       <View style={styles.actions}>
         <Button label="Save" onPress={save} busy={set.isPending} disabled={!kind} testID={`wish-save-${date}`} />
         {current ? <Button kind="quiet" label="Clear" onPress={() => del.mutate({ rosterId, wishId: current.id }, { onSuccess: onToggle })} busy={del.isPending} /> : null}

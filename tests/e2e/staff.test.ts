@@ -6,6 +6,7 @@ import { readEnv } from '../../server/env';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels, Person, Workspace } from '../../server/db/models';
 import { Roster } from '../../server/rosters/models';
+import { PairingRequestRow } from '../../server/staff/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
 import { publishDirectly, seatsOf } from '../server/staff/publish-helper';
 import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
@@ -63,6 +64,8 @@ describe('staff on their phones', () => {
     expect(hattie.userId).not.toBeNull();
     // A roster of its own (not the demo's January one other browser tests publish), open for wishes.
     await Roster.destroy({ where: { workspaceId, name: ROSTER } });
+    // A run of this test stopped half-way may have left its request behind.
+    await PairingRequestRow.destroy({ where: { workspaceId, requestedByPersonId: hattie.id, status: 'requested' } });
     const roster = await createRoster(workspaceId, {
       name: ROSTER,
       periodStart: '2027-02-01',
@@ -121,6 +124,7 @@ describe('staff on their phones', () => {
     await page.getByTestId('wish-save-2027-02-05').click();
     await page.getByTestId('wish-editor-2027-02-05').waitFor({ state: 'detached' });
     // The weekly default: avoid every Sunday of the period.
+    await page.getByTestId('weekly-open').click();
     await page.getByTestId('weekly-weekday').getByRole('radio', { name: 'Sun' }).click();
     await page.getByTestId('weekly-kind').getByRole('radio', { name: 'Avoid' }).click();
     await page.getByTestId('weekly-apply').click();
