@@ -130,6 +130,26 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     expect(badBody.body.error.fields[0].path).toBe('body.timeLimitSeconds');
   });
 
+  it('says in words when honouring a concession is impossible', { timeout: 180_000 }, async () => {
+    // One person, two seats on one shift: one seat must stay open, so "every seat filled" cannot be made hard.
+    const solo = (await signedIn(app, await makeWorkspace('Solo Lodge'), 'coordinator')).agent;
+    const person = await solo.post('/api/people').send({ name: 'Solo Carer', contractedHours: 0, skillIds: [] });
+    expect(person.status).toBe(201);
+    const r = await solo.post('/api/rosters').send({ name: 'Short-handed', periodStart: '2027-07-12', periodEnd: '2027-07-12', timeZone: 'Europe/London' });
+    await solo.post(`/api/rosters/${r.body.id}/patterns`).send({ label: 'day', weekdays: ['mon'], startTime: '08:00', endTime: '16:00', seats: [{ skillId: null, count: 2 }] });
+    const start = await solo.post(`/api/rosters/${r.body.id}/runs`).send({ timeLimitSeconds: 1 });
+    expect(await worker.tick()).toBe(start.body.id);
+    const list = await solo.get(`/api/runs/${start.body.id}/concessions`);
+    const open = list.body.items.findIndex((c: { term: string }) => c.term === 'coverage');
+    expect(open).toBeGreaterThanOrEqual(0);
+    const priced = await solo.post(`/api/runs/${start.body.id}/concession-price`).send({ index: open, timeLimitSeconds: 1 });
+    expect(priced.status).toBe(200);
+    expect(priced.body.feasible).toBe(false);
+    expect(priced.body.price).toBeNull();
+    expect(priced.body.words).toMatch(/^Honouring this looks impossible/);
+    expect(priced.body.words).not.toMatch(/at \w+ \(|Error/); // words, not a stack trace
+  });
+
   it('gives seat alternatives with score changes from the rule weights (closed form) and labels the method', async () => {
     const run = (await coordinator.get(`/api/runs/${runId}`)).body;
     const shifts = (await coordinator.get(`/api/rosters/${rosterId}/shifts`)).body.items as Array<{ id: number; startsLocal: string; seats: Array<{ id: number }> }>;
