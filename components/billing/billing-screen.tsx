@@ -38,7 +38,7 @@ export function BillingScreen() {
   const { data: session } = useSession();
   const params = useLocalSearchParams<{ checkout?: string }>();
   const returned = params.checkout === 'done';
-  const billing = useBilling(returned);
+  const billing = useBilling(returned, session?.role === 'admin');
   if (session && session.role !== 'admin') return <Notice>Only admins of this workspace see its plan and billing.</Notice>;
   return (
     <View style={styles.page}>

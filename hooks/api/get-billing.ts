@@ -37,4 +37,5 @@ export const billingQueryOptions = (waitingForCheckout = false) =>
     refetchInterval: (query) => (waitingForCheckout && query.state.data?.plan.id !== 'team' ? 1000 : false),
   });
 
-export const useBilling = (waitingForCheckout = false) => useQuery(billingQueryOptions(waitingForCheckout));
+/** `enabled` false for anyone but admins: the API refuses them, and they never see billing. */
+export const useBilling = (waitingForCheckout = false, enabled = true) => useQuery({ ...billingQueryOptions(waitingForCheckout), enabled });

@@ -38,6 +38,12 @@ export async function up(q: QueryInterface): Promise<void> {
     ...timestamps,
   });
   await q.addIndex('billing_events', ['workspace_id', 'created_at']);
+  // Workspaces that existed before plans did keep working as they were: the team plan, with no
+  // subscription at the payment service (an admin can see this on Plan & billing).
+  await q.sequelize.query(
+    `INSERT INTO billing_accounts (workspace_id, status, quantity, cancel_at_period_end, created_at, updated_at)
+     SELECT w.id, 'active', (SELECT COUNT(*) FROM people p WHERE p.workspace_id = w.id), false, NOW(), NOW() FROM workspaces w`,
+  );
 }
 
 export async function down(q: QueryInterface): Promise<void> {

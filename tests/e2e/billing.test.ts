@@ -1,0 +1,117 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+
+const PASSWORD = 'a long enough test password';
+const headers = { 'x-rotaloom-csrf': '1' };
+// The payment service's published test card numbers, as the fake's checkout page takes them.
+const SUCCESS_CARD = '4242 4242 4242 4242';
+const DECLINED_CARD = '4000 0000 0000 0002';
+
+/** Fills the fake's checkout form (its own page, served by fakes/stripe) and submits it. */
+async function pay(page: Page, card: string) {
+  await page.getByLabel('Card number').fill(card);
+  await page.getByLabel('Expiry (MM/YY)').fill('12/34');
+  await page.getByLabel('CVC').fill('123');
+  await page.getByLabel('Name on card').fill('Marisol Quenby');
+  await page.getByRole('button', { name: 'Start free trial' }).click();
+}
+
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('admin upgrades a new workspace at %s size', (label, viewport) => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('hits the free limit, is declined with one card, upgrades with the other and sees the plan change', async () => {
+    // Expected refusals: the 13th person (402 plan_limit) and the declined card on the checkout page (402).
+    // (Chromium also logs each as "Failed to load resource … 402"; the URL-specific lines are what pin them down.)
+    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /^console: Failed to load resource: the server responded with a status of 402/]);
+    // A new workspace, signed up through the API as its admin (the browser context keeps the session cookie).
+    const email = `owner.${label}.${Date.now().toString(36)}@example.test`;
+    const signUp = await page.request.post('/api/auth/sign-up', { data: { displayName: 'Marisol Quenby', email, password: PASSWORD, workspaceName: `Hazelmere Clinic ${label}`, timeZone: 'Europe/London' }, headers });
+    expect(signUp.status()).toBe(201);
+    for (let i = 1; i <= 12; i++) {
+      const res = await page.request.post('/api/people', { data: { name: `Clinic Person ${i}`, contractedHours: 30, skillIds: [] }, headers });
+      expect(res.status()).toBe(201);
+    }
+
+    // The 13th person, through the form: the server refuses and the screen offers the upgrade.
+    await page.goto('/people/new');
+    await page.getByTestId('person-name').fill('Clinic Person 13');
+    await page.getByTestId('person-hours').fill('30');
+    await page.getByTestId('person-save').click();
+    const prompt = page.getByTestId('plan-limit-prompt');
+    await prompt.waitFor();
+    expect(await prompt.textContent()).toMatch(/allows 12 people, and this workspace has 12/);
+    await screenshot(page, `billing-1-limit-${label}`);
+    await page.getByTestId('plan-limit-upgrade').click();
+
+    // Plan & billing: the free plan, full.
+    await page.getByRole('heading', { name: 'Plan & billing' }).waitFor();
+    await page.getByTestId('plan-name').getByText('Starter').waitFor();
+    expect(await page.getByTestId('usage-people').getAttribute('aria-label')).toBe('People: 12 of 12');
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+    expect(overflow).toBeLessThanOrEqual(0);
+    await screenshot(page, `billing-2-free-${label}`);
+
+    // To the fake's checkout page; the declined card shows its message and nothing changes.
+    await page.getByTestId('start-checkout').click();
+    await page.waitForURL(/\/pay\/cs_test_/);
+    await page.getByText('12 seats × £4.00').waitFor();
+    await pay(page, DECLINED_CARD);
+    await page.getByRole('alert').getByText('Your card was declined').waitFor();
+    await screenshot(page, `billing-3-declined-${label}`);
+
+    // The test card that succeeds: back on Plan & billing, the plan changes once the signed event has arrived.
+    await pay(page, SUCCESS_CARD);
+    await page.waitForURL(/\/billing\?checkout=done/);
+    await page.getByTestId('plan-name').getByText('Team').waitFor({ timeout: 15_000 });
+    await page.getByText('Free trial', { exact: true }).waitFor();
+    await page.getByText(/£48\.00 a month for 12 seats once the free trial ends/).waitFor();
+    expect(await page.getByTestId('usage-people').getAttribute('aria-label')).toBe('People: 12 of no limit');
+    await page.getByTestId('invoices').getByText('Paid').first().waitFor();
+    await screenshot(page, `billing-4-team-${label}`);
+
+    // The limit is gone: the 13th person is added through the same form.
+    await page.goto('/people/new');
+    await page.getByTestId('person-name').fill('Clinic Person 13');
+    await page.getByTestId('person-hours').fill('30');
+    await page.getByTestId('person-save').click();
+    await page.waitForURL((url) => url.pathname === '/people');
+    await page.getByText('Clinic Person 13').first().waitFor();
+    const people = (await (await page.request.get('/api/people')).json()) as { total: number };
+    expect(people.total).toBe(13);
+
+    expect(problems).toEqual([]);
+    await close();
+    // Sign-up, twelve people, two trips to the payment page: longer than the default on a shared two-core machine.
+  }, 180_000);
+});
+
+describe('billing is for admins only', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('a coordinator has no Plan & billing in the navigation and the page says it is for admins', async () => {
+    const { page, problems, close } = await openPage(browser, PHONE);
+    const res = await page.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: 'willowmere-demo' }, headers });
+    expect(res.status()).toBe(200);
+    await page.goto('/billing');
+    await page.getByText('Only admins of this workspace see its plan and billing.').waitFor();
+    expect(await page.getByRole('link', { name: 'Plan & billing' }).count()).toBe(0);
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
