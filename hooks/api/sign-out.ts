@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { sessionQueryOptions } from './get-session';
+import { replaceSession } from './session-cache';
 
 export const signOut = () => apiFetch<void>('/auth/sign-out', { method: 'POST', body: {} });
 
@@ -8,9 +8,7 @@ export function useSignOut() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: signOut,
-    onSuccess: () => {
-      queryClient.setQueryData(sessionQueryOptions().queryKey, null);
-      void queryClient.invalidateQueries();
-    },
+    // Drop every cached answer rather than refetching it: signed out, each would only come back 401.
+    onSuccess: () => replaceSession(queryClient, null),
   });
 }
