@@ -130,6 +130,15 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     return false;
   };
   const finish = (method: string, stopReason: StopReason, optimal: boolean, beliefs: Float64Array[] | null = null): void => {
+    if (!optimal && (bestX === null || trueScore(bestX) === -Infinity)) {
+      // out of time while infeasible: the keyless start, unimproved, may still be feasible
+      const safe = safeStart(E);
+      if (exactScore(model, safe) > -Infinity) {
+        bestX = safe;
+        bestBig = engineScore(E, safe);
+        timeToBest = elapsed();
+      }
+    }
     const x = bestX ?? new Int32Array(E.n);
     const s = trueScore(x);
     let b = bound;
