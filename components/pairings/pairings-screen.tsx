@@ -138,7 +138,9 @@ function AddPairing() {
       ) : null}
       {formError(create.error, ['personAId', 'personBId', 'score']) ? <Notice>{formError(create.error, ['personAId', 'personBId', 'score'])!}</Notice> : null}
       {added ? <Notice kind="info">{added}</Notice> : null}
-      <Button label="Add pairing" onPress={submit} busy={create.isPending} testID="pairing-add" />
+      <View style={styles.start}>
+        <Button label="Add pairing" onPress={submit} busy={create.isPending} testID="pairing-add" />
+      </View>
     </Section>
   );
 }
@@ -230,6 +232,7 @@ const styles = StyleSheet.create({
   page: { gap: space.lg },
   head: { gap: space.xs, maxWidth: 820 },
   grow: { flex: 1, minWidth: 220, gap: 2 },
+  start: { alignItems: 'flex-start' },
   request: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'center', paddingVertical: space.md, borderTopWidth: 1, borderTopColor: colors.line },
   pair: { fontFamily: fonts.bodyBold, fontSize: 16, color: colors.ink },
   muted: { fontFamily: fonts.body, fontSize: 14, color: colors.inkSoft },

@@ -46,7 +46,7 @@ export function PersonPicker({ label, value, onChange, error, testID }: { label:
         ) : (
           <View role="list" aria-label={`Matches for ${label}`} style={styles.matches}>
             {matches.data.items.map((p) => (
-              <Pressable key={p.id} role="button" accessibilityLabel={`Choose ${p.name}`} onPress={() => onChange({ id: p.id, name: p.name })} style={({ hovered }: { pressed: boolean; hovered?: boolean }) => [styles.match, hovered && styles.matchHover]}>
+              <Pressable key={p.id} role="button" accessibilityLabel={`Choose ${p.name}`} onPress={() => { onChange({ id: p.id, name: p.name }); setText(''); setQ(''); }} style={({ hovered }: { pressed: boolean; hovered?: boolean }) => [styles.match, hovered && styles.matchHover]}>
                 <Text style={styles.matchName}>{p.name}</Text>
               </Pressable>
             ))}

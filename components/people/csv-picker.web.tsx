@@ -21,7 +21,8 @@ export function CsvPicker({ onPick, disabled, label = 'Choose a CSV file' }: { o
   );
 }
 
-const base = StyleSheet.flatten({ minHeight: 48, borderRadius: radius.md, paddingHorizontal: space.xl, backgroundColor: colors.thread, color: colors.white, fontFamily: fonts.bodyBold, fontSize: 16 });
+// CSS has no paddingHorizontal: these are DOM elements, not React Native views.
+const base = StyleSheet.flatten({ minHeight: 48, borderRadius: radius.md, paddingLeft: space.xl, paddingRight: space.xl, backgroundColor: colors.thread, color: colors.white, fontFamily: fonts.bodyBold, fontSize: 16 });
 const labelStyle = { ...base, display: 'inline-flex', alignItems: 'center', justifyContent: 'center', alignSelf: 'flex-start', boxSizing: 'border-box', position: 'relative' } as const;
 // Visually hidden but still focusable and announced (the usual "sr-only" pattern).
 const hidden = { position: 'absolute', width: 1, height: 1, padding: 0, margin: -1, overflow: 'hidden', clipPath: 'inset(50%)', whiteSpace: 'nowrap', border: 0 } as const;

@@ -10,5 +10,5 @@ export function ExportLink() {
   );
 }
 
-const s = StyleSheet.flatten({ minHeight: 44, borderRadius: radius.md, paddingHorizontal: space.lg, borderWidth: 1, borderColor: colors.line, color: colors.loom, fontFamily: fonts.bodyBold, fontSize: 15 });
+const s = StyleSheet.flatten({ minHeight: 44, borderRadius: radius.md, paddingLeft: space.lg, paddingRight: space.lg, borderWidth: 1, borderColor: colors.line, color: colors.loom, fontFamily: fonts.bodyBold, fontSize: 15 });
 const linkStyle = { ...s, display: 'inline-flex', alignItems: 'center', textDecoration: 'none', borderStyle: 'solid', boxSizing: 'border-box' } as const;

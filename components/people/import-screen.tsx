@@ -53,7 +53,7 @@ function ImportPeople() {
     <View style={styles.page}>
       <TextLink href="/people" label="← All people" />
       <Heading>Import people from CSV</Heading>
-      <FormatHelp />
+      {report ? null : <FormatHelp />}
 
       <View style={styles.row}>
         <CsvPicker onPick={pick} disabled={busy} label={file ? 'Choose another file' : 'Choose a CSV file'} />
@@ -77,6 +77,7 @@ function ImportPeople() {
       ) : null}
 
       {report && !preview.isPending && !preview.error ? <Preview report={report} committed={Boolean(commit.data)} onCommit={doCommit} committing={commit.isPending} /> : null}
+      {report ? <FormatHelp /> : null}
     </View>
   );
 }
@@ -117,7 +118,9 @@ function Preview({ report, committed, onCommit, committing }: { report: ImportRe
         </View>
       ) : null}
       {!committed && report.canCommit ? (
-        <Button label={`Import ${report.rows} ${report.rows === 1 ? 'row' : 'rows'}`} onPress={onCommit} busy={committing} testID="import-commit" />
+        <View style={styles.start}>
+          <Button label={`Import ${report.rows} ${report.rows === 1 ? 'row' : 'rows'}`} onPress={onCommit} busy={committing} testID="import-commit" />
+        </View>
       ) : null}
 
       <View role="table" aria-label="Rows in the file" style={styles.table}>
@@ -146,6 +149,7 @@ const styles = StyleSheet.create({
   page: { gap: space.lg, maxWidth: 960 },
   row: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },
   done: { gap: space.sm, alignItems: 'flex-start' },
+  start: { alignItems: 'flex-start' },
   example: { backgroundColor: colors.paper, borderRadius: radius.sm, padding: space.md, borderWidth: 1, borderColor: colors.line },
   mono: { fontFamily: 'monospace', fontSize: 13, color: colors.ink },
   summary: { fontFamily: fonts.bodyBold, fontSize: 16, color: colors.ink },

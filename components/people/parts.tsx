@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, Text, View } from 'react-native';
-import { Link, type Href } from 'expo-router';
+import { router, type Href } from 'expo-router';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { useSession } from '@/hooks/api/get-session';
 import { Notice } from '@/components/ui/notice';
@@ -29,14 +29,16 @@ export function Chip({ label, selected, onPress, testID, accessibilityLabel }: {
   );
 }
 
-/** A link that looks like a quiet button (navigation, not an action). */
+/**
+ * A link that looks like a quiet button (navigation, not an action). It navigates itself rather
+ * than through <Link asChild>: on the web that Slot spread an array style into an object with
+ * key "0", which the browser refuses.
+ */
 export function LinkButton({ href, label, testID, primary }: { href: Href; label: string; testID?: string; primary?: boolean }) {
   return (
-    <Link href={href} asChild>
-      <Pressable role="link" testID={testID} accessibilityLabel={label} style={[styles.linkButton, primary && styles.linkButtonPrimary]}>
-        <Text style={[styles.linkButtonLabel, primary && styles.linkButtonLabelPrimary]}>{label}</Text>
-      </Pressable>
-    </Link>
+    <Pressable role="link" testID={testID} accessibilityLabel={label} onPress={() => router.push(href)} style={primary ? styles.linkButtonPrimaryAll : styles.linkButton}>
+      <Text style={primary ? styles.linkButtonLabelPrimaryAll : styles.linkButtonLabel}>{label}</Text>
+    </Pressable>
   );
 }
 
@@ -57,9 +59,9 @@ const styles = StyleSheet.create({
   chipLabel: { fontFamily: fonts.body, fontSize: 14, color: colors.ink },
   chipLabelOn: { color: colors.white, fontFamily: fonts.bodyBold },
   linkButton: { minHeight: 44, borderRadius: radius.md, paddingHorizontal: space.lg, borderWidth: 1, borderColor: colors.line, alignItems: 'center', justifyContent: 'center' },
-  linkButtonPrimary: { backgroundColor: colors.thread, borderColor: colors.thread },
+  linkButtonPrimaryAll: { minHeight: 44, borderRadius: radius.md, paddingHorizontal: space.lg, borderWidth: 1, alignItems: 'center', justifyContent: 'center', backgroundColor: colors.thread, borderColor: colors.thread },
   linkButtonLabel: { fontFamily: fonts.bodyBold, fontSize: 15, color: colors.loom },
-  linkButtonLabelPrimary: { color: colors.white },
+  linkButtonLabelPrimaryAll: { fontFamily: fonts.bodyBold, fontSize: 15, color: colors.white },
   tag: { borderRadius: radius.sm, paddingHorizontal: space.sm, paddingVertical: 2, alignSelf: 'flex-start' },
   tag_plain: { backgroundColor: colors.loomSoft },
   tag_good: { backgroundColor: '#DCEBDD' },

@@ -1,6 +1,6 @@
 import { useEffect, useState } from 'react';
 import { ActivityIndicator, Pressable, StyleSheet, Text, View } from 'react-native';
-import { Link } from 'expo-router';
+import { router } from 'expo-router';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { useIsWide } from '@/hooks/use-is-wide';
 import { usePeople, type PersonDto } from '@/hooks/api/get-people';
@@ -163,8 +163,7 @@ function PeopleTable({ people, skillNames, sort, order, onSort }: { people: Pers
         {header(null, '', styles.colEdit)}
       </View>
       {people.map((p) => (
-        <Link key={p.id} href={`/people/${p.id}`} asChild>
-          <Pressable role="row" accessibilityLabel={`${p.name}, edit`} style={({ hovered }: { pressed: boolean; hovered?: boolean }) => [styles.tr, hovered && styles.trHover]} testID={`person-row-${p.name}`}>
+        <Pressable key={p.id} role="row" accessibilityLabel={`${p.name}, edit`} onPress={() => router.push(`/people/${p.id}`)} style={({ hovered }: { pressed: boolean; hovered?: boolean }) => [styles.tr, hovered && styles.trHover]} testID={`person-row-${p.name}`}>
             <View role="cell" style={[styles.cell, styles.colName]}>
               <Text style={styles.name}>{p.name}</Text>
             </View>
@@ -183,8 +182,7 @@ function PeopleTable({ people, skillNames, sort, order, onSort }: { people: Pers
             <View role="cell" style={[styles.cell, styles.colEdit]}>
               <Text style={styles.edit}>Edit</Text>
             </View>
-          </Pressable>
-        </Link>
+        </Pressable>
       ))}
     </View>
   );
@@ -194,16 +192,14 @@ function PeopleCards({ people, skillNames }: { people: PersonDto[]; skillNames: 
   return (
     <View role="list" aria-label="People" style={styles.cards} testID="people-cards">
       {people.map((p) => (
-        <Link key={p.id} href={`/people/${p.id}`} asChild>
-          <Pressable role="listitem" accessibilityLabel={`${p.name}, ${formatHours(p.contractedHours)} a week, edit`} style={styles.card} testID={`person-card-${p.name}`}>
+        <Pressable key={p.id} role="listitem" accessibilityLabel={`${p.name}, ${formatHours(p.contractedHours)} a week, edit`} onPress={() => router.push(`/people/${p.id}`)} style={styles.card} testID={`person-card-${p.name}`}>
             <View style={styles.cardTop}>
               <Text style={styles.name}>{p.name}</Text>
               <Text style={styles.hours}>{`${formatHours(p.contractedHours)} / week`}</Text>
             </View>
             {p.email ? <Text style={styles.td}>{p.email}</Text> : null}
             <Text style={styles.muted}>{skillList(p, skillNames) || 'No skills recorded'}</Text>
-          </Pressable>
-        </Link>
+        </Pressable>
       ))}
     </View>
   );

@@ -65,8 +65,10 @@ describe.each([
     await page.getByTestId('csv-file-input').setInputFiles(
       csv(['name,email,contracted_hours,skills', `${first},${first.split(' ')[0].toLowerCase()}@willowmere.example,30,First aid`, `${second},,24,fist aid`, `"${third}",,16,Medication round;Night lead`]),
     );
-    await page.getByText("row 3: unknown skill 'fist aid' (did you mean 'First aid'?)").waitFor();
-    await page.getByTestId('import-summary').getByText('3 rows: 2 new, 0 to update, 0 unchanged, 1 with errors').waitFor();
+    const rowError = page.getByText("row 3: unknown skill 'fist aid' (did you mean 'First aid'?)");
+    await rowError.waitFor();
+    await rowError.scrollIntoViewIfNeeded();
+    await page.getByText('3 rows: 2 new, 0 to update, 0 unchanged, 1 with errors', { exact: true }).waitFor();
     expect(await page.getByTestId('import-commit').count()).toBe(0);
     await screenshot(page, `people-2-import-row-error-${label}`);
 
@@ -74,8 +76,10 @@ describe.each([
     await page.getByTestId('csv-file-input').setInputFiles(
       csv(['name,email,contracted_hours,skills', `${first},${first.split(' ')[0].toLowerCase()}@willowmere.example,30,First aid`, `${second},,24,First aid`, `"${third}",,16,Medication round;Night lead`]),
     );
-    await page.getByTestId('import-summary').getByText('3 rows: 3 new, 0 to update, 0 unchanged, 0 with errors').waitFor();
+    await page.getByText('3 rows: 3 new, 0 to update, 0 unchanged, 0 with errors', { exact: true }).waitFor();
     await screenshot(page, `people-3-import-preview-${label}`);
+    await page.getByTestId('import-commit').scrollIntoViewIfNeeded();
+    await screenshot(page, `people-3b-import-ready-${label}`);
     await page.getByTestId('import-commit').click();
     await page.getByText('Imported from new-staff.csv: 3 added, 0 updated, 0 unchanged.').waitFor();
     await screenshot(page, `people-4-imported-${label}`);
@@ -88,7 +92,7 @@ describe.each([
     await card.waitFor();
     expect(await card.innerText()).toMatch(/16 h/);
     expect(await card.innerText()).toMatch(/Medication round, Night lead|Night lead, Medication round/);
-    await page.getByTestId('people-count').getByText(/^1 person match/).waitFor();
+    await page.getByText(/^1 person match/).waitFor();
     await screenshot(page, `people-5-found-${label}`);
 
     // Pairings: two of the new people should share shifts.
@@ -114,7 +118,9 @@ describe.each([
     await row.getByRole('button', { name: 'Approve' }).click();
     await row.waitFor({ state: 'detached' });
     await page.getByTestId('pairing-search').fill(third.split(' ')[0]);
-    const approved = page.getByTestId('pairing-table').getByText('Reason given: “We keep arguing at handover”');
+    // The search is debounced; wait until the table shows only pairings with that name.
+    await expect.poll(async () => page.getByTestId('pairing-table').locator('[role="row"]').count(), { timeout: 10_000 }).toBe(1);
+    const approved = page.getByTestId('pairing-table').locator('[role="row"]').filter({ hasText: third }).getByText('Reason given: “We keep arguing at handover”');
     await approved.waitFor();
     await approved.scrollIntoViewIfNeeded();
     await screenshot(page, `people-8-request-approved-${label}`);
