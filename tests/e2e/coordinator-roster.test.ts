@@ -21,7 +21,7 @@ async function solve(page: Page, shot: string) {
   await page.getByTestId('solve-start').click();
   await page.getByTestId('run-progress').waitFor();
   await screenshot(page, `${shot}-progress`);
-  await page.getByTestId('run-show-result').waitFor({ timeout: 45_000 });
+  await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
   // The score and the gap are stated in words once the run is done.
   expect(await page.getByTestId('run-gap-words').textContent()).toMatch(/best possible roster/);
   await screenshot(page, `${shot}-done`);
@@ -48,7 +48,7 @@ describe.each([
     await browser.close();
   });
 
-  it('solves, reads a concession and its price, pins a seat, re-solves keeping the pin, publishes, mails and downloads a valid .ics', { timeout: 240_000 }, async () => {
+  it('solves, reads a concession and its price, pins a seat, re-solves keeping the pin, publishes, mails and downloads a valid .ics', { timeout: 480_000 }, async () => {
     const { page, problems, close } = await openPage(browser, viewport);
     const shot = (name: string) => screenshot(page, `coordinator-roster-${label}-${name}`);
     await signIn(page);
@@ -85,7 +85,7 @@ describe.each([
     const concessionText = await first.textContent();
     expect(concessionText).toMatch(/points/);
     await page.getByTestId('concession-price-0').click();
-    await first.getByText(/Honouring this/).waitFor({ timeout: 45_000 });
+    await first.getByText(/Honouring this/).waitFor({ timeout: 120_000 });
     await first.scrollIntoViewIfNeeded();
     await shot('06-concession-price');
 
@@ -108,7 +108,7 @@ describe.each([
       await chip.scrollIntoViewIfNeeded();
       await chip.click();
       const panel = page.getByTestId('seat-panel');
-      await panel.getByText('Alternatives').waitFor();
+      await panel.getByText('Alternatives', { exact: true }).waitFor();
       if ((await chip.textContent())!.startsWith(HATTIE)) {
         await page.getByTestId('seat-pin').click();
       } else {
