@@ -42,7 +42,7 @@ const LIMIT_WORDS: Record<LimitName, { noun: (n: number) => string; what: string
  * naming the limit, its size and the current count, and the hint where to upgrade. Used by the
  * people and roster create routes, so the limit holds whatever client calls the API.
  */
-export function enforcePlanLimit(limit: LimitName): RequestHandler {
+export function enforcePlanLimit(limit: LimitName, adding: (req: Parameters<RequestHandler>[0]) => Promise<number> = async () => 1): RequestHandler {
   return async (req, res, next) => {
     const workspaceId = req.auth?.workspaceId;
     if (!workspaceId) return next();
@@ -50,15 +50,17 @@ export function enforcePlanLimit(limit: LimitName): RequestHandler {
     const max = PLANS[plan].limits[limit];
     if (max === null) return next();
     const current = (await usageOf(workspaceId))[limit];
-    if (current < max) return next();
+    // Bulk creates (a CSV import) say how many they would add; a plain create adds one.
+    const more = await adding(req);
+    if (more === 0 || current + more <= max) return next();
     const words = LIMIT_WORDS[limit];
     const hint = req.auth?.role === 'admin' ? `Move to the ${PLANS.team.name} plan under Plan & billing to ${words.what}.` : `An admin of this workspace can move it to the ${PLANS.team.name} plan to ${words.what}.`;
     res.status(402).json({
       error: {
         code: PLAN_LIMIT_CODE,
-        message: `The ${PLANS[plan].name} plan allows ${words.noun(max)}, and this workspace has ${current}. ${hint}`,
+        message: `The ${PLANS[plan].name} plan allows ${words.noun(max)}, and this workspace has ${current}${more > 1 ? `; this would add ${more}` : ''}. ${hint}`,
         fields: [{ path: `plan.${limit}`, message: `limit of ${max} reached` }],
-        limit: { name: limit, max, current, plan },
+        limit: { name: limit, max, current, adding: more, plan },
         upgrade: { plan: 'team', path: '/billing' },
       },
     });

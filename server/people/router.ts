@@ -47,8 +47,9 @@ export function peopleRouter() {
   routes.post('/import/preview', COORDINATOR_UP, csvUpload(), async (req, res) => {
     res.json(await previewImport(ws(req), req.file));
   });
-  routes.post('/import/commit', COORDINATOR_UP, csvUpload(), async (req, res) => {
+  routes.post('/import/commit', COORDINATOR_UP, csvUpload(), enforcePlanLimit('people', async (req) => (await previewImport(ws(req), req.file)).counts.create), async (req, res) => {
     res.status(201).json(await commitImport(ws(req), req.file));
+    peopleChanged(ws(req));
   });
   routes.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     res.json(await repo.getPerson(ws(req), Number(req.params.id)));

@@ -44,6 +44,20 @@ describe('plan limits, enforced by the API', () => {
     expect((await coordinator.post('/api/people').send(person(14))).status).toBe(201);
   });
 
+  it('a CSV import cannot carry a free workspace past 12 people either', async () => {
+    const ws = await makeWorkspace('Import Hall', { plan: 'free' });
+    const { agent: coordinator } = await signedIn(app, ws, 'coordinator');
+    for (let i = 1; i <= 10; i++) expect((await coordinator.post('/api/people').send(person(i))).status).toBe(201);
+    const csv = (names: string[]) => Buffer.from(`name,email,contracted_hours,skills\n${names.map((n) => `${n},,30,`).join('\n')}\n`, 'utf8');
+    const tooMany = await coordinator.post('/api/people/import/commit').attach('file', csv(['Ada Quill', 'Bram Fell', 'Cora Vane']), { filename: 'people.csv', contentType: 'text/csv' });
+    expect(tooMany.status).toBe(402);
+    expect(tooMany.body.error.limit).toMatchObject({ name: 'people', max: 12, current: 10, adding: 3 });
+    expect((await coordinator.get('/api/people')).body.total).toBe(10);
+    const fits = await coordinator.post('/api/people/import/commit').attach('file', csv(['Ada Quill', 'Bram Fell']), { filename: 'people.csv', contentType: 'text/csv' });
+    expect(fits.status).toBe(201);
+    expect((await coordinator.get('/api/people')).body.total).toBe(12);
+  });
+
   it('the free plan has one roster in progress; a second is refused until the first is published', async () => {
     const ws = await makeWorkspace('One Roster Kitchen', { plan: 'free' });
     const { agent: coordinator } = await signedIn(app, ws, 'coordinator');
