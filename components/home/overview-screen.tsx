@@ -4,6 +4,7 @@ import { useSession } from '@/hooks/api/get-session';
 import { Body, Heading } from '@/components/ui/typography';
 import { Notice } from '@/components/ui/notice';
 import { WORKING_TIME_CAUTION } from '@/shared/caution';
+import { NoWorkspace } from '@/components/auth/no-workspace';
 
 /** The first page after sign-in: where you are, as whom, and the caution every roster carries. */
 export function OverviewScreen() {
@@ -16,6 +17,7 @@ export function OverviewScreen() {
       <Body muted>
         {session.workspace ? `You are signed in to ${session.workspace.name} as ${session.role}.` : 'You are not a member of a workspace yet.'}
       </Body>
+      {session.workspace ? null : <NoWorkspace />}
       <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>
     </View>
   );

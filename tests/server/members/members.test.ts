@@ -118,6 +118,12 @@ describe('members, roles, invitations and workspaces', () => {
     const badRole = await admin.post('/api/invitations').send({ email: 'x@example.test', role: 'owner' });
     expect(badRole.status).toBe(400);
     expect(badRole.body.error.fields[0].path).toBe('body.role');
+    const long = await admin.post('/api/invitations').send({ email: `${'a'.repeat(250)}@example.test`, role: 'staff' });
+    expect(long.status).toBe(400);
+    expect(long.body.error.fields[0]).toEqual({ path: 'body.email', message: 'At most 254 characters' });
+    const notJson = await admin.post('/api/invitations').set('content-type', 'application/json').send('{"email":');
+    expect(notJson.status).toBe(400);
+    expect(notJson.body.error.fields[0].path).toBe('body');
   });
 
   it('admins change roles and remove members, but never the last admin', async () => {
