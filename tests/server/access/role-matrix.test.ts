@@ -41,6 +41,25 @@ describe('role-by-route matrix', () => {
     for (const p of ['get /api/auth/session', 'post /api/auth/sign-in', 'get /api/members', 'post /api/invitations']) expect(paths).toContain(p);
   });
 
+  it('has no /api route that bypassed ApiRoutes (and so its guard and the matrix)', () => {
+    // Walk Express's own route layers under the router mounted at /api.
+    type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; match(path: string): boolean };
+    const top = (app as unknown as { router: { stack: Layer[] } }).router.stack;
+    const apiRouters = top.filter((l) => l.handle?.stack && l.match('/api/zz-probe') && !l.match('/zz-probe'));
+    expect(apiRouters.length).toBe(1);
+    const registered: Array<{ method: string; path: string }> = [];
+    const walk = (stack: Layer[]) => {
+      for (const layer of stack) {
+        if (layer.route) for (const method of Object.keys(layer.route.methods)) registered.push({ method, path: layer.route.path });
+        else if (layer.handle?.stack) walk(layer.handle.stack);
+      }
+    };
+    walk(apiRouters[0].handle!.stack!);
+    const declared = (r: { method: string; path: string }) => routes.some((t) => t.method === r.method && (r.path === '/' ? true : t.path.endsWith(r.path)));
+    expect(registered.filter((r) => !declared(r)).map((r) => `${r.method} ${r.path}`)).toEqual([]);
+    expect(registered.length).toBe(routes.length);
+  });
+
   it('answers 401 / 403 / through for every route and role', async () => {
     const workspace = await makeWorkspace('Matrix House');
     const users = new Map<Role, Awaited<ReturnType<typeof makeUser>>>();
