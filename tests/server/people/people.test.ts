@@ -63,4 +63,14 @@ describe('people and skills API: filters, skill counts, deleting a skill, stale 
     expect(stale.body.error.message).toMatch(/Someone else changed this person/);
     expect((await coordinator.get(`/api/people/${brin.id}`)).body.name).toBe('Brin Tallow');
   });
+
+  it("answers 404 to another workspace's coordinator for a person, with a valid body, and changes nothing", async () => {
+    const brin = (await coordinator.get('/api/people?q=brin')).body.items[0];
+    const stranger = (await signedIn(app, await makeWorkspace('Elsewhere'), 'coordinator')).agent;
+    const res = await stranger.patch(`/api/people/${brin.id}`).send({ name: 'Taken over', version: brin.version });
+    expect(res.status).toBe(404);
+    expect((await stranger.get(`/api/people/${brin.id}`)).status).toBe(404);
+    expect((await stranger.delete(`/api/people/${brin.id}`)).status).toBe(404);
+    expect((await coordinator.get(`/api/people/${brin.id}`)).body).toMatchObject({ name: 'Brin Tallow', version: brin.version });
+  });
 });
