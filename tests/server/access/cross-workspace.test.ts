@@ -12,6 +12,14 @@ import { RowMaker, tableFor } from './route-fixtures';
 const bodies: Record<string, unknown> = {
   'patch /api/members/:id': { role: 'staff' },
   'put /api/members/:id/person': { personId: null },
+  // Bodies from the shared schemas of the other resources (shared/api/*.ts).
+  'patch /api/skills/:id': { name: 'Renamed skill' },
+  'patch /api/people/:id': { name: 'Renamed person', version: 1 },
+  'patch /api/rosters/:rosterId': { name: 'Renamed roster', version: 1 },
+  'patch /api/rosters/:rosterId/shifts/:id': { label: 'Renamed shift', version: 1 },
+  'patch /api/pairings/:id': { score: 5, version: 1 },
+  'post /api/rosters/:rosterId/publish': { runId: 1, version: 1 },
+  'post /api/rosters/:rosterId/reopen': { version: 1 },
 };
 
 /**
