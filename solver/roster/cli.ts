@@ -10,12 +10,11 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { parseRoster, type Roster } from '../../shared/roster/schema';
 import { formatDay, formatHours } from '../../shared/roster/derive';
-import { solveMap, type MapResult } from '../inference';
+import type { MapResult } from '../inference';
 import { compileRoster, type CompiledRoster } from './compile';
-import { decodeAssignment, type DecodedRoster } from './decode';
-import { scoreRoster, TERM_NAMES, type RosterScore } from './score-roster';
-import { explainInfeasible } from './explain-infeasible';
-import { greedyAssignment } from './greedy';
+import type { DecodedRoster } from './decode';
+import { TERM_NAMES, type RosterScore } from './score-roster';
+import { solveRoster } from './solve-roster';
 import { expandCountingForUai } from './uai-expand';
 import { writeUaiWithOffset } from '../io/uai';
 
@@ -161,26 +160,23 @@ export async function main(argv: string[]): Promise<number> {
     }
     throw e;
   }
-  const reasons = explainInfeasible(roster);
-  if (reasons.length) {
-    if (args.json) process.stdout.write(JSON.stringify({ feasible: false, reasons }, null, 2) + '\n');
-    else process.stdout.write(`no roster can keep every hard rule:\n${reasons.map((r) => `  - ${r}`).join('\n')}\n`);
-    return 1;
-  }
-  const compiled = compileRoster(roster);
   if (args.exportUai) {
     try {
       // a note on stderr keeps --json output on stdout clean
-      process.stderr.write(`solve: ${await exportUai(compiled, args.exportUai)}\n`);
+      process.stderr.write(`solve: ${await exportUai(compileRoster(roster), args.exportUai)}\n`);
     } catch (e) {
       process.stderr.write(`solve: ${(e as Error).message}\n`);
       return 2;
     }
   }
-  // a greedy first roster gives local search covered seats to improve on from the start
-  const result = await solveMap(compiled.model, { timeLimitMs: args.timeLimitS * 1000, seed: args.seed, initial: greedyAssignment(compiled) });
-  const decoded = decodeAssignment(compiled, result.assignment);
-  const scored = scoreRoster(roster, decoded.assignment);
+  const solved = await solveRoster(roster, { timeLimitMs: args.timeLimitS * 1000, seed: args.seed });
+  if (solved.status === 'infeasible') {
+    const { reasons } = solved;
+    if (args.json) process.stdout.write(JSON.stringify({ feasible: false, reasons }, null, 2) + '\n');
+    else process.stdout.write(`no roster can keep every hard rule:\n${reasons.map((r) => `  - ${r}`).join('\n')}\n`);
+    return 1;
+  }
+  const { result, decoded, score: scored } = solved;
   if (args.json) {
     process.stdout.write(
       JSON.stringify(

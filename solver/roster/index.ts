@@ -7,3 +7,6 @@ export { scoreRoster, makeRosterScorer, TERM_NAMES } from './score-roster';
 export type { RosterScore, RosterViolation, TermName } from './score-roster';
 export { explainInfeasible } from './explain-infeasible';
 export { greedyAssignment } from './greedy';
+export { solveRoster } from './solve-roster';
+export type { SolveRosterResult } from './solve-roster';
+export { expandCountingForUai } from './uai-expand';
