@@ -95,6 +95,97 @@ describe.each([
   }, 180_000);
 });
 
+/** The fake's test controls (never part of the real service): move a subscription into its next period. */
+async function renew(workspaceId: number, outcome: 'paid' | 'failed') {
+  const fakeUrl = process.env.ROTALOOM_STRIPE_FAKE_URL;
+  if (!fakeUrl) throw new Error('ROTALOOM_STRIPE_FAKE_URL is not set (npm test sets it)');
+  const state = (await (await fetch(`${fakeUrl}/_fake/state`)).json()) as { subscriptions: Array<{ id: string; metadata: Record<string, string> }> };
+  const sub = state.subscriptions.find((s) => s.metadata.workspace_id === String(workspaceId));
+  if (!sub) throw new Error(`no subscription for workspace ${workspaceId} at the fake`);
+  const res = await fetch(`${fakeUrl}/_fake/subscriptions/${sub.id}/renew`, { method: 'POST', body: new URLSearchParams({ outcome }) });
+  expect(res.status).toBe(200);
+}
+
+describe('a paying workspace at phone size', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('previews and confirms a seat change, shows the overdue banner, pays in the portal, and can stop at the period end', async () => {
+    const { page, problems, close } = await openPage(browser, PHONE);
+    const email = `payer.${Date.now().toString(36)}@example.test`;
+    const signUp = await page.request.post('/api/auth/sign-up', { data: { displayName: 'Oriel Fenwick', email, password: PASSWORD, workspaceName: 'Brackenfold Lab', timeZone: 'Europe/London' }, headers });
+    expect(signUp.status()).toBe(201);
+    const workspaceId = ((await signUp.json()) as { workspace: { id: number } }).workspace.id;
+    for (let i = 1; i <= 3; i++) expect((await page.request.post('/api/people', { data: { name: `Lab Person ${i}`, contractedHours: 30, skillIds: [] }, headers })).status()).toBe(201);
+
+    await page.goto('/billing');
+    await page.getByTestId('start-checkout').click();
+    await page.waitForURL(/\/pay\/cs_test_/);
+    await pay(page, SUCCESS_CARD);
+    await page.getByText('Free trial', { exact: true }).waitFor({ timeout: 15_000 });
+    // The trial ends and the first month is paid.
+    await renew(workspaceId, 'paid');
+    await page.reload();
+    await page.getByText('Paid and current').waitFor();
+    await page.getByText(/£12\.00 a month for 3 seats, renewing on/).waitFor();
+
+    // One more person: the seat change waits for the admin, with the new monthly price shown first.
+    expect((await page.request.post('/api/people', { data: { name: 'Lab Person 4', contractedHours: 30, skillIds: [] }, headers })).status()).toBe(201);
+    await page.reload();
+    const change = page.getByTestId('seat-change');
+    await change.getByText('You have 4 people and pay for 3 seats.').waitFor();
+    await change.getByText('£16.00', { exact: true }).waitFor();
+    await change.getByText('Monthly price now').waitFor();
+    await change.scrollIntoViewIfNeeded();
+    await screenshot(page, 'billing-5-seat-preview-phone');
+    await page.getByTestId('confirm-seats').click();
+    await page.getByText(/£16\.00 a month for 4 seats/).waitFor();
+    expect(await page.getByTestId('seat-change').count()).toBe(0);
+
+    // The next renewal fails: the admin sees the banner on every page; data stays readable.
+    await renew(workspaceId, 'failed');
+    await page.goto('/home');
+    const banner = page.getByTestId('past-due-banner');
+    await banner.waitFor();
+    // 4 seats × £4.00, plus the 4th seat for the period in which it was added (just begun, so ≈ £4.00).
+    expect(await banner.textContent()).toMatch(/The payment of £(19\.9\d|20\.00) for invoice RTL-\d+ failed.*new runs are paused/);
+    await screenshot(page, 'billing-6-past-due-phone');
+    await banner.getByRole('button', { name: 'Go to Plan & billing' }).click();
+    await page.getByText('Payment overdue', { exact: true }).first().waitFor();
+
+    // Paying in the payment service's portal brings the plan back.
+    await page.getByTestId('open-portal').click();
+    await page.waitForURL(/\/portal\/bps_/);
+    await page.getByLabel('New card number').fill(SUCCESS_CARD);
+    await page.getByLabel('Expiry (MM/YY)').fill('12/34');
+    await page.getByLabel('CVC').fill('123');
+    await page.getByRole('button', { name: 'Save card and pay what is due' }).click();
+    await page.getByText('active', { exact: true }).waitFor();
+    await page.getByRole('link', { name: 'Back to Rotaloom' }).click();
+    await page.getByText('Paid and current').waitFor({ timeout: 15_000 });
+    expect(await page.getByTestId('past-due-banner').count()).toBe(0);
+    const invoices = page.getByTestId('invoices');
+    await invoices.getByText(/£(19\.9\d|20\.00)/).first().waitFor();
+    expect(await invoices.getByText('Due', { exact: true }).count()).toBe(0);
+
+    // Downgrade: stop at the end of the period, then change one's mind.
+    await page.getByTestId('cancel-plan').click();
+    await page.getByText(/The plan ends on .*; after that the Starter limits apply/).waitFor();
+    await invoices.scrollIntoViewIfNeeded();
+    await screenshot(page, 'billing-7-invoices-phone');
+    await page.getByTestId('resume-plan').click();
+    await page.getByText(/£16\.00 a month for 4 seats, renewing on/).waitFor();
+
+    expect(problems).toEqual([]);
+    await close();
+  }, 180_000);
+});
+
 describe('billing is for admins only', () => {
   let browser: Browser;
   beforeAll(async () => {
