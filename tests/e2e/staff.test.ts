@@ -97,6 +97,8 @@ describe('staff on their phones', () => {
     // ---- wishes for the week of 1 February ----
     await nav.getByRole('link', { name: 'Wishes' }).click();
     await page.getByRole('heading', { name: 'Wishes', exact: true }).waitFor();
+    // Once a roster's wishes show, the list of rosters has loaded (and the picker, if there are several).
+    await page.getByTestId('roster-wishes').waitFor();
     const chip = page.getByRole('radio', { name: ROSTER });
     if (await chip.count()) await chip.click();
     await page.getByRole('heading', { name: ROSTER }).waitFor();
