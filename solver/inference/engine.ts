@@ -155,35 +155,41 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
   const theta = model.variables.map((v) => new Float64Array(v.cardinality));
   const ops: Op[] = [];
   const countingOp = (fi: number, vars: number[], weights: Array<Array<[number, number]>>, table: number[]): CountingOp | null => {
-    const vs: number[] = [], off: number[] = [0], sup: number[] = [], wts: number[] = [];
-    weights.forEach((ws, j) => {
+    // typed arrays filled in one pass: these factors can span thousands of seats
+    const n = weights.length;
+    let total = 0;
+    for (let j = 0; j < n; j++) total += weights[j]!.length;
+    const vsA = new Int32Array(n), offA = new Int32Array(n + 1), supA = new Int32Array(total), wtsA = new Int32Array(total);
+    let nv = 0, ne = 0;
+    for (let j = 0; j < n; j++) {
+      const ws = weights[j]!;
       if (ws.length === 1) {
         // common case: one weighted value (e.g. this seat taken by the factor's person)
-        const [x, w] = ws[0]!;
-        if (w > 0) {
-          vs.push(vars[j]!);
-          sup.push(x);
-          wts.push(w);
-          off.push(sup.length);
+        const p = ws[0]!;
+        if (p[1] > 0) {
+          vsA[nv++] = vars[j]!;
+          supA[ne] = p[0];
+          wtsA[ne++] = p[1];
+          offA[nv] = ne;
         }
-        return;
+        continue;
       }
       const m = new Map<number, number>();
       for (const [x, w] of ws) if (w > 0) m.set(x, (m.get(x) ?? 0) + w);
-      if (m.size === 0) return; // weighs 0 whatever its value: not part of the sum
-      const xs = [...m.keys()].sort((a, b) => a - b);
-      vs.push(vars[j]!);
-      for (const x of xs) {
-        sup.push(x);
-        wts.push(m.get(x)!);
+      if (m.size === 0) continue; // weighs 0 whatever its value: not part of the sum
+      vsA[nv++] = vars[j]!;
+      for (const x of [...m.keys()].sort((p, q) => p - q)) {
+        supA[ne] = x;
+        wtsA[ne++] = m.get(x)!;
       }
-      off.push(sup.length);
-    });
+      offA[nv] = ne;
+    }
+    const vs = vsA.subarray(0, nv), off = offA.subarray(0, nv + 1), sup = supA.subarray(0, ne), wts = wtsA.subarray(0, ne);
     // clamp sums where the score stays constant from there on
     let S = table.length - 1;
     while (S > 0 && table[S - 1] === table[S]) S--;
     const g = bmt(table.slice(0, S + 1));
-    if (vs.length === 0) {
+    if (nv === 0) {
       constant += g[0]!;
       return null;
     }
@@ -253,34 +259,55 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
         if (p === NEG) hasHard = true;
         if (f.vars.length === 2) ops.push(new PottsOp(fi, f.vars[0]!, f.vars[1]!, bm(p), keys, scratch));
         else if (f.vars.length > 2) {
-          // one counting constraint per key: "at most one holder" (or penalty per colliding pair)
-          const holders = new Map<number, { vars: number[]; off: number[]; sup: number[] }>();
+          // one counting constraint per key: "at most one holder" (or penalty per colliding pair);
+          // counting sort over key groups into typed arrays
+          const G = numGroups;
+          const nSup = new Int32Array(G), nVar = new Int32Array(G), last = new Int32Array(G).fill(-1);
           for (const v of f.vars) {
             const g = group[v]!;
             for (let x = 0; x < g.length; x++) {
               const gi = g[x]!;
               if (gi === 0) continue;
-              let h = holders.get(gi);
-              if (!h) holders.set(gi, (h = { vars: [], off: [0], sup: [] }));
-              if (h.vars[h.vars.length - 1] !== v) {
-                h.vars.push(v);
-                h.off.push(h.sup.length);
+              nSup[gi]!++;
+              if (last[gi] !== v) {
+                last[gi] = v;
+                nVar[gi]!++;
               }
-              h.sup.push(x);
-              h.off[h.off.length - 1] = h.sup.length;
             }
           }
-          for (const [, h] of holders) {
-            if (h.vars.length < 2) continue;
+          const hv: (Int32Array | null)[] = new Array(G).fill(null), ho: (Int32Array | null)[] = new Array(G).fill(null), hs: (Int32Array | null)[] = new Array(G).fill(null);
+          const cv = new Int32Array(G), cs = new Int32Array(G);
+          for (let gi = 1; gi < G; gi++)
+            if (nVar[gi]! >= 2) {
+              hv[gi] = new Int32Array(nVar[gi]!);
+              ho[gi] = new Int32Array(nVar[gi]! + 1);
+              hs[gi] = new Int32Array(nSup[gi]!);
+            }
+          last.fill(-1);
+          for (const v of f.vars) {
+            const g = group[v]!;
+            for (let x = 0; x < g.length; x++) {
+              const gi = g[x]!;
+              const vv = hv[gi];
+              if (gi === 0 || !vv) continue;
+              if (last[gi] !== v) {
+                last[gi] = v;
+                vv[cv[gi]!++] = v;
+              }
+              hs[gi]![cs[gi]!++] = x;
+              ho[gi]![cv[gi]!] = cs[gi]!;
+            }
+          }
+          for (let gi = 1; gi < G; gi++) {
+            const vv = hv[gi];
+            if (!vv) continue;
             if (p === NEG) {
-              ops.push(new AtMostOneOp(fi, h.vars, h.off, h.sup, card, H));
+              ops.push(new AtMostOneOp(fi, vv, ho[gi]!, hs[gi]!, card, H));
               continue;
             }
             const table: number[] = [];
-            for (let c = 0; c <= h.vars.length; c++) table.push((p * c * (c - 1)) / 2);
-            let S = table.length - 1;
-            const op = new CountingOp(fi, h.vars, h.off, h.sup, h.sup.map(() => 1), card, bmt(table.slice(0, S + 1)), scratch);
-            ops.push(op);
+            for (let c = 0; c <= vv.length; c++) table.push((p * c * (c - 1)) / 2);
+            ops.push(new CountingOp(fi, vv, ho[gi]!, hs[gi]!, new Int32Array(hs[gi]!.length).fill(1), card, bmt(table), scratch));
           }
         }
         break;
@@ -348,7 +375,17 @@ export interface MessageState {
 }
 
 export function newMessageState(E: Engine): MessageState {
-  const msg = E.ops.map((op) => new Float64Array(op.off[op.vars.length]!));
+  // one backing buffer for all messages: views are cheap, separate buffers are not
+  let total = 0;
+  for (const op of E.ops) total += op.off[op.vars.length]!;
+  const all = new Float64Array(total);
+  let at = 0;
+  const msg = E.ops.map((op) => {
+    const len = op.off[op.vars.length]!;
+    const v = all.subarray(at, at + len);
+    at += len;
+    return v;
+  });
   const belief = E.theta.map((t) => Float64Array.from(t));
   return { msg, belief, opConst: new Float64Array(E.ops.length), tops: new BeliefTops(belief) };
 }
