@@ -15,7 +15,7 @@ export interface FakeGoogleAccount {
 /** Invented test accounts. The second shares its address with the demo's staff login, to show account linking. */
 export const FAKE_GOOGLE_ACCOUNTS: FakeGoogleAccount[] = [
   { sub: '104200000000000000001', name: 'Rowan Ashdown', givenName: 'Rowan', familyName: 'Ashdown', email: 'rowan.ashdown@example.com', emailVerified: true },
-  { sub: '104200000000000000002', name: 'Nell Abernethy', givenName: 'Nell', familyName: 'Abernethy', email: 'staff@willowmere.example', emailVerified: true },
+  { sub: '104200000000000000002', name: 'Hattie Lowther', givenName: 'Hattie', familyName: 'Lowther', email: 'staff@willowmere.example', emailVerified: true },
   { sub: '104200000000000000003', name: 'Uma Thistlewood', givenName: 'Uma', familyName: 'Thistlewood', email: 'uma.thistlewood@example.org', emailVerified: false },
 ];
 

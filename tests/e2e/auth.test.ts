@@ -123,6 +123,25 @@ describe.each([
     await invitee.close();
   });
 
+  it('Google sign-in as the demo staff member joins their password account and shows a staff menu', async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    await page.goto('/');
+    await page.getByTestId('google-sign-in').click();
+    await page.getByRole('heading', { name: 'Choose an account' }).waitFor();
+    // The fake's test account with the same verified address as the seeded staff@willowmere.example.
+    await page.getByRole('button', { name: /staff@willowmere\.example/ }).click();
+    await page.getByRole('heading', { name: 'Hello, Hattie' }).waitFor();
+    await page.getByText('You are signed in to Willowmere House as staff.').waitFor();
+    const menu = await navLabels(page);
+    expect(menu).toContain('Account');
+    for (const hidden of ['Members', 'Rosters', 'People', 'Plan & billing']) expect(menu).not.toContain(hidden);
+    await openSection(page, 'Account');
+    await page.getByText('Google sign-in is linked to this account.').waitFor();
+    await screenshot(page, `staff-account-${label}`);
+    expect(problems).toEqual([]);
+    await close();
+  });
+
   it('the same invitation link cannot be used twice', async () => {
     const { page, problems, close } = await openPage(browser, viewport, [/HTTP 410: GET .*\/api\/invitations\/preview/, /status of 410/]);
     await page.goto('/dev/mail');

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
 import { createTestDb, type TestDb } from '../helpers/test-db';
-import { PASSWORD, agent, makeApp, makeUser, makeWorkspace } from './helpers';
+import { PASSWORD, agent, linkIn, makeApp, makeUser, makeWorkspace } from './helpers';
 import { startGoogleFake, FAKE_GOOGLE_ACCOUNTS, type GoogleFake } from '../../../fakes/google/oauth-fake';
 import { readEnv } from '../../../server/env';
 import { Membership, User } from '../../../server/db/models';
@@ -29,11 +29,14 @@ describe('Google sign-in through the local OAuth 2 fake', () => {
   let fake: GoogleFake;
   // One listening server: the redirect URI is built from the request's host and port, which must not change mid-flow.
   let app: http.Server;
+  let mailer: ReturnType<typeof makeApp>['mailer'];
   beforeAll(async () => {
     db = await createTestDb();
     fake = await startGoogleFake();
     const env = readEnv({ ...process.env, NODE_ENV: 'test', ROTALOOM_DB_NAME: db.env.db.database, ...fake.env });
-    app = http.createServer(makeApp(db, { env }).app);
+    const made = makeApp(db, { env });
+    mailer = made.mailer;
+    app = http.createServer(made.app);
     await new Promise<void>((resolve) => app.listen(0, '127.0.0.1', resolve));
   });
   afterAll(async () => {
@@ -74,6 +77,22 @@ describe('Google sign-in through the local OAuth 2 fake', () => {
     expect(session).toMatchObject({ role: 'staff', workspace: { id: workspace.id } });
     expect(await Membership.count({ where: { userId: user.id } })).toBe(1);
     expect((await agent(app).post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
+  });
+
+  it('a Google-first account refuses a second sign-up but gets a password through the reset link: still one user', async () => {
+    const a = agent(app);
+    await googleSignIn(a, fake, { name: 'Ottilie Marsh', email: 'ottilie.marsh@example.test', verified: '1' });
+    const id = (await a.get('/api/auth/session')).body.user.id;
+    const dup = await agent(app).post('/api/auth/sign-up').send({ displayName: 'Ottilie', email: 'ottilie.marsh@example.test', password: 'a second account please', workspaceName: 'Dup' });
+    expect(dup.status).toBe(409);
+    expect((await agent(app).post('/api/auth/sign-in').send({ email: 'ottilie.marsh@example.test', password: 'a second account please' })).status).toBe(401);
+    await agent(app).post('/api/auth/forgot-password').send({ email: 'ottilie.marsh@example.test' });
+    await new Promise((r) => setTimeout(r, 50));
+    const token = linkIn(mailer.last('ottilie.marsh@example.test'), '/reset-password').searchParams.get('token');
+    const b = agent(app);
+    const reset = await b.post('/api/auth/reset-password').send({ token, password: 'now with a password' });
+    expect(reset.body.user).toMatchObject({ id, hasGoogle: true, hasPassword: true });
+    expect(await User.count({ where: { email: 'ottilie.marsh@example.test' } })).toBe(1);
   });
 
   it('drops the password of an unverified account that Google proves belongs to someone', async () => {
