@@ -4,6 +4,7 @@ import { Calendar } from 'react-native-calendars';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { myShiftsQueryOptions } from '@/hooks/api/get-my-shifts';
+import { useIsWide } from '@/hooks/use-is-wide';
 import { useSession } from '@/hooks/api/get-session';
 import type { MyShift } from '@/shared/api/staff';
 import { WORKING_TIME_CAUTION } from '@/shared/caution';
@@ -19,6 +20,7 @@ const NEXT_SHOWN = 5;
 /** A staff member's published shifts: the next ones first, a month calendar, and this week's hours. */
 export function MyShiftsScreen() {
   const { data: session } = useSession();
+  const wide = useIsWide();
   const [week, setWeek] = useState<string | undefined>(undefined);
   const [selected, setSelected] = useState<string | null>(null);
   const [showAll, setShowAll] = useState(false);
@@ -57,7 +59,7 @@ export function MyShiftsScreen() {
   const isThisWeek = week === undefined || (week >= wk.start && week <= wk.end && data.today >= wk.start && data.today <= wk.end);
 
   return (
-    <View style={styles.page}>
+    <View style={[styles.page, wide && styles.pageWide]}>
       <Heading>My shifts</Heading>
       <Body muted>{`${data.person.name} · times in ${zone}`}</Body>
 
@@ -72,53 +74,55 @@ export function MyShiftsScreen() {
         {!isThisWeek ? <Button kind="quiet" label="Back to this week" onPress={() => { setWeek(undefined); setSelected(null); }} /> : null}
       </View>
 
-      <View style={styles.section} testID="next-shifts">
-        <Heading level={2}>Next</Heading>
-        {data.shifts.length === 0 ? (
-          <Notice kind="info">No published shifts yet. When a coordinator publishes a roster with you on it, your shifts appear here and you get an e-mail.</Notice>
-        ) : upcoming.length === 0 ? (
-          <Notice kind="info">No upcoming shifts. Your earlier ones are on the calendar below.</Notice>
-        ) : (
-          next.map((s) => <ShiftCard key={s.seatId} shift={s} timeZone={zone} />)
-        )}
-        {upcoming.length > NEXT_SHOWN ? <Button kind="quiet" label={showAll ? 'Show fewer' : `Show all ${upcoming.length}`} onPress={() => setShowAll(!showAll)} /> : null}
-      </View>
-
-      <View style={styles.section}>
-        <Heading level={2}>Month</Heading>
-        <View style={styles.calendar} testID="shift-calendar">
-          <Calendar
-            testID="month-calendar"
-            firstDay={1}
-            current={selected ?? upcoming[0]?.startsLocal.slice(0, 10) ?? data.today}
-            markedDates={marked}
-            onDayPress={(d: { dateString: string }) => {
-              setSelected(d.dateString);
-              setWeek(d.dateString);
-            }}
-            enableSwipeMonths
-            theme={{
-              calendarBackground: colors.card,
-              todayTextColor: colors.thread,
-              dayTextColor: colors.ink,
-              textDisabledColor: colors.line,
-              monthTextColor: colors.ink,
-              arrowColor: colors.loom,
-              selectedDayBackgroundColor: colors.loom,
-              textDayFontFamily: fonts.body,
-              textMonthFontFamily: fonts.heading,
-              textDayHeaderFontFamily: fonts.bodyBold,
-            }}
-          />
+      <View style={wide ? styles.columns : styles.stack}>
+        <View style={[styles.section, wide && styles.column]} testID="next-shifts">
+          <Heading level={2}>Next</Heading>
+          {data.shifts.length === 0 ? (
+            <Notice kind="info">No published shifts yet. When a coordinator publishes a roster with you on it, your shifts appear here and you get an e-mail.</Notice>
+          ) : upcoming.length === 0 ? (
+            <Notice kind="info">No upcoming shifts. Your earlier ones are on the month calendar.</Notice>
+          ) : (
+            next.map((s) => <ShiftCard key={s.seatId} shift={s} timeZone={zone} />)
+          )}
+          {upcoming.length > NEXT_SHOWN ? <Button kind="quiet" label={showAll ? 'Show fewer' : `Show all ${upcoming.length}`} onPress={() => setShowAll(!showAll)} /> : null}
         </View>
-        {selected ? (
-          <View style={styles.dayShifts} testID="day-shifts">
-            <Body bold>{plainLongDay(selected)}</Body>
-            {(byDay.get(selected) ?? []).length === 0 ? <Body muted>No shift on this day.</Body> : (byDay.get(selected) ?? []).map((s) => <ShiftCard key={s.seatId} shift={s} timeZone={zone} />)}
+
+        <View style={[styles.section, wide && styles.column]}>
+          <Heading level={2}>Month</Heading>
+          <View style={styles.calendar} testID="shift-calendar">
+            <Calendar
+              testID="month-calendar"
+              firstDay={1}
+              current={selected ?? upcoming[0]?.startsLocal.slice(0, 10) ?? data.today}
+              markedDates={marked}
+              onDayPress={(d: { dateString: string }) => {
+                setSelected(d.dateString);
+                setWeek(d.dateString);
+              }}
+              enableSwipeMonths
+              theme={{
+                calendarBackground: colors.card,
+                todayTextColor: colors.thread,
+                dayTextColor: colors.ink,
+                textDisabledColor: colors.line,
+                monthTextColor: colors.ink,
+                arrowColor: colors.loom,
+                selectedDayBackgroundColor: colors.loom,
+                textDayFontFamily: fonts.body,
+                textMonthFontFamily: fonts.heading,
+                textDayHeaderFontFamily: fonts.bodyBold,
+              }}
+            />
           </View>
-        ) : (
-          <Body muted>Tap a day to see its shifts and that week’s hours.</Body>
-        )}
+          {selected ? (
+            <View style={styles.dayShifts} testID="day-shifts">
+              <Body bold>{plainLongDay(selected)}</Body>
+              {(byDay.get(selected) ?? []).length === 0 ? <Body muted>No shift on this day.</Body> : (byDay.get(selected) ?? []).map((s) => <ShiftCard key={s.seatId} shift={s} timeZone={zone} />)}
+            </View>
+          ) : (
+            <Body muted>Tap a day to see its shifts and that week’s hours.</Body>
+          )}
+        </View>
       </View>
 
       <CalendarFeedSection />
@@ -128,6 +132,10 @@ export function MyShiftsScreen() {
 
 const styles = StyleSheet.create({
   page: { gap: space.lg, maxWidth: 760, width: '100%' },
+  pageWide: { maxWidth: 1100 },
+  stack: { gap: space.lg },
+  columns: { flexDirection: 'row', gap: space.xl, alignItems: 'flex-start' },
+  column: { flex: 1, minWidth: 0 },
   section: { gap: space.md },
   card: { backgroundColor: colors.card, borderRadius: radius.lg, padding: space.lg, gap: space.sm, borderWidth: 1, borderColor: colors.line },
   bar: { height: 10, borderRadius: 5, backgroundColor: colors.loomSoft, overflow: 'hidden' },
