@@ -11,6 +11,7 @@ import { finite } from './execute';
 import { requireRunsAllowed } from '../billing/limits';
 import { refuseWhenPublished } from '../rosters/publish';
 import { findRoster } from '../rosters/repository';
+import { cachedRun, FINAL_STATUSES, rememberRun } from './result-cache';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -80,10 +81,14 @@ export function runsRouter() {
 
   const runs = new ApiRoutes('/runs');
   runs.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
+    const cached = cachedRun(Number(req.params.id), ws(req));
+    if (cached) return void res.json(cached);
     const run = await RunRow.findOne({ where: { id: Number(req.params.id), workspaceId: ws(req) } });
     if (!run) throw notFound('Run');
-    const assignments = run.status === 'done' || run.status === 'cancelled' ? await AssignmentRow.findAll({ where: { runId: run.id }, order: [['seatId', 'ASC']] }) : [];
-    res.json({ ...toRunDto(run), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: a.pinned })) });
+    const assignments = run.status === 'done' || run.status === 'cancelled' ? await AssignmentRow.findAll({ where: { runId: run.id }, order: [['seatId', 'ASC']], raw: true }) : [];
+    const body = { ...toRunDto(run), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: Boolean(a.pinned) })) };
+    if (FINAL_STATUSES.has(run.status)) rememberRun(run.id, run.workspaceId, body);
+    res.json(body);
   });
   runs.post('/:id/cancel', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     const where = { id: Number(req.params.id), workspaceId: ws(req) };
