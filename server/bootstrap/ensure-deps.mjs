@@ -10,12 +10,15 @@ function mtime(file) {
   return existsSync(file) ? statSync(file).mtimeMs : 0;
 }
 
-/** npm's own record of the last install; older than the manifest or lock means something is missing. */
+/**
+ * npm's own record of the last install; older than the lock file means the dependencies changed
+ * since (a pull, a branch switch). package.json alone is not compared: editing a script there
+ * must not reinstall everything.
+ */
 function dependenciesStale() {
   const installed = path.join(rootDir, 'node_modules', '.package-lock.json');
   if (!existsSync(installed)) return true;
-  const stamp = mtime(installed);
-  return mtime(path.join(rootDir, 'package.json')) > stamp || mtime(path.join(rootDir, 'package-lock.json')) > stamp;
+  return mtime(path.join(rootDir, 'package-lock.json')) > mtime(installed);
 }
 
 export function ensureNpmDependencies() {
