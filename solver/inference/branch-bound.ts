@@ -32,7 +32,7 @@ export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Arra
     const s = Array.from(b).sort((p, q) => q - p);
     return s.length > 1 ? s[0]! - s[1]! : Infinity;
   });
-  const varOrder = Array.from({ length: n }, (_, i) => i).sort((a, b) => E.adj[b]!.length - E.adj[a]!.length || margin[a]! - margin[b]!);
+  const varOrder = Array.from({ length: n }, (_, i) => i).sort((a, b) => E.adjOp[b]!.length - E.adjOp[a]!.length || margin[a]! - margin[b]!);
   const assignedCount = new Int32Array(E.ops.length);
   const x = new Int32Array(n).fill(-1);
   let best = incumbentScore, bestX = incumbent ? Int32Array.from(incumbent) : null;
@@ -72,12 +72,12 @@ export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Arra
       const bi = st.belief[i]![v]!;
       x[i] = v;
       let opsNew = ops;
-      for (const [c] of E.adj[i]!) {
+      for (const c of E.adjOp[i]!) {
         if (++assignedCount[c] === E.ops[c]!.vars.length) opsNew += reparamTerm(c) - st.opConst[c]!;
       }
       const ub = E.constant + partial + bi + (free - maxB[i]!) + opsNew;
       if (ub > best + tol || bestX === null) rec(depth + 1, partial + bi, free - maxB[i]!, opsNew);
-      for (const [c] of E.adj[i]!) assignedCount[c]!--;
+      for (const c of E.adjOp[i]!) assignedCount[c]!--;
       x[i] = -1;
       if (aborted) return;
     }

@@ -18,8 +18,9 @@ export interface Engine {
   /** Summed unary scores per variable (big-M applied). */
   theta: Float64Array[];
   ops: Op[];
-  /** Per variable: list of [op index, slot]. */
-  adj: Array<Array<[number, number]>>;
+  /** Per variable: the operators touching it (adjOp[i][k]) and the variable's slot in each (adjSlot[i][k]). */
+  adjOp: Int32Array[];
+  adjSlot: Int32Array[];
   keys: KeyInfo;
   scratch: Scratch;
   H: number;
@@ -323,9 +324,20 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
   model.factors.forEach((f) => {
     if (f.kind === 'table' && f.vars.length === 0) constant += bm(f.table[0]!);
   });
-  const adj: Array<Array<[number, number]>> = model.variables.map(() => []);
-  ops.forEach((op, oi) => op.vars.forEach((v, s) => adj[v]!.push([oi, s])));
-  return { model, n, card, theta, ops, adj, keys, scratch, H, constant, hasHard };
+  // adjacency as typed arrays (counting sort by variable): millions of slots on large rosters
+  const deg = new Int32Array(n);
+  for (const op of ops) for (let s = 0; s < op.vars.length; s++) deg[op.vars[s]!]!++;
+  const adjOp = Array.from(deg, (d) => new Int32Array(d));
+  const adjSlot = Array.from(deg, (d) => new Int32Array(d));
+  const fill = new Int32Array(n);
+  ops.forEach((op, oi) => {
+    for (let s = 0; s < op.vars.length; s++) {
+      const v = op.vars[s]!, k = fill[v]!++;
+      adjOp[v]![k] = oi;
+      adjSlot[v]![k] = s;
+    }
+  });
+  return { model, n, card, theta, ops, adjOp, adjSlot, keys, scratch, H, constant, hasHard };
 }
 
 /** Big-M score of an assignment through the compiled operators (equals the model score when feasible). */

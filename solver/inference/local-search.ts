@@ -72,7 +72,9 @@ export class LocalSearch {
   local(i: number, acc: Float64Array): void {
     const E = this.E, K = E.card[i]!;
     acc.set(E.theta[i]!.subarray(0, K));
-    for (const [oi, s] of E.adj[i]!) {
+    const ao = E.adjOp[i]!, as = E.adjSlot[i]!;
+    for (let k = 0; k < ao.length; k++) {
+      const oi = ao[k]!, s = as[k]!;
       const op = E.ops[oi]!;
       if (this.counting[oi]) {
         const c = op as CompactOp;
@@ -84,7 +86,9 @@ export class LocalSearch {
   set(i: number, v: number): void {
     const old = this.x[i]!;
     if (old === v) return;
-    for (const [oi, s] of this.E.adj[i]!) {
+    const ao = this.E.adjOp[i]!, as = this.E.adjSlot[i]!;
+    for (let k = 0; k < ao.length; k++) {
+      const oi = ao[k]!, s = as[k]!;
       if (this.counting[oi]) {
         const c = this.E.ops[oi] as CompactOp;
         this.sums[oi]! += c.weightAt(s, v) - c.weightAt(s, old);

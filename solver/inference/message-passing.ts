@@ -117,7 +117,7 @@ export function productUpdate(E: Engine, st: MessageState, oi: number, buf: OpBu
  */
 export function betheLogZ(E: Engine, st: MessageState, buf: OpBuffers): number {
   let z = E.constant;
-  for (let i = 0; i < E.n; i++) z += (1 - E.adj[i]!.length) * lseRange(st.belief[i]!);
+  for (let i = 0; i < E.n; i++) z += (1 - E.adjOp[i]!.length) * lseRange(st.belief[i]!);
   for (let oi = 0; oi < E.ops.length; oi++) {
     const op = E.ops[oi]!;
     gatherIncoming(E, st, oi, buf, true);
@@ -143,7 +143,7 @@ export function forestOrder(E: Engine): { order: number[]; parentVar: Int32Array
     const queue = [r];
     for (let q = 0; q < queue.length; q++) {
       const v = queue[q]!;
-      for (const [oi] of E.adj[v]!) {
+      for (const oi of E.adjOp[v]!) {
         if (seenOp[oi]) continue;
         seenOp[oi] = 1;
         parentVar[oi] = v;

@@ -243,7 +243,9 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     for (const oi of order) {
       if (useMplp) mplpUpdate(E, st, oi, buf);
       else productUpdate(E, st, oi, buf, false, opt.damping);
-      if (++opsSinceYield >= 2000) {
+      // check the clock every 64 operators, and after every large one
+      opsSinceYield += E.ops[oi]!.vars.length > 256 ? 64 : 1;
+      if (opsSinceYield >= 64) {
         opsSinceYield = 0;
         if (Date.now() > deadline || signal?.aborted) {
           cut = true;
