@@ -2,9 +2,9 @@ import { Linking, Pressable, StyleSheet, Text } from 'react-native';
 import { colors, fonts, radius, space } from '@/constants/theme';
 
 /** Opens a file address from the API (the session cookie goes along); the web build uses a download link instead. */
-export function DownloadLink({ href, label, testID }: { href: string; filename: string; label: string; testID?: string }) {
+export function DownloadLink({ href, label, a11yLabel, testID }: { href: string; filename: string; label: string; a11yLabel?: string; testID?: string }) {
   return (
-    <Pressable role="link" accessibilityLabel={label} onPress={() => void Linking.openURL(href)} style={styles.link} testID={testID}>
+    <Pressable role="link" accessibilityLabel={a11yLabel ?? label} onPress={() => void Linking.openURL(href)} style={styles.link} testID={testID}>
       <Text style={styles.text}>{label}</Text>
     </Pressable>
   );

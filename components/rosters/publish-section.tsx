@@ -60,9 +60,11 @@ export function PublishSection({ roster, runId }: { roster: RosterDto; runId: nu
                 .filter((p) => p.shifts > 0)
                 .map((p) => (
                   <View key={p.personId} style={styles.person}>
-                    <Body style={{ flex: 1, minWidth: 160 }}>{`${p.name} · ${p.shifts} shifts`}</Body>
-                    <DownloadLink href={`${base}/roster.ics${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.ics`} label={`${p.name.split(' ')[0]}: .ics`} />
-                    <DownloadLink href={`${base}/roster.csv${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.csv`} label=".csv" />
+                    <Body style={{ flex: 1, minWidth: 150 }}>{`${p.name} · ${p.shifts} shifts`}</Body>
+                    <View style={styles.links}>
+                      <DownloadLink href={`${base}/roster.ics${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.ics`} label=".ics" a11yLabel={`Calendar for ${p.name} (.ics)`} />
+                      <DownloadLink href={`${base}/roster.csv${q}${sep}personId=${dbId(p.personId)}`} filename={`${slug}-${dbId(p.personId)}.csv`} label=".csv" a11yLabel={`Table for ${p.name} (.csv)`} />
+                    </View>
                   </View>
                 ))}
             </View>

@@ -77,6 +77,7 @@ describe.each([
 
     await solve(page, `coordinator-roster-${label}-04-solve`);
     expect(await page.getByTestId('result-gap-words').textContent()).toMatch(/best possible roster/);
+    await page.getByTestId('day-list').waitFor();
     await shot('05-result');
 
     // A concession in words, and what honouring it would cost (a bounded re-solve on the server).
