@@ -126,7 +126,7 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
       if (!workspaceId) return { workspaceId: null, outcome: 'ignored: no workspace' };
       const account = await lockAccount(workspaceId, transaction);
       if (event.type === 'invoice.payment_failed') {
-        account.lastPaymentError = `The payment of ${formatMoney(invoice.amount_due, invoice.currency)} for invoice ${invoice.number ?? invoice.id} failed on ${new Date(event.created * 1000).toISOString().slice(0, 10)}.`;
+        account.lastPaymentError = `The payment of ${formatMoney(invoice.amount_due, invoice.currency)} for invoice ${invoice.number ?? invoice.id} failed on ${new Date(event.created * 1000).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' })}.`;
       } else {
         account.lastPaymentError = null;
       }
