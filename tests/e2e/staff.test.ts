@@ -6,7 +6,7 @@ import { readEnv } from '../../server/env';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels, Person, Workspace } from '../../server/db/models';
 import { Roster } from '../../server/rosters/models';
-import { PairingRequestRow } from '../../server/staff/models';
+import { CalendarFeedRow, PairingRequestRow } from '../../server/staff/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
 import { publishDirectly, seatsOf } from '../server/staff/publish-helper';
 import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
@@ -66,6 +66,7 @@ describe('staff on their phones', () => {
     await Roster.destroy({ where: { workspaceId, name: ROSTER } });
     // A run of this test stopped half-way may have left its request behind.
     await PairingRequestRow.destroy({ where: { workspaceId, requestedByPersonId: hattie.id, status: 'requested' } });
+    await CalendarFeedRow.destroy({ where: { workspaceId, personId: hattie.id } });
     const roster = await createRoster(workspaceId, {
       name: ROSTER,
       periodStart: '2027-02-01',
