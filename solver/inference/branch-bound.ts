@@ -17,7 +17,7 @@ export interface BranchBoundResult {
   nodes: number;
 }
 
-export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Array | null, incumbentScore: number, deadline: number, signal?: AbortSignal, tol = 1e-7): BranchBoundResult {
+export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Array | null, incumbentScore: number, deadline: number, signal?: AbortSignal, tol = 1e-7, clock: () => number = Date.now): BranchBoundResult {
   const n = E.n;
   const maxB = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -55,7 +55,7 @@ export function branchAndBound(E: Engine, st: MessageState, incumbent: Int32Arra
 
   const rec = (depth: number, partial: number, free: number, ops: number): void => {
     if (aborted) return;
-    if ((++nodes & 1023) === 0 && (Date.now() > deadline || signal?.aborted)) {
+    if ((++nodes & 1023) === 0 && (clock() > deadline || signal?.aborted)) {
       aborted = true;
       return;
     }

@@ -99,10 +99,12 @@ export class LocalSearch {
     this.hold(i, v, true);
   }
 
-  /** Passes stop early once Date.now() passes this. */
+  /** Passes stop early once clock() passes this. */
   deadline = Infinity;
+  /** Milliseconds clock for deadlines (wall clock unless the caller injects another, e.g. CPU time). */
+  clock: () => number = Date.now;
   private late(step: number): boolean {
-    return (step & 31) === 0 && Date.now() > this.deadline;
+    return (step & 31) === 0 && this.clock() > this.deadline;
   }
 
   /** One pass of single-variable moves; returns the total gain. */
@@ -212,10 +214,10 @@ export class LocalSearch {
     const order = shuffle(Array.from({ length: this.E.n }, (_, i) => i), this.random);
     for (let r = 0; r < maxRounds; r++) {
       let g = this.icmPass(order);
-      if (Date.now() > deadline) break;
+      if (this.clock() > deadline) break;
       if (g <= EPS) {
         g += this.swapPass(order);
-        if (g <= EPS || Date.now() > deadline) break;
+        if (g <= EPS || this.clock() > deadline) break;
       }
     }
     return engineScore(this.E, this.x);

@@ -80,7 +80,8 @@ function safeStart(E: Engine): Int32Array {
 
 /** Internal: a solve as a generator that yields whenever the caller may pause (async) or check the signal. */
 function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefined, out: { result?: MapResult }): Generator<void, void, void> {
-  const t0 = Date.now();
+  const now = opt.clock ?? Date.now;
+  const t0 = now();
   const deadline = t0 + opt.timeLimitMs;
   const E = buildEngine(model, { hardPenalty: opt.hardPenalty });
   const history: HistoryPoint[] = [];
@@ -91,7 +92,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   let timeToBest = 0;
   let lastProgress = 0;
   const R = rng(opt.seed);
-  const elapsed = (): number => Date.now() - t0;
+  const elapsed = (): number => now() - t0;
   // exact score of the incumbent, recomputed only when the incumbent changes
   let cachedFor: Int32Array | null = null, cachedScore = -Infinity;
   const trueScore = (x: Int32Array): number => {
@@ -211,18 +212,20 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   const orderF = Array.from(E.ops.keys());
   const orderB = [...orderF].reverse();
 
-  // initial incumbent: the caller's start, else each variable's best value by its unary score,
-  // improved locally; if that stays infeasible, a "safe" start where every variable takes its best
-  // keyless value when it has one (a seat left open collides with nothing). Local search never
-  // trades a feasible state for an infeasible one, so a feasible start stays feasible.
+  // initial incumbents, each improved locally: the caller's start if given, each variable's best
+  // value by its unary score (good when the unaries dominate), and a "safe" start where every
+  // variable takes its best keyless value when it has one (a seat left open collides with
+  // nothing). Local search never trades a feasible state for an infeasible one, so a feasible
+  // start stays feasible.
   {
-    const budget = Math.max(50, opt.timeLimitMs * 0.08);
-    const starts = opt.initial ? [Int32Array.from(opt.initial)] : [decodeBeliefs(st0(E)), safeStart(E)];
+    const starts = [...(opt.initial ? [Int32Array.from(opt.initial)] : []), decodeBeliefs(st0(E)), safeStart(E)];
+    const budget = Math.max(30, (opt.timeLimitMs * 0.12) / starts.length);
     for (const start of starts) {
+      if (now() > deadline) break;
       const ls = new LocalSearch(E, start, R);
-      const s = opt.localSearch ? ls.run(Math.min(deadline, Date.now() + budget)) : engineScore(E, ls.x);
+      ls.clock = now;
+      const s = opt.localSearch ? ls.run(Math.min(deadline, now() + budget)) : engineScore(E, ls.x);
       offer(ls.x, s);
-      if (trueScore(bestX!) > -Infinity || Date.now() > deadline) break;
     }
   }
   progress();
@@ -238,7 +241,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   let opsSinceYield = 0;
   for (iterations = 1; iterations <= opt.maxIterations; iterations++) {
     const order = iterations % 2 ? orderF : orderB;
-    const ts = Date.now();
+    const ts = now();
     let cut = false;
     for (const oi of order) {
       if (useMplp) mplpUpdate(E, st, oi, buf);
@@ -247,13 +250,13 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       opsSinceYield += E.ops[oi]!.vars.length > 256 ? 64 : 1;
       if (opsSinceYield >= 64) {
         opsSinceYield = 0;
-        if (Date.now() > deadline || signal?.aborted) {
+        if (now() > deadline || signal?.aborted) {
           cut = true;
           break;
         }
       }
     }
-    sweepMs = Date.now() - ts;
+    sweepMs = now() - ts;
     if (!cut) {
       const b = useMplp ? mplpBound(E, st) : iterations % opt.decodeEvery === 0 ? generalDualBound(E, st, buf) : Infinity;
       if (b < bound - Math.max(opt.stallTolerance, 1e-12 * Math.abs(bound))) {
@@ -264,11 +267,11 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       } else if (b < bound) bound = b;
       if (lastBoundImprove === Infinity) lastBoundImprove = iterations;
     }
-    // decode every few sweeps while decoding has used under a third of the time, and on the last sweep
-    const now = elapsed();
+    // decode every few sweeps while decoding has used under 40 % of the time, and on the last sweep
+    const sinceStart = elapsed();
     const stalledDual = iterations - lastBoundImprove >= opt.stallSweeps;
-    if ((cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.4 * now) || iterations === opt.maxIterations) && Date.now() < deadline) {
-      const td = Date.now();
+    if ((cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.4 * sinceStart) || iterations === opt.maxIterations) && now() < deadline) {
+      const td = now();
       const target = decodeBeliefs(st);
       let x: Int32Array, s: number;
       if (!opt.localSearch) {
@@ -278,7 +281,8 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
         // alternate: the decoded beliefs repaired from scratch, or the incumbent moved toward them
         const fromIncumbent = bestX !== null && decodes % 2 === 1;
         const ls = new LocalSearch(E, fromIncumbent ? bestX! : target, R);
-        const until = Math.min(deadline, Date.now() + Math.max(20, Math.min(sweepMs * 3 + 50, (deadline - Date.now()) * 0.25)));
+        ls.clock = now;
+        const until = Math.min(deadline, now() + Math.max(20, Math.min(sweepMs * 3 + 50, (deadline - now()) * 0.25)));
         if (fromIncumbent) {
           ls.deadline = until;
           ls.guided(target, shuffleOrder(E.n));
@@ -288,7 +292,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       }
       decodes++;
       offer(x, s);
-      decodeMs += Date.now() - td;
+      decodeMs += now() - td;
     }
     progress();
     if (gapClosed()) {
@@ -299,7 +303,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       stopReason = 'aborted';
       break;
     }
-    if (Date.now() > deadline) {
+    if (now() > deadline) {
       stopReason = 'time';
       break;
     }
@@ -311,8 +315,8 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   }
   if (iterations > opt.maxIterations) iterations = opt.maxIterations;
 
-  if (bbAllowed && !gapClosed() && stopReason !== 'aborted' && Date.now() < deadline) {
-    const r = branchAndBound(E, st, bestX, bestBig, deadline, signal);
+  if (bbAllowed && !gapClosed() && stopReason !== 'aborted' && now() < deadline) {
+    const r = branchAndBound(E, st, bestX, bestBig, deadline, signal, 1e-7, now);
     if (r.x) offer(r.x, r.best);
     if (r.complete) {
       bound = Math.min(bound, Math.max(bestBig, r.best));
@@ -320,12 +324,13 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       return;
     }
     stopReason = signal?.aborted ? 'aborted' : 'time';
-  } else if (stopReason === 'stalled' && !gapClosed() && Date.now() < deadline && !signal?.aborted) {
+  } else if (stopReason === 'stalled' && !gapClosed() && now() < deadline && !signal?.aborted) {
     // the dual is stuck: spend what is left on randomized decodings and local search
-    while (Date.now() < deadline && !signal?.aborted) {
+    while (now() < deadline && !signal?.aborted) {
       const x = decodeBeliefs(st);
       for (let i = 0; i < E.n; i++) if (R() < 0.05) x[i] = Math.floor(R() * E.card[i]!);
       const ls = new LocalSearch(E, x, R);
+      ls.clock = now;
       const s = ls.run(deadline);
       offer(ls.x, s);
       progress();
