@@ -53,7 +53,7 @@ export function BillingScreen() {
           <CurrentPlan billing={billing.data} />
           <UsageCard billing={billing.data} />
           {billing.data.plan.id === 'free' ? <UpgradeCard billing={billing.data} /> : <ManageCard billing={billing.data} />}
-          {billing.data.seatChange ? <SeatChange billing={billing.data} /> : null}
+          {billing.data.seatChange ? <SeatChange key={billing.data.seatChange.to} billing={billing.data} /> : null}
           <Invoices enabled={billing.data.configured} />
         </>
       ) : null}
@@ -66,7 +66,7 @@ function CurrentPlan({ billing }: { billing: Billing }) {
   let detail = billing.plan.summary;
   if (sub && billing.plan.id === 'team') {
     const price = `${formatMoney(sub.monthlyPrice, sub.currency)} a month for ${sub.quantity} ${sub.quantity === 1 ? 'seat' : 'seats'}`;
-    if (billing.status === 'trialing') detail = `${price} once the free trial ends on ${day(sub.trialEnd)}. Nothing is charged before then.`;
+    if (billing.status === 'trialing') detail = `${price} once the free trial ends on ${day(sub.trialEnd)}. Nothing is charged before then, and meanwhile the seats follow the number of people by themselves.`;
     else if (sub.cancelAtPeriodEnd) detail = `${price}. The plan ends on ${day(sub.currentPeriodEnd)}; after that the ${PLANS.free.name} limits apply.`;
     else detail = `${price}, renewing on ${day(sub.currentPeriodEnd)}.`;
   }

@@ -56,8 +56,9 @@ export async function billingOverview(workspaceId: number, deps: BillingDeps) {
           cancelAtPeriodEnd: account?.cancelAtPeriodEnd ?? false,
         }
       : null,
-    // Seat sync: seats follow the people on the workspace's rosters; a change waits for an admin unless trialing.
-    seatChange: live && account?.subscriptionId && Math.max(1, usage.people) !== quantity ? { from: quantity, to: Math.max(1, usage.people) } : null,
+    // Seat sync: seats follow the people in the workspace. In the trial that happens by itself (seat-sync.ts);
+    // on a paid plan the change waits here for an admin to see the new price and confirm it.
+    seatChange: live && status !== 'trialing' && account?.subscriptionId && Math.max(1, usage.people) !== quantity ? { from: quantity, to: Math.max(1, usage.people) } : null,
     pastDue: status === 'past_due' ? { message: account?.lastPaymentError ?? 'The last payment failed.' } : null,
     checkoutOpen: Boolean(account?.checkoutSessionId && account.checkoutExpiresAt && account.checkoutExpiresAt > new Date()),
     canStartTrial: !account?.trialEnd,
