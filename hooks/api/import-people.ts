@@ -15,9 +15,9 @@ export async function uploadPeopleCsv(step: 'preview' | 'commit', file: Blob & {
   let res: Response;
   try {
     res = await fetch(`/api/people/import/${step}`, { method: 'POST', credentials: 'same-origin', headers: { accept: 'application/json', 'x-rotaloom-csrf': '1' }, body: form, signal });
-  } catch (err) {
+  } catch {
     if (signal?.aborted) throw new ApiError(0, 'cancelled', 'The upload was cancelled; nothing was imported.');
-    throw new ApiError(0, 'network', `Rotaloom could not be reached${err instanceof Error ? '' : ''}. Check your connection and try again.`);
+    throw new ApiError(0, 'network', 'Rotaloom could not be reached. Check your connection and try again.');
   }
   const text = await res.text();
   let data: unknown;
