@@ -1,9 +1,7 @@
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
-import { idParams } from '../../shared/api/paging';
 import {
   createRosterBody,
-  pairingBody,
   patternBody,
   pinBody,
   rosterChildParams,
@@ -11,7 +9,6 @@ import {
   rostersListQuery,
   rulesBody,
   shiftBody,
-  updatePairingBody,
   updateRosterBody,
   updateShiftBody,
   wishBody,
@@ -103,24 +100,6 @@ export function rostersRouter() {
   });
   r.delete('/:rosterId/pins/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), frozen, async (req, res) => {
     await repo.deletePin(ws(req), rid(req), cid(req));
-    res.status(204).end();
-  });
-  return r.router;
-}
-
-export function pairingsRouter() {
-  const r = new ApiRoutes('/pairings');
-  r.get('/', COORDINATOR_UP, async (req, res) => {
-    res.json({ items: await repo.listPairings(ws(req)) });
-  });
-  r.post('/', COORDINATOR_UP, validate({ body: pairingBody }), async (req, res) => {
-    res.status(201).json(await repo.createPairing(ws(req), req.body));
-  });
-  r.patch('/:id', COORDINATOR_UP, validate({ params: idParams, body: updatePairingBody }), async (req, res) => {
-    res.json(await repo.updatePairing(ws(req), cid(req), req.body));
-  });
-  r.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
-    await repo.deletePairing(ws(req), cid(req));
     res.status(204).end();
   });
   return r.router;
