@@ -1,5 +1,5 @@
-import { compileRoster, decodeAssignment, explainInfeasible, scoreRoster } from '../../solver/roster';
-import { solveMap } from '../../solver/inference';
+import type { decodeAssignment, scoreRoster } from '../../solver/roster';
+import { solveRoster } from '../../solver/roster/solve-roster';
 import type { Roster } from '../../shared/roster/schema';
 
 export interface RunProgress {
@@ -43,11 +43,9 @@ export async function executeRun(
   signal: AbortSignal,
 ): Promise<{ ok: true; outcome: RunOutcome } | { ok: false; reasons: string[] }> {
   if (roster.seats.length === 0) return { ok: false, reasons: ['This roster has no shifts yet: add a shift pattern or a shift first.'] };
-  const reasons = explainInfeasible(roster);
-  if (reasons.length > 0) return { ok: false, reasons };
-  const compiled = compileRoster(roster);
-  const result = await solveMap(
-    compiled.model,
+  // solveRoster checks feasibility in words first, then starts max-product from a greedy roster.
+  const solved = await solveRoster(
+    roster,
     {
       timeLimitMs: params.timeLimitSeconds * 1000,
       seed: params.seed,
@@ -56,10 +54,11 @@ export async function executeRun(
     },
     signal,
   );
+  if (solved.status === 'infeasible') return { ok: false, reasons: solved.reasons };
+  const { result, decoded, score } = solved;
   if (!result.feasible) {
     return { ok: false, reasons: ['No roster within the time limit keeps every hard rule. Loosen a hard rule (or make it soft), add people, or remove seats, then try again.'] };
   }
-  const decoded = decodeAssignment(compiled, result.assignment);
   return {
     ok: true,
     outcome: {
@@ -74,7 +73,7 @@ export async function executeRun(
       iterations: result.iterations,
       timeMs: result.timeMs,
       timeToBestMs: result.timeToBestMs,
-      check: scoreRoster(roster, decoded.assignment),
+      check: score,
       people: decoded.people,
       openSeats: decoded.openSeats.length,
     },
