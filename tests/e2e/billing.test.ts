@@ -32,7 +32,8 @@ describe.each([
   it('hits the free limit, is declined with one card, upgrades with the other and sees the plan change', async () => {
     // Expected refusals: the 13th person (402 plan_limit) and the declined card on the checkout page (402).
     // (Chromium also logs each as "Failed to load resource … 402"; the URL-specific lines are what pin them down.)
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /^console: Failed to load resource: the server responded with a status of 402/]);
+    // And the one checkout tried while the payment service is unreachable (503).
+    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /HTTP 503: POST .*\/api\/billing\/checkout$/, /^console: Failed to load resource: the server responded with a status of (402|503)/]);
     // A new workspace, signed up through the API as its admin (the browser context keeps the session cookie).
     const email = `owner.${label}.${Date.now().toString(36)}@example.test`;
     const signUp = await page.request.post('/api/auth/sign-up', { data: { displayName: 'Marisol Quenby', email, password: PASSWORD, workspaceName: `Hazelmere Clinic ${label}`, timeZone: 'Europe/London' }, headers });
@@ -60,6 +61,13 @@ describe.each([
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     expect(overflow).toBeLessThanOrEqual(0);
     await screenshot(page, `billing-2-free-${label}`);
+
+    // The payment service unreachable: a message on screen, and the plan stays as it was.
+    await setFakeOffline(true);
+    await page.getByTestId('start-checkout').click();
+    await page.getByText(/payment service could not be reached, so nothing was set up and nothing was charged/).waitFor({ timeout: 30_000 });
+    await screenshot(page, `billing-2b-unreachable-${label}`);
+    await setFakeOffline(false);
 
     // To the fake's checkout page; the declined card shows its message and nothing changes.
     await page.getByTestId('start-checkout').click();
@@ -94,6 +102,12 @@ describe.each([
     // Sign-up, twelve people, two trips to the payment page: longer than the default on a shared two-core machine.
   }, 180_000);
 });
+
+/** Makes the payments fake drop API connections, as if the service were unreachable (a test control of the fake). */
+async function setFakeOffline(on: boolean) {
+  const res = await fetch(`${process.env.ROTALOOM_STRIPE_FAKE_URL}/_fake/offline`, { method: 'POST', body: new URLSearchParams({ on: on ? '1' : '0' }) });
+  expect(res.status).toBe(200);
+}
 
 /** The fake's test controls (never part of the real service): move a subscription into its next period. */
 async function renew(workspaceId: number, outcome: 'paid' | 'failed') {
