@@ -313,7 +313,7 @@ export class PottsOp implements Op {
 /**
  * Sparse pairing table over key groups: θ = entry(g(xa), g(xb)) if listed, else default.
  * Max message to b: max( max_{listed (ga, g(xb))} G_a[ga] + s, default + best group of a not listed with g(xb) ),
- * with a's groups sorted once: O(K log K + entries).
+ * the latter found among a's L+1 best groups (L = longest list): O(K·(L+1) + entries).
  */
 export class SparseOp implements Op {
   kind = 'sparsePair';

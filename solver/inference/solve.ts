@@ -232,7 +232,6 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   yield;
 
   let stopReason: StopReason = 'iterations';
-  let bestBoundAt = 0;
   let lastBoundImprove = Infinity;
   let decodeMs = 0, decodes = 0;
   const shuffleOrder = (n: number): number[] => shuffle(Array.from({ length: n }, (_, i) => i), R);
@@ -262,7 +261,6 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       if (b < bound - Math.max(opt.stallTolerance, 1e-12 * Math.abs(bound))) {
         if (bound - b > opt.stallTolerance * Math.max(1, Math.abs(b))) lastBoundImprove = iterations;
         bound = b;
-        bestBoundAt = iterations;
         record();
       } else if (b < bound) bound = b;
       if (lastBoundImprove === Infinity) lastBoundImprove = iterations;
@@ -338,7 +336,6 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     }
     stopReason = signal?.aborted ? 'aborted' : 'time';
   }
-  void bestBoundAt;
   // no sweep finished in time: fall back to the sum of each part's own maximum (always valid)
   if (bound === Infinity) {
     bound = E.constant;
