@@ -211,17 +211,24 @@ export class LocalSearch {
   /** Moves and swaps until no gain or the deadline passes. Returns the big-M score. */
   run(deadline: number, maxRounds = 100): number {
     this.deadline = deadline;
+    this.converged = false;
     const order = shuffle(Array.from({ length: this.E.n }, (_, i) => i), this.random);
     for (let r = 0; r < maxRounds; r++) {
       let g = this.icmPass(order);
       if (this.clock() > deadline) break;
       if (g <= EPS) {
         g += this.swapPass(order);
-        if (g <= EPS || this.clock() > deadline) break;
+        if (g <= EPS) {
+          this.converged = !(this.clock() > deadline);
+          break;
+        }
+        if (this.clock() > deadline) break;
       }
     }
     return engineScore(this.E, this.x);
   }
+  /** Whether the last run reached a local optimum (no improving move or swap) before its deadline. */
+  converged = false;
 }
 
 /** Improve x in place with moves and swaps; returns the big-M score. */

@@ -212,6 +212,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   const orderF = Array.from(E.ops.keys());
   const orderB = [...orderF].reverse();
 
+  let incumbentConverged = true;
   // initial incumbents, each improved locally: the caller's start if given, each variable's best
   // value by its unary score (good when the unaries dominate), and a "safe" start where every
   // variable takes its best keyless value when it has one (a seat left open collides with
@@ -225,7 +226,7 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
       const ls = new LocalSearch(E, start, R);
       ls.clock = now;
       const s = opt.localSearch ? ls.run(Math.min(deadline, now() + budget)) : engineScore(E, ls.x);
-      offer(ls.x, s);
+      if (offer(ls.x, s)) incumbentConverged = ls.converged || !opt.localSearch;
     }
   }
   progress();
@@ -268,7 +269,9 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
     // decode every few sweeps while decoding has used under 40 % of the time, and on the last sweep
     const sinceStart = elapsed();
     const stalledDual = iterations - lastBoundImprove >= opt.stallSweeps;
-    if ((cut || stalledDual || (iterations % opt.decodeEvery === 0 && decodeMs <= 0.4 * sinceStart) || iterations === opt.maxIterations) && now() < deadline) {
+    // (slow sweeps: decode after each one, so large models still get their share of local search)
+    const due = (iterations % opt.decodeEvery === 0 || sweepMs > 100) && decodeMs <= 0.4 * sinceStart;
+    if ((cut || stalledDual || due || iterations === opt.maxIterations) && now() < deadline) {
       const td = now();
       const target = decodeBeliefs(st);
       let x: Int32Array, s: number;
@@ -276,17 +279,19 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
         x = target;
         s = engineScore(E, x);
       } else {
-        // alternate: the decoded beliefs repaired from scratch, or the incumbent moved toward them
-        const fromIncumbent = bestX !== null && decodes % 2 === 1;
+        // alternate: the incumbent moved toward the decoded beliefs (first), or the beliefs repaired from scratch
+        // an incumbent whose local search was cut short is first improved further as it is
+        const fromIncumbent = bestX !== null && (decodes % 2 === 0 || !incumbentConverged);
         const ls = new LocalSearch(E, fromIncumbent ? bestX! : target, R);
         ls.clock = now;
         const until = Math.min(deadline, now() + Math.max(20, Math.min(sweepMs * 3 + 50, (deadline - now()) * 0.25)));
-        if (fromIncumbent) {
+        if (fromIncumbent && incumbentConverged) {
           ls.deadline = until;
           ls.guided(target, shuffleOrder(E.n));
         }
         s = ls.run(until);
         x = ls.x;
+        if (fromIncumbent || s > bestBig) incumbentConverged = ls.converged;
       }
       decodes++;
       offer(x, s);
