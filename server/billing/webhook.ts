@@ -26,7 +26,7 @@ export function webhookHandler(deps: { stripe: Stripe | null; webhookSecret: str
     try {
       event = deps.stripe.webhooks.constructEvent(req.body, signature, deps.webhookSecret);
     } catch (err) {
-      throw new HttpError(400, 'bad_signature', `The webhook signature does not verify: ${err instanceof Error ? err.message : String(err)}`, [{ path: 'headers.stripe-signature', message: 'does not verify' }]);
+      throw new HttpError(400, 'bad_signature', `The webhook signature does not verify: ${(err instanceof Error ? err.message : String(err)).split('\n')[0].trim()}`, [{ path: 'headers.stripe-signature', message: 'does not verify' }]);
     }
     const result = await handleEvent(event);
     res.json({ received: true, ...result });
