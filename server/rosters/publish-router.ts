@@ -4,6 +4,7 @@ import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { publishBody, reopenBody, rosterExportQuery, rosterIdParams } from '../../shared/api/rosters';
 import { exportCsv, exportIcs, publishRoster, reopenRoster } from './publish';
+import { enforcePlanLimit } from '../billing/limits';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 const rid = (req: { params: Record<string, unknown> }) => Number(req.params.rosterId);
@@ -14,7 +15,8 @@ export function publishRouter(deps: { env: Env; mailer: Mailer }) {
   r.post('/:rosterId/publish', COORDINATOR_UP, validate({ params: rosterIdParams, body: publishBody }), async (req, res) => {
     res.json(await publishRoster(ws(req), rid(req), req.body, { mailer: deps.mailer, publicUrl: deps.env.publicUrl }));
   });
-  r.post('/:rosterId/reopen', COORDINATOR_UP, validate({ params: rosterIdParams, body: reopenBody }), async (req, res) => {
+  // A reopened roster is in progress again, so it counts against the plan's limit like a new one.
+  r.post('/:rosterId/reopen', COORDINATOR_UP, validate({ params: rosterIdParams, body: reopenBody }), enforcePlanLimit('activeRosters'), async (req, res) => {
     res.json(await reopenRoster(ws(req), rid(req), req.body.version));
   });
   r.get('/:rosterId/roster.csv', COORDINATOR_UP, validate({ params: rosterIdParams, query: rosterExportQuery }), async (req, res) => {

@@ -6,6 +6,7 @@ import { seatAlternatives } from './alternatives';
 import { saveManualRun } from './manual';
 import { concessionsOf, priceConcession } from './price';
 import { findRun } from './run-view';
+import { requireRunsAllowed } from '../billing/limits';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -16,7 +17,8 @@ export function runWorkflowRouters() {
     const run = await findRun(ws(req), Number(req.params.id));
     res.json({ items: concessionsOf(run.result).map((c, index) => ({ index, ...c })) });
   });
-  runs.post('/:id/concession-price', COORDINATOR_UP, validate({ params: runIdParams, body: priceConcessionBody }), async (req, res) => {
+  // Pricing a concession solves the roster again, so it waits like a new run while a payment is overdue.
+  runs.post('/:id/concession-price', COORDINATOR_UP, validate({ params: runIdParams, body: priceConcessionBody }), requireRunsAllowed, async (req, res) => {
     res.json(await priceConcession(ws(req), Number(req.params.id), req.body.index, req.body));
   });
   runs.get('/:id/seats/:seatId/alternatives', COORDINATOR_UP, validate({ params: seatAlternativesParams }), async (req, res) => {

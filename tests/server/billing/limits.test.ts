@@ -70,6 +70,12 @@ describe('plan limits, enforced by the API', () => {
     // Published rosters do not count (as if the publish route had run).
     await Roster.update({ status: 'published' }, { where: { id: first.body.id } });
     expect((await coordinator.post('/api/rosters').send(roster('June'))).status).toBe(201);
+    // Reopening the published one would make two in progress: refused the same way.
+    const published = await Roster.findByPk(first.body.id);
+    const reopen = await coordinator.post(`/api/rosters/${first.body.id}/reopen`).send({ version: published!.version });
+    expect(reopen.status).toBe(402);
+    expect(reopen.body.error.limit).toMatchObject({ name: 'activeRosters', max: 1, current: 1 });
+    expect((await Roster.findByPk(first.body.id))?.status).toBe('published');
   });
 
   it('the team plan has no such limits; a cancelled subscription brings them back', async () => {
@@ -98,6 +104,9 @@ describe('plan limits, enforced by the API', () => {
     expect(blocked.status).toBe(402);
     expect(blocked.body.error.code).toBe('payment_overdue');
     expect(blocked.body.error.message).toMatch(/new runs are paused.*stay readable/);
+    // Pricing a concession re-solves, so it waits too (before even looking the run up).
+    const price = await coordinator.post('/api/runs/4000000001/concession-price').send({ index: 0 });
+    expect(price.status).toBe(402);
     await BillingAccount.update({ status: 'active' }, { where: { workspaceId: ws.id } });
     expect((await coordinator.post(`/api/rosters/${r.id}/runs`).send({ timeLimitSeconds: 0.5 })).status).toBe(202);
   });
