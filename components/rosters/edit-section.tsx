@@ -136,7 +136,16 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
         <View style={styles.scoreRow}>
           <Button
             label="Save this roster"
-            onPress={() => save.mutate({ rosterId: roster.id, assignment: draft.assignment, version: draft.version, basedOnRunId: run.id }, { onSuccess: (r) => { drafts.delete(roster.id); onSaved(r.runId); } })}
+            onPress={() =>
+              // mutateAsync, not mutate's callbacks: the save refreshes the run list, which can swap this editor out before they would run.
+              save
+                .mutateAsync({ rosterId: roster.id, assignment: draft.assignment, version: draft.version, basedOnRunId: run.id })
+                .then((r) => {
+                  drafts.delete(roster.id);
+                  onSaved(r.runId);
+                })
+                .catch(() => {})
+            }
             busy={save.isPending}
             disabled={changed === 0 || (score.data !== undefined && !score.data.feasible)}
             testID="edit-save"

@@ -165,4 +165,52 @@ describe.each([
     expect(problems).toEqual([]);
     await close();
   });
+
+  it('edits by hand with a live score, and a stale save says so and keeps the edits', { timeout: 300_000 }, async () => {
+    // The refused save is an expected 409; anything else still fails the test.
+    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 409: POST .*\/manual-runs/, /console: Failed to load resource: the server responded with a status of 409/]);
+    const shot = (name: string) => screenshot(page, `coordinator-roster-${label}-${name}`);
+    await signIn(page);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
+    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
+    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    const rosterId = page.url().match(/rosters\/(\d+)/)![1];
+    if (await page.getByText('Published and frozen').isVisible()) {
+      await page.getByTestId('section-publish').click();
+      await page.getByTestId('publish-reopen').click();
+      await page.getByTestId('publish-go').waitFor();
+    }
+    await page.getByTestId('section-edit').click();
+    await page.getByTestId('edit-panel').waitFor();
+    const score = page.getByTestId('edit-score');
+    await score.getByText(/points/).first().waitFor();
+    const before = await score.textContent();
+
+    // Leave the first filled seat of the first day open: the independent scorer re-scores at once.
+    // (Not Hattie Lowther's seat: the first test pinned her, and leaving a pinned seat open breaks the pin.)
+    const seat = page.locator('[data-testid^="edit-seat-"]').filter({ hasNotText: /^open/ }).filter({ hasNotText: 'Hattie Lowther' }).first();
+    await seat.click();
+    await page.getByTestId('edit-people').getByRole('button', { name: 'Leave open' }).click();
+    await expect.poll(async () => score.textContent(), { timeout: 30_000 }).not.toBe(before);
+    expect(await score.textContent()).toMatch(/1 seat changed/);
+    await shot('12-edit');
+
+    // Someone else changes the roster meanwhile (the rules saved again bump its version).
+    const rules = await (await page.request.get(`/api/rosters/${rosterId}/rules`)).json();
+    const put = await page.request.put(`/api/rosters/${rosterId}/rules`, { data: rules, headers: { 'x-rotaloom-csrf': '1' } });
+    expect(put.status()).toBe(200);
+
+    await page.getByTestId('edit-save').click();
+    await page.getByText(/Someone changed this roster .* Your edits are still on your screen/).waitFor();
+    expect(await score.textContent()).toMatch(/1 seat changed/); // nothing lost
+    await shot('13-edit-conflict');
+    await page.getByTestId('edit-rebase').click();
+    await page.getByTestId('edit-rebase').waitFor({ state: 'detached' }); // the latest version is loaded
+    expect(await score.textContent()).toMatch(/1 seat changed/);
+    await page.getByTestId('edit-save').click();
+    await page.getByTestId('result-summary').getByText(/hand-edited/).waitFor({ timeout: 30_000 });
+    await shot('14-edit-saved');
+    expect(problems).toEqual([]);
+    await close();
+  });
 });
