@@ -6,15 +6,15 @@ import { PLANS, planForStatus, monthlyPrice } from '../../../shared/billing/plan
 
 describe('payments configuration', () => {
   it('points the SDK at the fake when host, port and protocol are set, and at the real service otherwise', () => {
-    const fake = readEnv({ ROTALOOM_STRIPE_SECRET_KEY: 'sk_test_x', ROTALOOM_STRIPE_WEBHOOK_SECRET: 'whsec_x', ROTALOOM_STRIPE_HOST: '127.0.0.1', ROTALOOM_STRIPE_PORT: '4242', ROTALOOM_STRIPE_PROTOCOL: 'http' });
+    const fake = readEnv({ NODE_ENV: 'test', ROTALOOM_STRIPE_SECRET_KEY: 'sk_test_x', ROTALOOM_STRIPE_WEBHOOK_SECRET: 'whsec_x', ROTALOOM_STRIPE_HOST: '127.0.0.1', ROTALOOM_STRIPE_PORT: '4242', ROTALOOM_STRIPE_PROTOCOL: 'http' });
     const toFake = createStripe(fake.billing!);
     expect([toFake.getApiField('host'), toFake.getApiField('port'), toFake.getApiField('protocol')]).toEqual(['127.0.0.1', 4242, 'http']);
     // Real keys and no host: the SDK's own defaults (api.stripe.com over https, per the stripe package).
-    const real = readEnv({ ROTALOOM_STRIPE_SECRET_KEY: 'sk_live_x', ROTALOOM_STRIPE_WEBHOOK_SECRET: 'whsec_x' });
+    const real = readEnv({ NODE_ENV: 'test', ROTALOOM_STRIPE_SECRET_KEY: 'sk_live_x', ROTALOOM_STRIPE_WEBHOOK_SECRET: 'whsec_x' });
     const toReal = createStripe(real.billing!);
     expect([toReal.getApiField('host'), toReal.getApiField('protocol')]).toEqual(['api.stripe.com', 'https']);
     // No keys: billing is off (the API says so; limits still hold).
-    expect(readEnv({}).billing).toBeNull();
+    expect(readEnv({ NODE_ENV: 'test' }).billing).toBeNull();
   });
 
   it('real credentials in the environment win over the fake', () => {
