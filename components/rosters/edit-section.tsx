@@ -75,7 +75,7 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
     <View style={{ gap: space.lg }}>
       <Panel title="Edit by hand" lead="Tap a seat, then a person to move them there, or tap a second seat to swap the two. The score and rule checks update as you go." testID="edit-panel">
         <View style={styles.scoreRow} testID="edit-score" aria-live="polite">
-          <Pill tone={score.data ? (score.data.feasible ? 'good' : 'bad') : 'plain'}>{score.data ? (score.data.feasible ? `${points(score.data.total)} points` : 'breaks a hard rule') : 'scoring…'}</Pill>
+          <Pill tone={score.data && !score.isPlaceholderData ? (score.data.feasible ? 'good' : 'bad') : 'plain'}>{score.data && !score.isPlaceholderData ? (score.data.feasible ? `${points(score.data.total)} points` : 'breaks a hard rule') : 'scoring…'}</Pill>
           <Body muted>{`Solver's roster: ${points(run.score)} points · ${changed} seat${changed === 1 ? '' : 's'} changed`}</Body>
         </View>
         {score.error ? <Notice>{score.error.message}</Notice> : null}

@@ -193,6 +193,8 @@ describe.each([
     await page.getByTestId('edit-people').getByRole('button', { name: 'Leave open' }).click();
     await expect.poll(async () => score.textContent(), { timeout: 30_000 }).not.toBe(before);
     expect(await score.textContent()).toMatch(/1 seat changed/);
+    // The live score (first figure) now differs from the solver's (second): a filled seat went open.
+    await expect.poll(async () => { const t = (await score.textContent())!; const [live, solver] = [...t.matchAll(/(−?[\d,.]+) points/g)].map((m) => m[1]); return Boolean(live) && live !== solver; }, { timeout: 30_000 }).toBe(true);
     await shot('12-edit');
 
     // Someone else changes the roster meanwhile (the rules saved again bump its version).
