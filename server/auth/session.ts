@@ -40,6 +40,17 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
       userId: data.passport?.user ?? null,
     }),
   });
+  // Rolling sessions would otherwise write the sessions table on every read; once a minute per
+  // session is plenty to keep a two-week expiry moving.
+  const touch = store.touch.bind(store);
+  const lastTouch = new Map<string, number>();
+  store.touch = (sid: string, data: session.SessionData, callback?: (err?: unknown) => void) => {
+    const now = Date.now();
+    if (now - (lastTouch.get(sid) ?? 0) < 60_000) return callback?.();
+    if (lastTouch.size > 50_000) lastTouch.clear();
+    lastTouch.set(sid, now);
+    touch(sid, data, callback);
+  };
   const middleware = session({
     name: SESSION_COOKIE,
     secret: env.sessionSecret,

@@ -1,6 +1,7 @@
 import { Person, User, Workspace } from '../db/models';
 import { HttpError } from '../http/errors';
 import type { Mailer, OutgoingMail } from '../mail/mailer';
+import { notifyPublished } from '../staff/notices';
 import { localDateTimeToInstant } from '../../shared/roster/time';
 import { formatDay } from '../../shared/roster/derive';
 import { AssignmentRow, Roster, RunRow, SeatRow, ShiftRow } from './models';
@@ -119,6 +120,21 @@ export async function publishRoster(workspaceId: number, rosterId: number, body:
   );
   if (count === 0) {
     throw new HttpError(409, 'conflict', 'Someone changed this roster after you last loaded it. Reload, check the roster, then publish again.', [{ path: 'body.version', message: `you saw version ${body.version}; the current one is ${roster.version}` }]);
+  }
+
+  // A re-publish (after a reopen) tells only the people whose shifts changed, and what changed.
+  if (roster.publishedRunId && roster.publishedRunId !== run.id) {
+    const report = await notifyPublished(workspaceId, rosterId, roster.publishedRunId, deps);
+    const names = new Map(people.map((p) => [p.id, p.name]));
+    return {
+      roster: toRosterDto(await findRoster(workspaceId, rosterId)),
+      mail: {
+        sent: report.sent.map((m) => ({ ...m, name: names.get(m.personId) ?? '' })),
+        noAddress: report.noAddress,
+        failed: report.failed.map((m) => ({ ...m, name: names.get(m.personId) ?? '' })),
+        unchanged: report.unchanged,
+      },
+    };
   }
 
   const workspace = await Workspace.findByPk(workspaceId);

@@ -311,6 +311,21 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     expect(reopened.body.status).toBe('solved');
     expect((await coordinator.post(`/api/rosters/${rosterId}/reopen`).send({ version: reopened.body.version })).status).toBe(409);
 
+    // Re-publishing after a reopen tells only the people whose shifts changed, and what changed.
+    const published = (await coordinator.get(`/api/runs/${runId}`)).body.assignments as Array<{ seatId: number; personId: number | null }>;
+    const theirs = published.find((x) => x.personId === people[0].id)!;
+    const edited = Object.fromEntries(published.map((x) => [String(x.seatId), x.seatId === theirs.seatId ? null : x.personId]));
+    const manual = await coordinator.post(`/api/rosters/${rosterId}/manual-runs`).send({ assignment: edited, version: reopened.body.version, basedOnRunId: runId });
+    expect(manual.status).toBe(201);
+    const current = (await coordinator.get(`/api/rosters/${rosterId}`)).body;
+    const before = mailer.outbox.length;
+    const again = await coordinator.post(`/api/rosters/${rosterId}/publish`).send({ runId: manual.body.runId, version: current.version });
+    expect(again.status).toBe(200);
+    expect(again.body.mail.sent.map((m: { to: string }) => m.to)).toEqual(['aurelie@example.test']);
+    const notice = mailer.outbox.slice(before);
+    expect(notice).toHaveLength(1);
+    expect(notice[0].text).toMatch(/no longer/i);
+
     const fresh = await coordinator.post('/api/rosters').send({ name: 'Empty', periodStart: '2027-08-02', periodEnd: '2027-08-08', timeZone: 'Europe/London' });
     expect(fresh.status, JSON.stringify(fresh.body)).toBe(201);
     const res = await coordinator.get(`/api/rosters/${fresh.body.id}/roster.ics`);
