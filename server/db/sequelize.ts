@@ -7,7 +7,7 @@ export function createSequelize(db: Env['db'], options: { logging?: boolean } = 
     port: db.port,
     dialect: 'mariadb',
     logging: options.logging ? (sql) => console.log(sql) : false,
-    pool: { max: 10, min: 0, idle: 10_000 },
+    pool: { max: 25, min: 0, idle: 10_000 },
     // Dates are stored in UTC; rosters carry their own IANA time zone.
     timezone: '+00:00',
     dialectOptions: { connectTimeout: 5_000 },
