@@ -34,3 +34,17 @@ export const fontFiles = {
 
 /** At this width and above the navigation moves to the side (DESIGN.md, Client). */
 export const WIDE_BREAKPOINT = 1024;
+
+/** react-native-calendars theme, shared by every month view so they read alike. */
+export const calendarTheme = {
+  calendarBackground: colors.card,
+  todayTextColor: colors.thread,
+  dayTextColor: colors.ink,
+  textDisabledColor: colors.line,
+  monthTextColor: colors.ink,
+  arrowColor: colors.loom,
+  selectedDayBackgroundColor: colors.loom,
+  textDayFontFamily: fonts.body,
+  textMonthFontFamily: fonts.heading,
+  textDayHeaderFontFamily: fonts.bodyBold,
+};

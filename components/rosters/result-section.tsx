@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Calendar } from 'react-native-calendars';
-import { colors, fonts, radius, space } from '@/constants/theme';
+import { calendarTheme, colors, radius, space } from '@/constants/theme';
 import { TERM_LABELS } from '@/shared/api/rosters';
 import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import { useRun } from '@/hooks/api/get-run';
@@ -71,18 +71,7 @@ function ResultBody({ roster, run }: { roster: RosterDto; run: RunDetail }) {
                 setSeat(null);
               }}
               markedDates={markDays(view.byDay, view.seats, day)}
-              theme={{
-                calendarBackground: colors.card,
-                todayTextColor: colors.thread,
-                dayTextColor: colors.ink,
-                textDisabledColor: colors.line,
-                monthTextColor: colors.ink,
-                arrowColor: colors.loom,
-                selectedDayBackgroundColor: colors.loom,
-                textDayFontFamily: fonts.body,
-                textMonthFontFamily: fonts.heading,
-                textDayHeaderFontFamily: fonts.bodyBold,
-              }}
+              theme={calendarTheme}
               testID="result-calendar"
             />
           </Panel>

@@ -2,7 +2,7 @@ import { useMemo, useState } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { Calendar } from 'react-native-calendars';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
-import { colors, fonts, radius, space } from '@/constants/theme';
+import { calendarTheme, colors, radius, space } from '@/constants/theme';
 import { myShiftsQueryOptions } from '@/hooks/api/get-my-shifts';
 import { useIsWide } from '@/hooks/use-is-wide';
 import { useSession } from '@/hooks/api/get-session';
@@ -100,18 +100,7 @@ export function MyShiftsScreen() {
                 setWeek(d.dateString);
               }}
               enableSwipeMonths
-              theme={{
-                calendarBackground: colors.card,
-                todayTextColor: colors.thread,
-                dayTextColor: colors.ink,
-                textDisabledColor: colors.line,
-                monthTextColor: colors.ink,
-                arrowColor: colors.loom,
-                selectedDayBackgroundColor: colors.loom,
-                textDayFontFamily: fonts.body,
-                textMonthFontFamily: fonts.heading,
-                textDayHeaderFontFamily: fonts.bodyBold,
-              }}
+              theme={calendarTheme}
             />
           </View>
           {selected ? (

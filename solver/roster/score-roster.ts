@@ -18,7 +18,7 @@ import {
   shiftFacts,
   type ShiftFacts,
 } from '../../shared/roster/derive';
-import type { Roster, RosterAssignment, RuleName } from '../../shared/roster/schema';
+import { RULE_NAMES, type Roster, type RosterAssignment, type RuleName } from '../../shared/roster/schema';
 import { addLocalDays } from '../../shared/roster/time';
 
 /** A score term: each rule, plus the parts that are not rules. */
@@ -35,25 +35,7 @@ export type TermName =
   /** Always hard: the filled roster names a seat or person the roster does not have. */
   | 'unknown';
 
-export const TERM_NAMES: readonly TermName[] = [
-  'coverage',
-  'minRest',
-  'weeklyRest',
-  'maxHoursPer7Days',
-  'nightShiftLength',
-  'maxConsecutiveDays',
-  'maxNightsInRow',
-  'contractedHours',
-  'fairNights',
-  'fairWeekends',
-  'skillMix',
-  'wishes',
-  'pairings',
-  'doubleBooking',
-  'skills',
-  'pins',
-  'unknown',
-];
+export const TERM_NAMES: readonly TermName[] = [...RULE_NAMES, 'wishes', 'pairings', 'doubleBooking', 'skills', 'pins', 'unknown'];
 
 export type RosterViolation = {
   term: TermName;
