@@ -1,21 +1,9 @@
 /** Shapes of the roster and run API answers (server/rosters, server/runs), as the screens use them. */
 import type { RuleSet } from '@/shared/roster/schema';
+import type { RosterDto, ShiftDto } from '@/shared/api/rosters';
 
-export type { RuleSet };
+export type { RuleSet, RosterDto, ShiftDto };
 
-export interface RosterDto {
-  id: number;
-  name: string;
-  periodStart: string;
-  periodEnd: string;
-  timeZone: string;
-  status: 'draft' | 'solved' | 'published';
-  wishDeadline: string | null;
-  maxCannotDays: number | null;
-  publishedAt: string | null;
-  publishedRunId: number | null;
-  version: number;
-}
 
 export interface PatternDto {
   id: number;
@@ -28,16 +16,6 @@ export interface PatternDto {
   version: number;
 }
 
-export interface ShiftDto {
-  id: number;
-  patternId: number | null;
-  label: string;
-  startsLocal: string;
-  endsLocal: string;
-  night: boolean | null;
-  seats: Array<{ id: number; skillId: number | null; position: number }>;
-  version: number;
-}
 
 export interface PreviewShift {
   label: string;

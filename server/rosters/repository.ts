@@ -5,21 +5,11 @@ import { updateVersioned } from '../http/versioned';
 import { generateShifts } from '../../shared/roster/patterns';
 import { ruleSetSchema, type RuleSet, type ShiftPattern } from '../../shared/roster/schema';
 import type { Page } from '../../shared/api/paging';
+import type { RosterDto, ShiftDto } from '../../shared/api/rosters';
+
+export type { RosterDto, ShiftDto };
 import { PairingRow, PinRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
 
-export interface RosterDto {
-  id: number;
-  name: string;
-  periodStart: string;
-  periodEnd: string;
-  timeZone: string;
-  status: string;
-  wishDeadline: string | null;
-  maxCannotDays: number | null;
-  publishedAt: string | null;
-  publishedRunId: number | null;
-  version: number;
-}
 
 export const toRosterDto = (r: Roster): RosterDto => ({
   id: r.id,
@@ -104,16 +94,6 @@ export async function putRules(workspaceId: number, rosterId: number, rules: Rul
 
 // ---- shift patterns and shifts ----
 
-export interface ShiftDto {
-  id: number;
-  patternId: number | null;
-  label: string;
-  startsLocal: string;
-  endsLocal: string;
-  night: boolean | null;
-  seats: Array<{ id: number; skillId: number | null; position: number }>;
-  version: number;
-}
 
 export async function listShifts(workspaceId: number, rosterId: number): Promise<ShiftDto[]> {
   await findRoster(workspaceId, rosterId);

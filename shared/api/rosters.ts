@@ -150,3 +150,30 @@ export const TERM_LABELS: Record<string, string> = {
   pins: 'Pins',
   unknown: 'Unknown seat or person',
 };
+
+/** A roster as the API answers it (server/rosters/repository.ts toRosterDto). */
+export interface RosterDto {
+  id: number;
+  name: string;
+  periodStart: string;
+  periodEnd: string;
+  timeZone: string;
+  status: 'draft' | 'solved' | 'published';
+  wishDeadline: string | null;
+  maxCannotDays: number | null;
+  publishedAt: string | null;
+  publishedRunId: number | null;
+  version: number;
+}
+
+/** A dated shift with its seats, as the API answers it. */
+export interface ShiftDto {
+  id: number;
+  patternId: number | null;
+  label: string;
+  startsLocal: string;
+  endsLocal: string;
+  night: boolean | null;
+  seats: Array<{ id: number; skillId: number | null; position: number }>;
+  version: number;
+}
