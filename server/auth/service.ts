@@ -1,5 +1,5 @@
-import { Op, type Transaction } from 'sequelize';
-import { Membership, Person, User, Workspace, type Role } from '../db/models';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { Membership, User, Workspace, type Role } from '../db/models';
 import { HttpError } from '../http/errors';
 import { checkPassword, hashPassword } from './passwords';
 import { AccountToken, SignInAttempt, type TokenPurpose } from './models';
@@ -78,12 +78,15 @@ export async function sessionView(userId: number, workspaceId: number | null, pe
 
 /** The membership the session should use: the one it names if still valid, else the user's first. */
 export async function resolveMembership(userId: number, wanted: number | undefined): Promise<{ workspaceId: number; role: Role; personId: number | null } | null> {
-  const membership =
-    (wanted ? await Membership.findOne({ where: { userId, workspaceId: wanted } }) : null) ??
-    (await Membership.findOne({ where: { userId }, order: [['id', 'ASC']] }));
-  if (!membership) return null;
-  const person = await Person.findOne({ where: { workspaceId: membership.workspaceId, userId }, attributes: ['id'] });
-  return { workspaceId: membership.workspaceId, role: membership.role, personId: person?.id ?? null };
+  // Runs on every signed-in request, so one query: the wanted workspace if the user is a member
+  // of it, else their first membership, with the person linked to them there.
+  const rows = await Membership.sequelize!.query<{ workspace_id: number; role: Role; person_id: number | null }>(
+    `SELECT m.workspace_id, m.role, (SELECT p.id FROM people p WHERE p.workspace_id = m.workspace_id AND p.user_id = m.user_id ORDER BY p.id LIMIT 1) AS person_id
+       FROM memberships m WHERE m.user_id = ? ORDER BY (m.workspace_id = ?) DESC, m.id ASC LIMIT 1`,
+    { replacements: [userId, wanted ?? 0], type: QueryTypes.SELECT },
+  );
+  const row = rows[0];
+  return row ? { workspaceId: row.workspace_id, role: row.role, personId: row.person_id ?? null } : null;
 }
 
 // ---------------------------------------------------------------- sign-up and Google
