@@ -1,18 +1,17 @@
 import { Person } from '../db/models';
-import { PairingRequestRow } from '../staff/models';
+import { PairingRow } from '../rosters/models';
 import { toPairingDto } from '../rosters/repository';
 import type { PairingDto, PairingStatus } from '../../shared/api/pairings';
 
 const key = (s: string) => s.toLocaleLowerCase('en');
 
 /**
- * Reads through the staff side's model of the table (server/staff/models.ts), which also knows who
- * asked for a pairing. The workspace's pairings with both people's names, optionally only one status and only pairs
- * where either name contains `q`. Pairings are few per workspace, so the names are joined here.
+ * The workspace's pairings with both people's names (and who asked, for staff requests), optionally
+ * only one status and only pairs where either name contains `q`. Pairings are few per workspace, so the names are joined here.
  */
 export async function listPairings(workspaceId: number, filter: { status?: PairingStatus; q?: string } = {}): Promise<PairingDto[]> {
   const [rows, people] = await Promise.all([
-    PairingRequestRow.findAll({ where: { workspaceId, ...(filter.status ? { status: filter.status } : {}) }, order: [['id', 'ASC']] }),
+    PairingRow.findAll({ where: { workspaceId, ...(filter.status ? { status: filter.status } : {}) }, order: [['id', 'ASC']] }),
     Person.findAll({ where: { workspaceId }, attributes: ['id', 'name'] }),
   ]);
   const names = new Map(people.map((p) => [p.id, p.name]));

@@ -88,6 +88,8 @@ export class PairingRow extends Model<Attrs<PairingRow>, Creation<PairingRow>> {
   declare neverTogether: CreationOptional<boolean>;
   declare status: CreationOptional<'approved' | 'requested' | 'declined'>;
   declare reason: CreationOptional<string | null>;
+  /** The staff member who asked for it (migration 0005); null when a coordinator made it. */
+  declare requestedByPersonId: CreationOptional<number | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -184,7 +186,7 @@ export function initRosterModels(sequelize: Sequelize): void {
     opts(sequelize, 'wishes'),
   );
   PairingRow.init(
-    { ...common, personAId: int, personBId: int, score: DataTypes.DOUBLE, neverTogether: { type: DataTypes.BOOLEAN, defaultValue: false }, status: { type: DataTypes.ENUM('approved', 'requested', 'declined'), defaultValue: 'approved' }, reason: DataTypes.STRING(500), version },
+    { ...common, personAId: int, personBId: int, score: DataTypes.DOUBLE, neverTogether: { type: DataTypes.BOOLEAN, defaultValue: false }, status: { type: DataTypes.ENUM('approved', 'requested', 'declined'), defaultValue: 'approved' }, reason: DataTypes.STRING(500), requestedByPersonId: int, version },
     opts(sequelize, 'pairings'),
   );
   PinRow.init({ ...common, rosterId: int, seatId: int, personId: int }, opts(sequelize, 'pins'));

@@ -2,7 +2,7 @@ import { Op } from 'sequelize';
 import { Person } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import type { MyPairingRequest } from '../../shared/api/staff';
-import { PairingRequestRow } from './models';
+import { PairingRow } from '../rosters/models';
 
 /**
  * A suggested score for the coordinator to confirm or change; requests never reach the solver
@@ -18,7 +18,7 @@ export async function colleagues(workspaceId: number, personId: number): Promise
 
 /** The staff member's own requests: colleague, direction and status. Never the score, never others' requests. */
 export async function myPairingRequests(workspaceId: number, personId: number): Promise<MyPairingRequest[]> {
-  const rows = await PairingRequestRow.findAll({ where: { workspaceId, requestedByPersonId: personId }, order: [['id', 'DESC']] });
+  const rows = await PairingRow.findAll({ where: { workspaceId, requestedByPersonId: personId }, order: [['id', 'DESC']] });
   const others = rows.map((r) => (r.personAId === personId ? r.personBId : r.personAId));
   const names = new Map((await Person.findAll({ where: { workspaceId, id: others }, attributes: ['id', 'name'] })).map((p) => [p.id, p.name]));
   return rows.map((r, i) => ({
@@ -35,7 +35,7 @@ export async function requestPairing(workspaceId: number, personId: number, body
   const colleague = await Person.findOne({ where: { workspaceId, id: body.colleagueId }, attributes: ['id', 'name'] });
   if (!colleague) throw new HttpError(422, 'unprocessable', 'There is no such colleague in this workspace', [{ path: 'body.colleagueId', message: 'unknown colleague' }]);
   const [a, b] = personId < colleague.id ? [personId, colleague.id] : [colleague.id, personId];
-  const existing = await PairingRequestRow.findOne({ where: { workspaceId, personAId: a, personBId: b } });
+  const existing = await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b } });
   if (existing) {
     // Whether a coordinator already recorded something about the two is theirs to share, not ours.
     const mine = existing.requestedByPersonId === personId;
@@ -48,7 +48,7 @@ export async function requestPairing(workspaceId: number, personId: number, body
       [{ path: 'body.colleagueId', message: mine ? 'already requested' : 'already on record' }],
     );
   }
-  const row = await PairingRequestRow.create({
+  const row = await PairingRow.create({
     workspaceId,
     personAId: a,
     personBId: b,
@@ -63,11 +63,11 @@ export async function requestPairing(workspaceId: number, personId: number, body
 
 /** Withdraws a request that no coordinator has decided yet. */
 export async function withdrawPairingRequest(workspaceId: number, personId: number, id: number): Promise<void> {
-  const row = await PairingRequestRow.findOne({ where: { id, workspaceId, requestedByPersonId: personId } });
+  const row = await PairingRow.findOne({ where: { id, workspaceId, requestedByPersonId: personId } });
   if (!row) throw notFound('Pairing request');
   if (row.status !== 'requested') {
     throw new HttpError(409, 'conflict', `A coordinator has already ${row.status} this request; talk to them to change it`, [{ path: 'params.id', message: `already ${row.status}` }]);
   }
-  const count = await PairingRequestRow.destroy({ where: { id, workspaceId, requestedByPersonId: personId, status: 'requested' } });
+  const count = await PairingRow.destroy({ where: { id, workspaceId, requestedByPersonId: personId, status: 'requested' } });
   if (count === 0) throw new HttpError(409, 'conflict', 'A coordinator decided this request a moment ago; reload to see it', [{ path: 'params.id', message: 'decided meanwhile' }]);
 }

@@ -6,7 +6,8 @@ import { readEnv } from '../../server/env';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels, Person, Workspace } from '../../server/db/models';
 import { Roster } from '../../server/rosters/models';
-import { CalendarFeedRow, PairingRequestRow } from '../../server/staff/models';
+import { CalendarFeedRow } from '../../server/staff/models';
+import { PairingRow } from '../../server/rosters/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
 import { publishDirectly, seatsOf } from '../server/staff/publish-helper';
 import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
@@ -65,7 +66,7 @@ describe('staff on their phones', () => {
     // A roster of its own (not the demo's January one other browser tests publish), open for wishes.
     await Roster.destroy({ where: { workspaceId, name: ROSTER } });
     // A run of this test stopped half-way may have left its request behind.
-    await PairingRequestRow.destroy({ where: { workspaceId, requestedByPersonId: hattie.id, status: 'requested' } });
+    await PairingRow.destroy({ where: { workspaceId, requestedByPersonId: hattie.id, status: 'requested' } });
     await CalendarFeedRow.destroy({ where: { workspaceId, personId: hattie.id } });
     const roster = await createRoster(workspaceId, {
       name: ROSTER,

@@ -3,7 +3,6 @@ import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp, makePerson, makeWorkspace, signedIn } from '../auth/helpers';
 import { PairingRow } from '../../../server/rosters/models';
-import { PairingRequestRow } from '../../../server/staff/models';
 import type { Workspace } from '../../../server/db/models';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
@@ -55,7 +54,7 @@ describe('pairings API for coordinators: table, search, inline edits and staff r
 
   it('shows staff requests with their reason, and approving one makes it reach the solver input', async () => {
     // A staff member's request as the staff side (issue 7) stores it: status requested, with a reason.
-    const request = await PairingRequestRow.create({ workspaceId: workspace.id, personAId: people['Ada Quill'], personBId: people['Corra Vane'], score: 3, status: 'requested', reason: 'Corra is showing me the medication round', requestedByPersonId: people['Ada Quill'] });
+    const request = await PairingRow.create({ workspaceId: workspace.id, personAId: people['Ada Quill'], personBId: people['Corra Vane'], score: 3, status: 'requested', reason: 'Corra is showing me the medication round', requestedByPersonId: people['Ada Quill'] });
     const declined = await PairingRow.create({ workspaceId: workspace.id, personAId: people['Brin Tallow'], personBId: people['Dell Moss'], score: -2, status: 'requested', reason: 'We disagree about breaks' });
     const requested = await coordinator.get('/api/pairings?status=requested');
     expect(requested.body.items).toEqual([

@@ -5,7 +5,7 @@ import { createTestDb, type TestDb } from '../helpers/test-db';
 import { agent, makeApp, makeUser, makeWorkspace, memoryMailer, PASSWORD, signedIn } from '../auth/helpers';
 import { Person, type Workspace } from '../../../server/db/models';
 import { Roster, WishRow } from '../../../server/rosters/models';
-import { PairingRequestRow } from '../../../server/staff/models';
+import { PairingRow } from '../../../server/rosters/models';
 import { notifyPublished } from '../../../server/staff/notices';
 import { makeApiRoster } from '../rosters/fixtures';
 import { publishDirectly, seatsOf } from './publish-helper';
@@ -179,7 +179,7 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
     expect(row).toMatchObject({ status: 'requested', reason: 'We trained together and cover each other well' });
     expect(row.score).toBeGreaterThan(0);
 
-    const before = await PairingRequestRow.count();
+    const before = await PairingRow.count();
     for (const [body, status, field] of [
       [{ colleagueId: colleague.id, together: false, reason: 'again' }, 409, 'body.colleagueId'],
       [{ colleagueId: me.id, together: true, reason: 'me' }, 422, 'body.colleagueId'],
@@ -191,7 +191,7 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
       expect(bad.status, JSON.stringify(body)).toBe(status);
       expect(bad.body.error.fields.map((f: { path: string }) => f.path)).toContain(field);
     }
-    expect(await PairingRequestRow.count()).toBe(before);
+    expect(await PairingRow.count()).toBe(before);
 
     // Apart, then withdrawn while still undecided.
     const apart = await staff.post('/api/me/pairings').send({ colleagueId: third.id, together: false, reason: 'We clash on handovers' });
@@ -199,7 +199,7 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
     expect(apart.body.together).toBe(false);
     expect((await staff.delete(`/api/me/pairings/${apart.body.id}`)).status).toBe(204);
     // A decided request stays; a coordinator's own pairing is not the staff member's to delete.
-    await PairingRequestRow.update({ status: 'approved' }, { where: { id: res.body.id } });
+    await PairingRow.update({ status: 'approved' }, { where: { id: res.body.id } });
     const decided = await staff.delete(`/api/me/pairings/${res.body.id}`);
     expect(decided.status).toBe(409);
     expect(decided.body.error.message).toMatch(/already approved/);
@@ -210,7 +210,7 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
     const e = (await Person.findOne({ where: { workspaceId: workspace.id, name: 'Person E' } }))!;
     const coordinatorPairing = await coordinator.post('/api/pairings').send({ personAId: me.id, personBId: d.id, score: -40, neverTogether: true, reason: 'kept apart after an incident' });
     expect(coordinatorPairing.status).toBe(201);
-    await PairingRequestRow.create({ workspaceId: workspace.id, personAId: colleague.id, personBId: e.id, score: 5, status: 'requested', reason: 'colleague asked privately', requestedByPersonId: colleague.id });
+    await PairingRow.create({ workspaceId: workspace.id, personAId: colleague.id, personBId: e.id, score: 5, status: 'requested', reason: 'colleague asked privately', requestedByPersonId: colleague.id });
 
     const mine = await staff.get('/api/me/pairings');
     expect(mine.status).toBe(200);
