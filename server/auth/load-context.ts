@@ -1,6 +1,14 @@
-import type { RequestHandler } from 'express';
-import { resolveMembership } from './service';
+import type { Request, RequestHandler } from 'express';
+import { resolveMembership, type ResolvedMembership } from './service';
 import './context';
+
+// Passport's deserializeUser reads the user and the membership in one query; the membership
+// waits here for loadAuthContext so the request does not ask the database twice.
+const preloaded = new WeakMap<Request, ResolvedMembership | null>();
+
+export function rememberMembership(req: Request, membership: ResolvedMembership | null): void {
+  preloaded.set(req, membership);
+}
 
 /**
  * Sets req.auth from the session: the signed-in user, the workspace the session names (only if
@@ -9,7 +17,8 @@ import './context';
  */
 export const loadAuthContext: RequestHandler = async (req, _res, next) => {
   if (!req.user) return next();
-  const membership = await resolveMembership(req.user.id, req.session.workspaceId);
+  const membership = preloaded.has(req) ? preloaded.get(req)! : await resolveMembership(req.user.id, req.session.workspaceId);
+  preloaded.delete(req);
   if (membership) {
     req.auth = { userId: req.user.id, ...membership };
     if (req.session.workspaceId !== membership.workspaceId) req.session.workspaceId = membership.workspaceId;

@@ -3,8 +3,8 @@ import { Strategy as LocalStrategy } from 'passport-local';
 import { Strategy as GoogleStrategy, type Profile, type VerifyCallback } from 'passport-google-oauth20';
 import type { Request } from 'express';
 import type { Env } from '../env';
-import { User } from '../db/models';
-import { verifyPassword, googleSignIn, type GoogleIdentity } from './service';
+import { verifyPassword, googleSignIn, loadSignedInUser, type GoogleIdentity } from './service';
+import { rememberMembership } from './load-context';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -66,10 +66,14 @@ export function createPassport(env: Env): Authenticator {
     );
   }
   passport.serializeUser((user, done) => done(null, user.id));
-  passport.deserializeUser((id: number, done) => {
-    User.findByPk(id).then(
-      // A deleted user simply becomes signed out.
-      (user) => done(null, user ? { id: user.id, email: user.email, displayName: user.displayName } : false),
+  passport.deserializeUser((req: Request, id: number, done: (err: unknown, user?: Express.User | false) => void) => {
+    loadSignedInUser(id, req.session.workspaceId).then(
+      (found) => {
+        // A deleted user simply becomes signed out.
+        if (!found) return done(null, false);
+        rememberMembership(req, found.membership);
+        done(null, found.user);
+      },
       (err) => done(err),
     );
   });

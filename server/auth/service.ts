@@ -76,17 +76,41 @@ export async function sessionView(userId: number, workspaceId: number | null, pe
   };
 }
 
-/** The membership the session should use: the one it names if still valid, else the user's first. */
-export async function resolveMembership(userId: number, wanted: number | undefined): Promise<{ workspaceId: number; role: Role; personId: number | null } | null> {
-  // Runs on every signed-in request, so one query: the wanted workspace if the user is a member
-  // of it, else their first membership, with the person linked to them there.
-  const rows = await Membership.sequelize!.query<{ workspace_id: number; role: Role; person_id: number | null }>(
-    `SELECT m.workspace_id, m.role, (SELECT p.id FROM people p WHERE p.workspace_id = m.workspace_id AND p.user_id = m.user_id ORDER BY p.id LIMIT 1) AS person_id
-       FROM memberships m WHERE m.user_id = ? ORDER BY (m.workspace_id = ?) DESC, m.id ASC LIMIT 1`,
+export type ResolvedMembership = { workspaceId: number; role: Role; personId: number | null };
+
+// The membership the session should use: the workspace it names if the user is still a member
+// of it, else their first membership, with the person linked to them there.
+const MEMBERSHIP_COLUMNS = `m.workspace_id, m.role,
+  (SELECT p.id FROM people p WHERE p.workspace_id = m.workspace_id AND p.user_id = m.user_id ORDER BY p.id LIMIT 1) AS person_id`;
+
+type MembershipRow = { workspace_id: number | null; role: Role | null; person_id: number | null };
+
+const toMembership = (row: MembershipRow | undefined): ResolvedMembership | null =>
+  row && row.workspace_id !== null && row.role !== null ? { workspaceId: row.workspace_id, role: row.role, personId: row.person_id ?? null } : null;
+
+/**
+ * The signed-in user and their membership in one query: this runs on every signed-in request
+ * (passport's deserializeUser), so it replaces a user lookup plus a membership lookup.
+ * Null when the user no longer exists.
+ */
+export async function loadSignedInUser(userId: number, wanted: number | undefined): Promise<{ user: Express.User; membership: ResolvedMembership | null } | null> {
+  const rows = await User.sequelize!.query<{ id: number; email: string; display_name: string } & MembershipRow>(
+    `SELECT u.id, u.email, u.display_name, ${MEMBERSHIP_COLUMNS}
+       FROM users u LEFT JOIN memberships m ON m.user_id = u.id
+      WHERE u.id = ? ORDER BY (m.workspace_id = ?) DESC, m.id ASC LIMIT 1`,
     { replacements: [userId, wanted ?? 0], type: QueryTypes.SELECT },
   );
   const row = rows[0];
-  return row ? { workspaceId: row.workspace_id, role: row.role, personId: row.person_id ?? null } : null;
+  return row ? { user: { id: row.id, email: row.email, displayName: row.display_name }, membership: toMembership(row) } : null;
+}
+
+/** The membership the session should use: the one it names if still valid, else the user's first. */
+export async function resolveMembership(userId: number, wanted: number | undefined): Promise<ResolvedMembership | null> {
+  const rows = await Membership.sequelize!.query<MembershipRow>(
+    `SELECT ${MEMBERSHIP_COLUMNS} FROM memberships m WHERE m.user_id = ? ORDER BY (m.workspace_id = ?) DESC, m.id ASC LIMIT 1`,
+    { replacements: [userId, wanted ?? 0], type: QueryTypes.SELECT },
+  );
+  return toMembership(rows[0]);
 }
 
 // ---------------------------------------------------------------- sign-up and Google

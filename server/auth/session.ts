@@ -1,7 +1,7 @@
 import session from 'express-session';
 import connectSessionSequelize from 'connect-session-sequelize';
 import type { RequestHandler } from 'express';
-import type { Sequelize } from 'sequelize';
+import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Env } from '../env';
 import { initAccountModels } from './models';
 
@@ -40,6 +40,16 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
       userId: data.passport?.user ?? null,
     }),
   });
+  // Read on every request: one plain SELECT instead of a model lookup (the store's own get), and
+  // an expired row counts as no session even before the periodic cleanup removes it.
+  store.get = (sid: string, callback: (err: unknown, session?: session.SessionData | null) => void) => {
+    sequelize
+      .query<{ data: string }>('SELECT data FROM sessions WHERE sid = ? AND expires > ?', { replacements: [sid, new Date()], type: QueryTypes.SELECT })
+      .then(
+        (rows) => callback(null, rows.length ? (JSON.parse(rows[0].data) as session.SessionData) : null),
+        (err) => callback(err),
+      );
+  };
   // Rolling sessions would otherwise write the sessions table on every read; once a minute per
   // session is plenty to keep a two-week expiry moving.
   const touch = store.touch.bind(store);

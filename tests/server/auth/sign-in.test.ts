@@ -41,6 +41,24 @@ describe('password sign-in, session and sign-out', () => {
     expect((await a.get('/api/auth/session')).body.user).toBeNull();
   });
 
+  it('treats a session row past its expiry as signed out, and a deleted account too', async () => {
+    // express-session trusts the store to say which sessions still exist; the row's `expires`
+    // is the server's record, so a stolen cookie of an expired session must not work.
+    const workspace = await makeWorkspace();
+    const user = await makeUser({ workspace, role: 'coordinator' });
+    const a = agent(app);
+    expect((await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
+    expect((await a.get('/api/people')).status).toBe(200);
+    await db.sequelize.query('UPDATE sessions SET expires = ? WHERE user_id = ?', { replacements: [new Date(Date.now() - 1000), user.id] });
+    expect((await a.get('/api/auth/session')).body.user).toBeNull();
+    expect((await a.get('/api/people')).status).toBe(401);
+
+    const b = agent(app);
+    expect((await b.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
+    await user.destroy();
+    expect((await b.get('/api/auth/session')).body.user).toBeNull();
+  });
+
   it('gives a new session id at each sign-in, so a planted session cookie is worthless', async () => {
     const user = await makeUser({ workspace: await makeWorkspace() });
     const a = agent(app);

@@ -1,0 +1,83 @@
+import type { Factor, Model } from '../../solver/model/types';
+import { score } from '../../solver/model/score';
+import { isForest, log10States, type Engine } from '../../solver/inference/engine';
+import { LocalSearch, rng } from '../../solver/inference/local-search';
+import { solveMapSync } from '../../solver/inference/solve';
+
+/**
+ * Max-marginals of one variable, with the roster each figure comes from (so the server can decode
+ * it and score it with the independent scorer). The same two regimes as solver/explain's
+ * `alternatives`, which returns only score changes against the optimum:
+ *
+ * - exact, when the model is tiny (≤ 10^5.3 joint states: enumeration) or a forest (two-pass
+ *   tree max-product): every value is forced by a hard unary factor and the model solved exactly;
+ * - otherwise each value is forced and the run's roster repaired around it by local search with
+ *   the variable fixed (an achievable score: a lower bound on the max-marginal), and the dual
+ *   bound of a max-product/MPLP state gives an upper bound bound − max b_i + b_i(v).
+ */
+export interface ForcedValue {
+  value: number;
+  /** Best model score found with the variable at this value; -Infinity when none keeps the hard rules (proven when exact). */
+  score: number;
+  /** Upper bound on the best score with the variable at this value (= score when exact); Infinity when unknown. */
+  bound: number;
+  how: 'exact' | 'repair';
+  /** The roster behind `score` (model values), also when it breaks a hard rule (to say which). */
+  assignment: Int32Array;
+}
+
+/** The same test solver/explain and solveMap use to choose enumeration or the tree pass. */
+export const exactlySolvable = (E: Engine): boolean => log10States(E) <= 5.3 || isForest(E);
+
+const pause = () => new Promise<void>((r) => setImmediate(r));
+
+function forceValue(model: Model, i: number, x: number): Factor {
+  const table = Array.from({ length: model.variables[i]!.cardinality }, (_, v) => (v === x ? 0 : -Infinity));
+  return { kind: 'unary', v: i, table, hard: true, id: `force:${i}`, label: 'forced alternative' };
+}
+
+export async function forcedValues(
+  model: Model,
+  E: Engine,
+  base: Int32Array,
+  i: number,
+  dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null,
+  options: { budgetMs: number; seed: number },
+): Promise<ForcedValue[]> {
+  const cur = base[i]!;
+  const values = Array.from({ length: model.variables[i]!.cardinality }, (_, x) => x).filter((x) => x !== cur);
+  const out: ForcedValue[] = [];
+  if (exactlySolvable(E)) {
+    for (const x of values) {
+      const r = solveMapSync({ ...model, factors: [...model.factors, forceValue(model, i, x)] }, { method: 'auto', seed: options.seed, timeLimitMs: 60_000 });
+      const assignment = Int32Array.from(r.assignment);
+      // optimal and infeasible means no roster with x keeps every hard rule
+      out.push({ value: x, score: r.score, bound: r.optimal ? r.score : Infinity, how: r.optimal ? 'exact' : 'repair', assignment });
+      await pause();
+    }
+    return out;
+  }
+  const b = dual?.beliefs?.[i];
+  const bmax = b ? Math.max(...b) : 0;
+  const upper = (x: number): number => {
+    if (!b || !dual || !Number.isFinite(dual.bound)) return Infinity;
+    const u = dual.bound - bmax + b[x]!;
+    // a big-M value: every roster with x breaks a hard factor of the relaxation as well
+    return u < -E.H / 2 ? -Infinity : u;
+  };
+  const repairMs = Math.max(8, Math.min(60, Math.floor(options.budgetMs / Math.max(1, values.length))));
+  const fixed = new Uint8Array(E.n);
+  fixed[i] = 1;
+  for (const x of values) {
+    const start = Int32Array.from(base);
+    start[i] = x;
+    const ls = new LocalSearch(E, start, rng(options.seed), fixed);
+    ls.run(Date.now() + repairMs);
+    const s = score(model, ls.x);
+    const u = upper(x);
+    // the repaired roster is achievable, so it also bounds the bound from below (rounding of the dual)
+    out.push({ value: x, score: s, bound: u === -Infinity && s === -Infinity ? -Infinity : Math.max(u, s), how: 'repair', assignment: Int32Array.from(ls.x) });
+    await pause();
+  }
+  return out;
+}
