@@ -1,17 +1,43 @@
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
 import { useSeatAlternatives } from '@/hooks/api/get-seat-alternatives';
 import { usePutPin } from '@/hooks/api/put-pin';
 import { useDeletePin } from '@/hooks/api/delete-pin';
-import type { RosterDto } from '@/hooks/api/roster-types';
+import type { RosterDto, SeatAlternative, SeatContestAnswer } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Loadable, Pill } from './parts';
+import { Pill } from './parts';
 import { points } from './format';
 
-/** One seat: who is on it, who else could be and at what score change, how contested it is; pin or unpin. */
+const signed = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : `${x > 0 ? '+' : ''}${points(x)}`);
+const share = (p: number) => (p >= 0.995 ? 'over 99 %' : p < 0.01 ? 'under 1 %' : `${Math.round(p * 100)} %`);
+
+/** The figures of one alternative in words: what was found, and at most what the bound allows. */
+export function alternativeWords(a: SeatAlternative): string {
+  const who = a.name ?? 'the seat left open';
+  if (!a.feasible) {
+    return a.impossible ? `No roster keeps every hard rule with ${who} here.` : `No roster keeping every hard rule was found with ${who} here${a.breaks[0] ? `: ${a.breaks[0]}` : '.'}`;
+  }
+  const moved = a.otherSeatsMoved ? ` ${a.otherSeatsMoved} other seat${a.otherSeatsMoved === 1 ? '' : 's'} change.` : ' No other seat changes.';
+  if (a.exact) return `Best roster with ${who} here: ${signed(a.scoreChange ?? 0)} points (exact).${moved}`;
+  const bound = a.scoreChangeAtMost === null ? '' : `; at most ${signed(a.scoreChangeAtMost)} (bound)`;
+  return `Best roster found with ${who} here: ${signed(a.scoreChange ?? 0)} points${bound}.${moved}`;
+}
+
+/** How much of the model's weight keeps the holder here, as a bar with the same words for screen readers. */
+function ContestMeter({ contest, holder }: { contest: SeatContestAnswer; holder: string | null }) {
+  const p = holder === null ? contest.holderProbability : contest.holderOnShiftProbability;
+  const label = `${share(p)} of good rosters ${holder === null ? 'leave this seat open' : `put ${holder} on this shift`}${contest.exact ? '' : ' (approximate)'}`;
+  return (
+    <View style={styles.meter} role="meter" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(p * 100)} aria-label={label} testID="seat-contest-meter">
+      <View style={[styles.meterFill, { width: `${Math.max(2, Math.round(p * 100))}%`, backgroundColor: p >= 0.9 ? colors.ok : p >= 0.5 ? colors.loom : colors.thread }]} />
+    </View>
+  );
+}
+
+/** One seat: who is on it, who else could be and at what score change (max-marginals), how contested it is; pin or unpin. */
 export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId: number; seatId: number }) {
   const details = useSeatAlternatives(runId, seatId);
   const pin = usePutPin();
@@ -19,43 +45,65 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
   const [all, setAll] = useState(false);
   const frozen = roster.status === 'published';
   const error = pin.error ?? unpin.error;
+  const d = details.data;
   return (
     <View style={styles.panel} testID="seat-panel" role="region" aria-label="Seat details">
-      <Loadable query={details} label="Seat details">
-        {(d) => (
-          <View style={{ gap: space.sm }}>
-            <Body bold>{`${d.current.name ?? 'Open'} · ${d.shift.words} · ${d.skill ?? 'any skill'}`}</Body>
-            <Body muted>{d.contested}</Body>
-            {d.pinned ? <Pill tone="good">{`Pinned to ${d.pinned.personId === null ? 'open' : (d.alternatives.find((a) => a.personId === d.pinned!.personId)?.name ?? d.current.name ?? 'this person')}`}</Pill> : null}
-            <View style={styles.actions}>
-              {d.pinned ? (
-                <Button kind="quiet" label="Unpin this seat" onPress={() => unpin.mutate({ rosterId: roster.id, seatId })} busy={unpin.isPending} disabled={frozen} testID="seat-unpin" />
-              ) : (
-                <Button label={`Pin ${d.current.name ?? 'open'} here`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: d.current.personId })} busy={pin.isPending} disabled={frozen} testID="seat-pin" />
-              )}
-            </View>
-            {pin.isSuccess || unpin.isSuccess ? <Notice kind="info">{pin.isSuccess ? 'Pinned. The next run keeps this seat as it is; solve again to use it.' : 'Unpinned. The next run may change this seat.'}</Notice> : null}
-            {error ? <Notice>{error.message}</Notice> : null}
-            <Body bold>Alternatives</Body>
-            <Body muted style={{ fontSize: 13 }}>{d.methodWords}</Body>
-            {d.alternatives.slice(0, all ? undefined : 6).map((a) => (
-              <View key={a.personId ?? 'open'} style={styles.alt}>
-                <Body style={{ flex: 1, minWidth: 140 }}>{`${a.name ?? 'Leave open'}${a.swapsWithSeatId ? ' (swaps seats)' : ''}`}</Body>
-                {a.feasible ? <Pill tone={(a.scoreChange ?? 0) >= 0 ? 'good' : 'warn'}>{Math.abs(a.scoreChange ?? 0) < 0.05 ? 'no change' : `${(a.scoreChange ?? 0) > 0 ? '+' : ''}${points(a.scoreChange)} points`}</Pill> : <Pill tone="bad">breaks a hard rule</Pill>}
-                {a.feasible && !frozen ? <Button kind="quiet" label={`Pin ${a.name ?? 'open'}`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
-                {!a.feasible && a.breaks[0] ? <Body muted style={{ width: '100%', fontSize: 13 }}>{a.breaks[0]}</Body> : null}
-              </View>
-            ))}
-            {!all && d.alternatives.length > 6 ? <Button kind="quiet" label={`Show all ${d.alternatives.length} alternatives`} onPress={() => setAll(true)} testID="seat-show-all" /> : null}
+      {details.error ? (
+        <View style={{ gap: space.sm }}>
+          <Notice>{`Seat details could not be loaded: ${details.error.message}`}</Notice>
+          <Button kind="quiet" label="Try again" onPress={() => void details.refetch()} testID="seat-retry" />
+        </View>
+      ) : !d ? (
+        <View style={styles.loading} aria-busy testID="seat-loading">
+          <ActivityIndicator color={colors.loom} accessibilityLabel="Working out the alternatives for this seat" />
+          <Body muted>Working out the alternatives: each choice is tried in a whole roster, so this takes a moment.</Body>
+        </View>
+      ) : (
+        <View style={{ gap: space.sm }}>
+          <Body bold>{`${d.current.name ?? 'Open'} · ${d.shift.words} · ${d.skill ?? 'any skill'}`}</Body>
+          {d.contest && d.contest.holderProbability < 1 ? <ContestMeter contest={d.contest} holder={d.current.name} /> : null}
+          <Body muted testID="seat-contested">{d.contested}</Body>
+          {d.pinned ? <Pill tone="good">{`Pinned to ${d.pinned.personId === null ? 'open' : (d.alternatives.find((a) => a.personId === d.pinned!.personId)?.name ?? d.current.name ?? 'this person')}`}</Pill> : null}
+          <View style={styles.actions}>
+            {d.pinned ? (
+              <Button kind="quiet" label="Unpin this seat" onPress={() => unpin.mutate({ rosterId: roster.id, seatId })} busy={unpin.isPending} disabled={frozen} testID="seat-unpin" />
+            ) : (
+              <Button label={`Pin ${d.current.name ?? 'open'} here`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: d.current.personId })} busy={pin.isPending} disabled={frozen} testID="seat-pin" />
+            )}
           </View>
-        )}
-      </Loadable>
+          {pin.isSuccess || unpin.isSuccess ? <Notice kind="info">{pin.isSuccess ? 'Pinned. The next run keeps this seat as it is; solve again to use it.' : 'Unpinned. The next run may change this seat.'}</Notice> : null}
+          {error ? <Notice>{error.message}</Notice> : null}
+          {d.ignoredPinsWords ? <Notice kind="info">{d.ignoredPinsWords}</Notice> : null}
+          <Body bold>Alternatives</Body>
+          <Body muted style={{ fontSize: 13 }}>{d.methodWords}</Body>
+          {d.alternatives.length === 0 ? <Body muted>Nobody else may take this seat (skills, pins and "cannot" wishes leave no other choice).</Body> : null}
+          {d.alternatives.slice(0, all ? undefined : 6).map((a) => {
+            const words = alternativeWords(a);
+            return (
+              <View key={a.personId ?? 'open'} style={styles.alt} aria-label={words} testID={`seat-alt-${a.personId ?? 'open'}`}>
+                <Body style={{ flex: 1, minWidth: 140 }}>{a.name ?? 'Leave open'}</Body>
+                {a.feasible ? (
+                  <Pill tone={(a.scoreChange ?? 0) >= -0.05 ? 'good' : 'warn'}>{Math.abs(a.scoreChange ?? 0) < 0.05 ? 'no change' : `${signed(a.scoreChange ?? 0)} points`}</Pill>
+                ) : (
+                  <Pill tone="bad">breaks a hard rule</Pill>
+                )}
+                {a.feasible && !frozen ? <Button kind="quiet" label={`Pin ${a.name ?? 'open'}`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
+                <Body muted style={{ width: '100%', fontSize: 13 }}>{words}</Body>
+              </View>
+            );
+          })}
+          {!all && d.alternatives.length > 6 ? <Button kind="quiet" label={`Show all ${d.alternatives.length} alternatives`} onPress={() => setAll(true)} testID="seat-show-all" /> : null}
+        </View>
+      )}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   panel: { padding: space.md, borderRadius: radius.sm, borderWidth: 1, borderColor: colors.loom, backgroundColor: colors.white, gap: space.sm },
+  loading: { padding: space.md, alignItems: 'center', gap: space.sm },
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   alt: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.xs },
+  meter: { height: 8, borderRadius: 4, backgroundColor: colors.loomSoft, overflow: 'hidden' },
+  meterFill: { height: 8, borderRadius: 4 },
 });

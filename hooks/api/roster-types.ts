@@ -98,19 +98,8 @@ export interface ConcessionPrice {
   words: string;
 }
 
-export interface SeatAlternatives {
-  runId: number;
-  seatId: number;
-  shift: { id: number; label: string; startsLocal: string; endsLocal: string; words: string };
-  skill: string | null;
-  current: { personId: number | null; name: string | null };
-  pinned: { personId: number | null } | null;
-  score: number | null;
-  method: 'rescored-swap';
-  methodWords: string;
-  contested: string;
-  alternatives: Array<{ personId: number | null; name: string | null; swapsWithSeatId: number | null; feasible: boolean; scoreChange: number | null; breaks: string[] }>;
-}
+/** Defined once in shared/api/seat-alternatives.ts. */
+export type { SeatAlternativesAnswer as SeatAlternatives, SeatAlternative, SeatContestAnswer } from '@/shared/api/seat-alternatives';
 
 export interface ScoreResult {
   total: number | null;

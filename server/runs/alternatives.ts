@@ -1,77 +1,202 @@
+import { createHash } from 'node:crypto';
 import { HttpError } from '../http/errors';
 import { parseRosterId, rosterIds } from '../rosters/ids';
-import { PinRow } from '../rosters/models';
-import { scoreRoster } from '../../solver/roster';
+import { AssignmentRow, PinRow, RunRow } from '../rosters/models';
+import { buildEngine, type Engine } from '../../solver/inference/engine';
+import { solveMap } from '../../solver/inference/solve';
+import { compileRoster, decodeAssignment, encodeAssignment, OPEN, scoreRoster, type CompiledRoster } from '../../solver/roster';
 import { describeShift, shiftFacts } from '../../shared/roster/derive';
-import type { RosterAssignment } from '../../shared/roster/schema';
+import type { Roster, RosterAssignment } from '../../shared/roster/schema';
+import type { SeatAlternativesAnswer, SeatContestAnswer } from '../../shared/api/seat-alternatives';
 import { finite } from './execute';
+import { exactlySolvable, forcedValues } from './max-marginals';
+import { loadContest, type RunContest } from './contest';
 import { runAssignment } from './run-view';
 
+/** Time for the short dual pass behind the upper bounds (demo: 500 ms reaches 239.6 against 238.6 after the run's 3 s). */
+const DUAL_MS = 600;
+/** Time for repairing every candidate of one seat together (each gets an equal share, 8–60 ms). */
+const REPAIR_BUDGET_MS = 600;
+
 /**
- * For one seat of a finished run: who is on it and the other people who could be, each with the
- * score change if they took the seat and everything else stayed (a person already on the same
- * shift swaps seats). Method "rescored-swap": every candidate is scored by the independent scorer
- * (solver/roster/score-roster); solver/explain had no max-marginals when this was written, so
- * this is the change for that one move, not the best roster with that person in the seat.
+ * Per run and roster as it stands: the compiled model, its engine, the run's roster encoded and
+ * the dual state for the bounds. All unpinned seats of a run share one entry; a pinned seat (its
+ * own pin lifted) has its own. A few entries only: an engine of a large roster is big.
  */
-export async function seatAlternatives(workspaceId: number, runId: number, seatId: number) {
+type Prepared = { compiled: CompiledRoster; E: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
+const models = new Map<string, Promise<Prepared>>();
+const MAX_MODELS = 4;
+/** Finished answers per run, seat and roster state (the same roster state gives the same answer). */
+const answers = new Map<string, SeatAlternativesAnswer>();
+const MAX_ANSWERS = 500;
+
+function remember<T>(cache: Map<string, T>, key: string, value: T, max: number): T {
+  cache.set(key, value);
+  if (cache.size > max) cache.delete(cache.keys().next().value!);
+  return value;
+}
+
+/** The answers kept in memory are dropped when tests need a cold measurement. */
+export function forgetSeatAlternatives(): void {
+  models.clear();
+  answers.clear();
+}
+
+async function prepare(key: string, roster: Roster, assignment: RosterAssignment): Promise<Prepared> {
+  const hit = models.get(key);
+  if (hit) {
+    models.delete(key);
+    models.set(key, hit);
+    return hit;
+  }
+  const work = (async () => {
+    const compiled = compileRoster(roster);
+    const enc = encodeAssignment(compiled, assignment);
+    if (!enc.ok) {
+      const names = enc.seats.slice(0, 3).map((s) => `seat ${parseRosterId('st', s)}`).join(', ');
+      throw new HttpError(409, 'conflict', `The roster changed since this run in a way its roster no longer fits (${names}: the person there may no longer have the skill, or has a "cannot" wish). Solve again to weigh alternatives.`);
+    }
+    const E = buildEngine(compiled.model);
+    // Bounds come from a short dual (MPLP) pass started from the run's roster; exact cases need none.
+    const dual = exactlySolvable(E) ? null : await solveMap(compiled.model, { timeLimitMs: DUAL_MS, initial: enc.values, localSearch: false, seed: 1 });
+    return { compiled, E, x: enc.values, dual: dual ? { bound: dual.bound, beliefs: dual.beliefs } : null };
+  })();
+  remember(models, key, work, MAX_MODELS);
+  work.catch(() => models.delete(key));
+  return work;
+}
+
+const pts = (x: number) => {
+  const a = Math.abs(x);
+  const s = a < 10 ? a.toFixed(1) : String(Math.round(a));
+  return `${x < -1e-9 ? '−' : x > 1e-9 ? '+' : ''}${s}`;
+};
+const pct = (p: number) => (p >= 0.995 ? 'over 99 %' : p < 0.01 ? 'under 1 %' : `${Math.round(p * 100)} %`);
+
+/** "How contested" in words, from the marginals the run worker kept (server/runs/contest.ts). */
+function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boolean, holderName: string | null, name: (id: string | null) => string | null): { words: string; detail: SeatContestAnswer | null } {
+  const c = contest?.seats[seatKey];
+  if (!contest || !c) return { words: 'How contested this seat is was not worked out for this run (a hand-edited save, a run from before this was added, or a roster too large for one sum-product pass within the time allowed).', detail: null };
+  const approx = contest.exact ? '' : ` (approximate: loopy sum-product${contest.converged ? '' : `, stopped after ${contest.iterations} pass${contest.iterations === 1 ? '' : 'es'} without converging`})`;
+  const detail: SeatContestAnswer = {
+    holderProbability: c.h,
+    holderOnShiftProbability: c.s,
+    others: c.o.map(([p, q]) => ({ personId: p === null ? null : parseRosterId('p', p), name: name(p), probability: q })),
+    method: contest.method,
+    exact: contest.exact,
+    converged: contest.converged,
+  };
+  if (pinnedInRun) return { words: 'Pinned when this run was solved, so the run had no choice here.', detail };
+  const others = c.o.length ? `; otherwise ${c.o.map(([p, q]) => `${name(p) ?? 'left open'} ${pct(q)}`).join(', ')}` : '';
+  let words: string;
+  if (holderName === null) {
+    words = `${c.h >= 0.9 ? 'Settled' : c.h >= 0.5 ? 'Leaning' : 'Contested'}: ${pct(c.h)} of good rosters leave this seat open${others}`;
+  } else {
+    const level = c.s >= 0.9 ? 'Settled' : c.s >= 0.5 ? 'Leaning' : 'Contested';
+    const seatToo = c.s - c.h > 0.05 ? ` (${pct(c.h)} in this very seat: the shift's seats are interchangeable)` : '';
+    words = `${level}: ${pct(c.s)} of good rosters put ${holderName} on this shift${seatToo}${others}`;
+  }
+  return { words: `${words}${approx}.`, detail };
+}
+
+/**
+ * For one seat of a finished run: who is on it, and for everyone else who may sit there (and for
+ * leaving it open) the max-marginal — the best roster with that choice forced, against this run's
+ * roster — plus how contested the seat is. The seat's own pin is lifted (it is what the
+ * coordinator is weighing); other pins are kept, except pins set since the run that its roster
+ * does not follow (they are left out and counted in `ignoredPins`). Every figure is the
+ * independent scorer's (solver/roster/score-roster) score of a decoded roster.
+ */
+export async function seatAlternatives(workspaceId: number, runId: number, seatId: number): Promise<SeatAlternativesAnswer> {
+  const started = Date.now();
+  const found = await RunRow.findOne({ where: { id: runId, workspaceId }, attributes: ['id', 'status'] });
+  if (!found) throw new HttpError(404, 'not_found', 'Run not found', [{ path: 'params.id', message: 'no such run in this workspace' }]);
+  if (found.status !== 'done' && found.status !== 'cancelled') {
+    const words = found.status === 'failed' ? 'This run failed, so it has no roster to weigh alternatives on.' : 'This run has not finished yet: alternatives are worked out on a finished run.';
+    throw new HttpError(409, 'conflict', words, [{ path: 'params.id', message: `the run is ${found.status}` }]);
+  }
   const { run, roster: asStored, assignment } = await runAssignment(workspaceId, runId);
   const seatKey = rosterIds.seat(seatId);
-  // This seat's own pin is what the coordinator is weighing, so alternatives are scored without it.
-  const roster = { ...asStored, pins: asStored.pins.filter((p) => p.seat !== seatKey) };
-  const seat = roster.seats.find((s) => s.id === seatKey);
-  if (!seat) throw new HttpError(404, 'not_found', 'Seat not found in this roster', [{ path: 'params.seatId', message: 'not a seat of this roster' }]);
+  const seat = asStored.seats.find((s) => s.id === seatKey);
+  if (!seat) throw new HttpError(404, 'not_found', 'Seat not found in this roster', [{ path: 'params.seatId', message: 'not a seat of this run’s roster' }]);
+  const keep = asStored.pins.filter((p) => p.seat !== seatKey);
+  const followed = keep.filter((p) => (assignment[p.seat] ?? null) === p.person);
+  const roster: Roster = { ...asStored, pins: followed };
+  const hash = (r: Roster) => createHash('sha1').update(JSON.stringify(r)).update(JSON.stringify(assignment)).digest('hex');
+  const digest = hash(roster);
+  // the answer also depends on the seat's own pin (shown, not weighed)
+  const answerKey = `${workspaceId}:${runId}:${seatId}:${hash(asStored)}`;
+  const cached = answers.get(answerKey);
+  if (cached) return { ...cached, cached: true, timeMs: Date.now() - started };
+
   const base = scoreRoster(roster, assignment);
+  if (!base.feasible) {
+    const first = base.violations.find((v) => v.hard)?.message ?? 'a hard rule';
+    throw new HttpError(409, 'conflict', `With the roster as it stands now, this run's roster breaks a hard rule (${first}). Solve again to weigh alternatives.`);
+  }
+  const { compiled, E, x, dual } = await prepare(`${workspaceId}:${runId}:${digest}`, roster, assignment);
+  const i = compiled.seatIndex.get(seatKey)!;
+  const forced = await forcedValues(compiled.model, E, x, i, dual, { budgetMs: REPAIR_BUDGET_MS, seed: 1 });
+
+  const name = (id: string | null) => (id === null ? null : (roster.people.find((p) => p.id === id)?.name ?? id));
+  const alternatives = forced
+    .map((f) => {
+      const p = compiled.domains[i][f.value];
+      const personKey = p === OPEN ? null : roster.people[p].id;
+      const next = decodeAssignment(compiled, f.assignment).assignment;
+      const check = scoreRoster(roster, next);
+      const moved = Object.keys(next).filter((s) => s !== seatKey && (next[s] ?? null) !== (assignment[s] ?? null)).length;
+      const change = check.feasible ? check.total - base.total : null;
+      const atMost = f.bound === Infinity ? null : f.bound === -Infinity ? null : f.bound - base.total;
+      return {
+        personId: personKey === null ? null : parseRosterId('p', personKey),
+        name: name(personKey),
+        feasible: check.feasible,
+        scoreChange: change === null ? null : finite(change),
+        // the bound is never below what was found (rounding of the dual aside)
+        scoreChangeAtMost: atMost === null ? null : finite(change === null ? atMost : Math.max(atMost, change)),
+        exact: f.how === 'exact',
+        otherSeatsMoved: check.feasible ? moved : 0,
+        breaks: check.feasible ? [] : check.violations.filter((v) => v.hard).slice(0, 3).map((v) => v.message),
+        impossible: f.how === 'exact' && !check.feasible,
+      };
+    })
+    .sort((a, b) => Number(b.feasible) - Number(a.feasible) || (b.scoreChange ?? -Infinity) - (a.scoreChange ?? -Infinity) || (b.scoreChangeAtMost ?? Infinity) - (a.scoreChangeAtMost ?? Infinity));
+
+  const exact = forced.every((f) => f.how === 'exact');
   const facts = shiftFacts(roster);
   const shiftIndex = roster.shifts.findIndex((s) => s.id === seat.shift);
   const shift = roster.shifts[shiftIndex];
-  const sameShiftSeats = roster.seats.filter((s) => s.shift === seat.shift).map((s) => s.id);
   const current = assignment[seatKey] ?? null;
-  const name = (id: string | null) => (id === null ? null : (roster.people.find((p) => p.id === id)?.name ?? id));
-  const skillName = seat.skill ? (roster.skills.find((k) => k.id === seat.skill)?.name ?? seat.skill) : null;
-  const baseTotal = base.feasible ? base.total : base.softTotal;
-
-  const candidates: Array<string | null> = [null, ...roster.people.filter((p) => seat.skill === null || p.skills.includes(seat.skill)).map((p) => p.id)];
-  const alternatives = candidates
-    .filter((c) => c !== current)
-    .map((candidate) => {
-      const next: RosterAssignment = { ...assignment, [seatKey]: candidate };
-      const otherSeat = candidate === null ? undefined : sameShiftSeats.find((s) => s !== seatKey && assignment[s] === candidate);
-      if (otherSeat) next[otherSeat] = current;
-      const check = scoreRoster(roster, next);
-      const total = check.feasible ? check.total : check.softTotal;
-      const broken = check.violations.filter((v) => v.hard).slice(0, 3).map((v) => v.message);
-      return {
-        personId: candidate === null ? null : parseRosterId('p', candidate),
-        name: name(candidate),
-        swapsWithSeatId: otherSeat ? parseRosterId('st', otherSeat) : null,
-        feasible: check.feasible,
-        scoreChange: check.feasible ? total - baseTotal : null,
-        breaks: broken,
-      };
-    })
-    .sort((a, b) => (b.feasible ? 1 : 0) - (a.feasible ? 1 : 0) || (b.scoreChange ?? -Infinity) - (a.scoreChange ?? -Infinity));
-
-  const feasibleDeltas = alternatives.filter((a) => a.feasible).map((a) => a.scoreChange!);
-  const closest = feasibleDeltas.length ? Math.max(...feasibleDeltas) : null;
-  const pin = await PinRow.findOne({ where: { workspaceId, rosterId: run.rosterId, seatId } });
-  return {
+  const [pin, row, contest] = await Promise.all([
+    PinRow.findOne({ where: { workspaceId, rosterId: run.rosterId, seatId } }),
+    AssignmentRow.findOne({ where: { workspaceId, runId: run.id, seatId } }),
+    loadContest(RunRow.sequelize!, workspaceId, run.id),
+  ]);
+  const contested = contestOf(contest, seatKey, Boolean(row?.pinned), name(current), name);
+  const ignoredPins = keep.length - followed.length;
+  const answer: SeatAlternativesAnswer = {
     runId: run.id,
     seatId,
     shift: { id: parseRosterId('sh', shift.id), label: shift.patternLabel, startsLocal: shift.start, endsLocal: shift.end, words: describeShift(facts[shiftIndex]) },
-    skill: skillName,
+    skill: seat.skill ? (roster.skills.find((k) => k.id === seat.skill)?.name ?? seat.skill) : null,
     current: { personId: current === null ? null : parseRosterId('p', current), name: name(current) },
     pinned: pin ? { personId: pin.personId ?? null } : null,
     score: finite(base.total),
-    method: 'rescored-swap' as const,
-    methodWords: 'Score change if this person took the seat and nothing else moved (a person already on this shift swaps seats), from the independent scorer — not max-marginals.',
-    // How contested the seat is: the smallest loss of any other feasible choice (0 or a gain = not settled at all).
-    contested:
-      closest === null
-        ? 'Nobody else could take this seat without breaking a hard rule.'
-        : closest >= -1e-9
-          ? 'Not settled: another choice scores as well or better on its own.'
-          : `Closest alternative costs ${Math.abs(closest) < 10 ? Math.abs(closest).toFixed(1) : Math.round(Math.abs(closest))} points.`,
-    alternatives: alternatives.map((a) => ({ ...a, scoreChange: a.scoreChange === null ? null : finite(a.scoreChange) })),
+    method: 'max-marginal',
+    exact,
+    methodWords: exact
+      ? 'Max-marginals, exact (every roster considered): for each choice, the best whole roster with that choice in this seat, against this run’s roster. Other seats may change to make room.'
+      : `For each choice: the best roster found with it in this seat (the rest of the roster re-arranged around it by local search), against this run’s roster — achievable as shown — and the most it could be at all, from the solver’s dual bound. The true best lies between the two; a wide range means the bound is loose, not that a big gain is likely.`,
+    contested: contested.words,
+    contest: contested.detail,
+    ignoredPins,
+    ...(ignoredPins ? { ignoredPinsWords: `${ignoredPins} pin${ignoredPins === 1 ? ' was' : 's were'} set after this run and ${ignoredPins === 1 ? 'is' : 'are'} left out here; solve again to weigh ${ignoredPins === 1 ? 'it' : 'them'}.` } : {}),
+    cached: false,
+    timeMs: 0,
+    alternatives,
   };
+  answer.timeMs = Date.now() - started;
+  remember(answers, answerKey, answer, MAX_ANSWERS);
+  return answer;
 }

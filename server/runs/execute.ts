@@ -1,4 +1,4 @@
-import type { decodeAssignment, scoreRoster } from '../../solver/roster';
+import type { CompiledRoster, decodeAssignment, scoreRoster } from '../../solver/roster';
 import { solveRoster } from '../../solver/roster/solve-roster';
 import type { Roster } from '../../shared/roster/schema';
 
@@ -41,7 +41,7 @@ export async function executeRun(
   params: { timeLimitSeconds: number; seed: number },
   onProgress: (p: RunProgress) => void,
   signal: AbortSignal,
-): Promise<{ ok: true; outcome: RunOutcome } | { ok: false; reasons: string[] }> {
+): Promise<{ ok: true; outcome: RunOutcome; compiled: CompiledRoster } | { ok: false; reasons: string[] }> {
   if (roster.seats.length === 0) return { ok: false, reasons: ['This roster has no shifts yet: add a shift pattern or a shift first.'] };
   // solveRoster checks feasibility in words first, then starts max-product from a greedy roster.
   const solved = await solveRoster(
@@ -55,12 +55,14 @@ export async function executeRun(
     signal,
   );
   if (solved.status === 'infeasible') return { ok: false, reasons: solved.reasons };
-  const { result, decoded, score } = solved;
+  const { result, decoded, score, compiled } = solved;
   if (!result.feasible) {
     return { ok: false, reasons: ['No roster within the time limit keeps every hard rule. Loosen a hard rule (or make it soft), add people, or remove seats, then try again.'] };
   }
   return {
     ok: true,
+    // The compiled model stays in the thread (not posted): solve-thread.ts computes the marginals on it.
+    compiled,
     outcome: {
       assignment: decoded.assignment,
       score: result.score,

@@ -1,9 +1,14 @@
 import { parentPort, workerData } from 'node:worker_threads';
+import { computeMarginals } from '../../solver/inference/marginals';
 import { executeRun } from './execute';
+import { summariseContest } from './contest';
 import type { Roster } from '../../shared/roster/schema';
 
 /**
- * Runs one solve off the server's event loop. Messages out: progress, then done or failed.
+ * Runs one solve off the server's event loop. Messages out: progress, then done or failed; after
+ * done, when asked for (`marginalsMs`), a 'contest' message with the run's sum-product marginals
+ * (server/runs/contest.ts). The run worker waits a bounded time for it and then ends the thread,
+ * so a model too large for one sum-product pass simply has none.
  * Message in: 'cancel', which stops the solver at its next step with the best roster so far.
  */
 const controller = new AbortController();
@@ -11,7 +16,14 @@ parentPort!.on('message', (msg) => {
   if (msg === 'cancel') controller.abort();
 });
 
-const { roster, params } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number } };
+const { roster, params } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number; marginalsMs?: number } };
 executeRun(roster, params, (progress) => parentPort!.postMessage({ type: 'progress', progress }), controller.signal)
-  .then((result) => parentPort!.postMessage(result.ok ? { type: 'done', outcome: result.outcome } : { type: 'failed', reasons: result.reasons }))
+  .then((result) => {
+    parentPort!.postMessage(result.ok ? { type: 'done', outcome: result.outcome } : { type: 'failed', reasons: result.reasons });
+    if (result.ok && params.marginalsMs) {
+      const started = Date.now();
+      const m = computeMarginals(result.compiled.model, { timeLimitMs: params.marginalsMs });
+      parentPort!.postMessage({ type: 'contest', contest: summariseContest(result.compiled, m, result.outcome.assignment, Date.now() - started) });
+    }
+  })
   .catch((err: unknown) => parentPort!.postMessage({ type: 'error', message: err instanceof Error ? err.message : String(err) }));

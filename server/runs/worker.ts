@@ -8,6 +8,7 @@ import { parseRosterId } from '../rosters/ids';
 import { Roster, RunRow, AssignmentRow, PinRow } from '../rosters/models';
 import { finite, type RunOutcome, type RunProgress } from './execute';
 import { summariseOutcome } from './summary';
+import { saveContest, type RunContest } from './contest';
 
 export interface RunWorkerOptions {
   /** Names this worker in `runs.claimed_by`. */
@@ -137,6 +138,7 @@ export class RunWorker {
           { where: { id }, transaction },
         );
         await Roster.update({ status: 'solved' }, { where: { id: run.rosterId, status: 'draft', version: run.rosterVersion }, transaction });
+        await saveContest(this.sequelize, id, result.contest, transaction);
       });
     } catch (err) {
       await this.finish(id, { status: 'failed', error: `The run failed: ${err instanceof Error ? err.message : String(err)}` });
@@ -153,15 +155,22 @@ export class RunWorker {
     id: number,
     roster: unknown,
     params: { timeLimitSeconds: number; seed: number },
-  ): Promise<{ type: 'done'; outcome: RunOutcome } | { type: 'failed'; reasons: string[] } | { type: 'error'; message: string }> {
+  ): Promise<{ type: 'done'; outcome: RunOutcome; contest: RunContest | null } | { type: 'failed'; reasons: string[] } | { type: 'error'; message: string }> {
+    // After the solve, the thread computes how contested each seat is (sum-product marginals) for
+    // up to marginalsMs; past that plus a margin for building its engine the thread is ended and the
+    // run keeps no marginals (60 people × 13 weeks: one loopy pass takes over 30 s, measured).
+    const marginalsMs = Math.round(Math.min(3000, Math.max(1000, params.timeLimitSeconds * 300)));
+    let solved: RunOutcome | null = null;
+    let contestTimer: ReturnType<typeof setTimeout> | undefined;
     return new Promise((resolve) => {
-      const thread = new Worker(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params } });
+      const thread = new Worker(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs } } });
       this.thread = thread;
       let lastWrite = 0;
       let settled = false;
       const settle = (value: Parameters<typeof resolve>[0]) => {
         if (settled) return;
         settled = true;
+        clearTimeout(contestTimer);
         this.thread = null;
         void thread.terminate();
         resolve(value);
@@ -183,10 +192,17 @@ export class RunWorker {
             .catch(() => {});
           return;
         }
+        if (msg.type === 'done') {
+          solved = msg.outcome as RunOutcome;
+          contestTimer = setTimeout(() => settle({ type: 'done', outcome: solved!, contest: null }), marginalsMs + 5000);
+          return;
+        }
+        // After a solve, whatever comes next (marginals, or an error computing them) ends the wait.
+        if (solved) return settle({ type: 'done', outcome: solved, contest: msg.type === 'contest' ? (msg.contest as RunContest) : null });
         settle(msg as never);
       });
-      thread.on('error', (err) => settle({ type: 'error', message: err.message }));
-      thread.on('exit', (code) => settle({ type: 'error', message: `the solver thread exited (${code})` }));
+      thread.on('error', (err) => settle(solved ? { type: 'done', outcome: solved, contest: null } : { type: 'error', message: err.message }));
+      thread.on('exit', (code) => settle(solved ? { type: 'done', outcome: solved, contest: null } : { type: 'error', message: `the solver thread exited (${code})` }));
     });
   }
 }

@@ -4,6 +4,7 @@ import * as m0002 from './0002-accounts';
 import * as m0003 from './0003-rosters';
 import * as m0004 from './0004-billing';
 import * as m0005 from './0005-staff-feeds';
+import * as m0006 from './0006-run-contest';
 
 export interface Migration {
   name: string;
@@ -18,4 +19,5 @@ export const migrations: Migration[] = [
   { name: '0003-rosters', ...m0003 },
   { name: '0004-billing', ...m0004 },
   { name: '0005-staff-feeds', ...m0005 },
+  { name: '0006-run-contest', ...m0006 },
 ];

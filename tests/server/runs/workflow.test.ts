@@ -150,22 +150,131 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     expect(priced.body.words).not.toMatch(/at \w+ \(|Error/); // words, not a stack trace
   });
 
-  it('gives seat alternatives with score changes from the rule weights (closed form) and labels the method', async () => {
+  /** Every roster of `r` (each seat open or one of the people) with its scoreRoster total: 3^6 = 729 here. */
+  const everyRoster = (r: Roster) => {
+    const choices: Array<string | null> = [null, ...r.people.map((p) => p.id)];
+    const out: Array<{ a: Record<string, string | null>; score: number }> = [];
+    const a: Record<string, string | null> = {};
+    const visit = (i: number) => {
+      if (i === r.seats.length) return void out.push({ a: { ...a }, score: scoreRoster(r, a).total });
+      for (const c of choices) {
+        a[r.seats[i].id] = c;
+        visit(i + 1);
+      }
+    };
+    visit(0);
+    return out;
+  };
+  /** Max-marginal of seat = choice: the best score of any roster with that choice there (−Infinity: none keeps the hard rules). */
+  const maxMarginal = (all: ReturnType<typeof everyRoster>, seat: string, choice: string | null) => Math.max(...all.filter((x) => x.a[seat] === choice).map((x) => x.score));
+  /** P(event) under p(roster) ∝ exp(score), summed over every roster (log-sum-exp for safety). */
+  const probability = (all: ReturnType<typeof everyRoster>, event: (a: Record<string, string | null>) => boolean) => {
+    const top = Math.max(...all.map((x) => x.score));
+    let z = 0, hit = 0;
+    for (const x of all) {
+      const w = Math.exp(x.score - top);
+      z += w;
+      if (event(x.a)) hit += w;
+    }
+    return hit / z;
+  };
+  const runRoster = (run: { assignments: Array<{ seatId: number; personId: number | null }> }) => Object.fromEntries(run.assignments.map((a) => [`st${a.seatId}`, a.personId === null ? null : `p${a.personId}`]));
+  type AltBody = { method: string; exact: boolean; score: number; current: { personId: number | null }; contested: string; contest: { holderProbability: number; holderOnShiftProbability: number; exact: boolean; others: Array<{ personId: number | null; probability: number }> } | null; alternatives: Array<{ personId: number | null; feasible: boolean; impossible: boolean; scoreChange: number | null; scoreChangeAtMost: number | null; exact: boolean; otherSeatsMoved: number }> };
+
+  it('gives every seat\'s alternatives as max-marginals and its contested share, both equal to brute-force enumeration', async () => {
     const run = (await coordinator.get(`/api/runs/${runId}`)).body;
-    const shifts = (await coordinator.get(`/api/rosters/${rosterId}/shifts`)).body.items as Array<{ id: number; startsLocal: string; seats: Array<{ id: number }> }>;
-    const tuesday = shifts.find((s) => s.startsLocal.startsWith('2027-07-06'))!;
-    const seatId = tuesday.seats.find((s) => run.assignments.find((a: { seatId: number; personId: number }) => a.seatId === s.id && a.personId === people[0].id))!.id;
-    const res = await coordinator.get(`/api/runs/${runId}/seats/${seatId}/alternatives`);
-    expect(res.status).toBe(200);
-    expect(res.body.method).toBe('rescored-swap');
-    expect(res.body.current.personId).toBe(people[0].id);
-    const open = res.body.alternatives.find((a: { personId: number | null }) => a.personId === null);
-    // Leaving Aurélie's Tuesday seat open: −100 for the open seat, +7 for the wish now kept.
-    expect(open.scoreChange).toBeCloseTo(-93, 6);
-    const swap = res.body.alternatives.find((a: { personId: number | null }) => a.personId === people[1].id);
-    expect(swap.swapsWithSeatId).not.toBeNull();
-    expect(swap.scoreChange).toBeCloseTo(0, 6); // same two people on the shift
-    expect((await coordinator.get(`/api/runs/${runId}/seats/999999/alternatives`)).status).toBe(404);
+    const { parsed } = await assembleRoster(workspace.id, rosterId);
+    if (!parsed.ok) throw new Error('roster invalid');
+    const r = parsed.roster;
+    expect(r.pins).toEqual([]); // so the run's model and the alternatives' model are this roster
+    // Outside check: every roster enumerated and scored with scoreRoster (729 rosters).
+    const all = everyRoster(r);
+    const chosen = runRoster(run);
+    const chosenScore = scoreRoster(r, chosen).total;
+    expect(chosenScore).toBeCloseTo(-7, 6);
+    for (const seat of r.seats) {
+      const seatId = Number(seat.id.slice(2));
+      const res = await coordinator.get(`/api/runs/${runId}/seats/${seatId}/alternatives`);
+      expect(res.status).toBe(200);
+      const body = res.body as AltBody;
+      expect(body.method).toBe('max-marginal');
+      expect(body.exact).toBe(true);
+      expect(body.score).toBeCloseTo(chosenScore, 6);
+      const holder = chosen[seat.id];
+      expect(body.current.personId).toBe(holder === null ? null : Number(holder.slice(1)));
+      // One alternative per other choice: open and each person but the holder.
+      const others = [null, ...r.people.map((p) => p.id)].filter((c) => c !== holder);
+      expect(body.alternatives.map((a) => a.personId).sort()).toEqual(others.map((c) => (c === null ? null : Number(c.slice(1)))).sort());
+      for (const alt of body.alternatives) {
+        const choice = alt.personId === null ? null : `p${alt.personId}`;
+        const mm = maxMarginal(all, seat.id, choice);
+        expect(alt.exact).toBe(true);
+        if (mm === -Infinity) {
+          expect(alt).toMatchObject({ feasible: false, impossible: true, scoreChange: null });
+        } else {
+          expect(alt.feasible).toBe(true);
+          expect(alt.scoreChange!).toBeCloseTo(mm - chosenScore, 6);
+          expect(alt.scoreChangeAtMost!).toBeCloseTo(mm - chosenScore, 6);
+        }
+      }
+      // How contested: the exact marginal P(seat = holder) ∝ Σ exp(score), and P(holder on the shift).
+      expect(body.contest).not.toBeNull();
+      expect(body.contest!.exact).toBe(true);
+      expect(body.contest!.holderProbability).toBeCloseTo(probability(all, (a) => a[seat.id] === holder), 3);
+      const shiftSeats = r.seats.filter((s) => s.shift === seat.shift).map((s) => s.id);
+      if (holder !== null) expect(body.contest!.holderOnShiftProbability).toBeCloseTo(probability(all, (a) => shiftSeats.some((s) => a[s] === holder)), 3);
+      for (const o of body.contest!.others) expect(o.probability).toBeCloseTo(probability(all, (a) => a[seat.id] === (o.personId === null ? null : `p${o.personId}`)), 3);
+    }
+
+    // Aurélie's Tuesday seat: leaving it open keeps her wish (+7) but costs an open seat (−100);
+    // Bram can only take it if Aurélie moves to the other Tuesday seat (no change) — enumeration says the same.
+    const tuesday = r.seats.filter((s) => r.shifts.find((sh) => sh.id === s.shift)!.start.startsWith('2027-07-06'));
+    const hers = tuesday.find((s) => chosen[s.id] === `p${people[0].id}`)!;
+    const res = (await coordinator.get(`/api/runs/${runId}/seats/${hers.id.slice(2)}/alternatives`)).body as AltBody;
+    expect(res.alternatives.find((a) => a.personId === null)!.scoreChange).toBeCloseTo(-93, 6);
+    const bram = res.alternatives.find((a) => a.personId === people[1].id)!;
+    expect(bram.scoreChange).toBeCloseTo(0, 6);
+    expect(bram.otherSeatsMoved).toBeGreaterThanOrEqual(1);
+    // The two Tuesday seats are interchangeable: about half of the weight puts her in this very seat, nearly all on the shift.
+    expect(res.contested).toMatch(/^Settled: over 99 % of good rosters put Aurélie .* on this shift \(50 % in this very seat/);
+    // A second request is answered from memory, with the same figures.
+    const again = (await coordinator.get(`/api/runs/${runId}/seats/${hers.id.slice(2)}/alternatives`)).body;
+    expect(again.cached).toBe(true);
+    expect(again.alternatives).toEqual(res.alternatives);
+  });
+
+  it('refuses bad seat-alternative requests with a 4xx naming the field', { timeout: 60_000 }, async () => {
+    const unknown = await coordinator.get(`/api/runs/${runId}/seats/999999/alternatives`);
+    expect(unknown.status).toBe(404);
+    expect(unknown.body.error.fields[0].path).toBe('params.seatId');
+    const notANumber = await coordinator.get(`/api/runs/${runId}/seats/first/alternatives`);
+    expect(notANumber.status).toBe(400);
+    expect(notANumber.body.error.fields[0].path).toBe('params.seatId');
+    const noRun = await coordinator.get(`/api/runs/999999/seats/1/alternatives`);
+    expect(noRun.status).toBe(404);
+    expect(noRun.body.error.fields[0].path).toBe('params.id');
+
+    // Another workspace: its seat on our run is not a seat of this roster; our run is not theirs.
+    const other = (await signedIn(app, await makeWorkspace('Elsewhere Grange'), 'coordinator')).agent;
+    const theirRoster = await other.post('/api/rosters').send({ name: 'Elsewhere', periodStart: '2027-07-12', periodEnd: '2027-07-12', timeZone: 'Europe/London' });
+    await other.post(`/api/rosters/${theirRoster.body.id}/patterns`).send({ label: 'day', weekdays: ['mon'], startTime: '08:00', endTime: '16:00', seats: [{ skillId: null, count: 1 }] });
+    const theirSeat = (await other.get(`/api/rosters/${theirRoster.body.id}/shifts`)).body.items[0].seats[0].id as number;
+    const foreignSeat = await coordinator.get(`/api/runs/${runId}/seats/${theirSeat}/alternatives`);
+    expect(foreignSeat.status).toBe(404);
+    expect(foreignSeat.body.error.fields[0].path).toBe('params.seatId');
+    const ourSeat = (await coordinator.get(`/api/runs/${runId}`)).body.assignments[0].seatId;
+    const foreignRun = await other.get(`/api/runs/${runId}/seats/${ourSeat}/alternatives`);
+    expect(foreignRun.status).toBe(404);
+    expect(foreignRun.body.error.fields[0].path).toBe('params.id');
+
+    // A run that has not finished: 409 naming the run. (Cancelled again so the worker never takes it.)
+    const queued = await coordinator.post(`/api/rosters/${rosterId}/runs`).send({ timeLimitSeconds: 1 });
+    expect(queued.status).toBe(202);
+    const waiting = await coordinator.get(`/api/runs/${queued.body.id}/seats/${ourSeat}/alternatives`);
+    expect(waiting.status).toBe(409);
+    expect(waiting.body.error.fields[0].path).toBe('params.id');
+    expect(waiting.body.error.message).toMatch(/not finished/);
+    expect((await coordinator.post(`/api/runs/${queued.body.id}/cancel`)).status).toBe(202);
   });
 
   // Solves in worker threads: generous on a loaded machine.
@@ -186,6 +295,16 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     const best = alts.body.alternatives[0];
     expect(best.feasible).toBe(true);
     expect(best.scoreChange).toBeCloseTo(100, 6);
+    // Outside check: every roster without that pin enumerated; each change is the max-marginal minus the run's roster.
+    const { parsed } = await assembleRoster(workspace.id, rosterId);
+    if (!parsed.ok) throw new Error('roster invalid');
+    const lifted = { ...parsed.roster, pins: [] };
+    const all = everyRoster(lifted);
+    const base = scoreRoster(lifted, runRoster(run)).total;
+    for (const alt of alts.body.alternatives as AltBody['alternatives']) {
+      expect(alt.scoreChange!).toBeCloseTo(maxMarginal(all, `st${monday.seats[0].id}`, alt.personId === null ? null : `p${alt.personId}`) - base, 6);
+    }
+    expect(alts.body.contested).toMatch(/^Pinned when this run was solved/);
     expect((await coordinator.delete(`/api/rosters/${rosterId}/pins/${monday.seats[0].id}`)).status).toBe(204);
     runId = (await solve()).id;
   });
