@@ -35,6 +35,8 @@ export interface RosterBenchCase {
   timeLimitMs: number;
   /** The target, when it sets one: solve within timeLimitMs with a relative gap at most maxGap. */
   target?: { maxGap: number; withinMs: number };
+  /** Time limits (s) for the HiGHS reference (MIP started from our roster, then its LP relaxation). */
+  highs?: { mipS: number; lpS: number };
   build(): RosterBenchBuilt;
 }
 
@@ -68,12 +70,14 @@ export function rosterBenchCases(): RosterBenchCase[] {
       name: 'roster: Willowmere demo, 18 people × 4 weeks',
       timeLimitMs: 3_000,
       target: { maxGap: 0.01, withinMs: 3_000 },
+      highs: { mipS: 120, lpS: 120 },
       build: () => fromRoster(makeWillowmereRoster()),
     },
     {
       name: 'roster: 60 people × 13 weeks',
       timeLimitMs: 20_000,
       target: { maxGap: 0.01, withinMs: 20_000 },
+      highs: { mipS: 120, lpS: 300 },
       build: () => fromRoster(makeRoster({ people: 60, weeks: 13, seed: 1 })),
     },
     ...[10, 50, 200].map(

@@ -16,12 +16,17 @@ import { relativeGap, solveMap, type MapResult } from '../inference/solve';
 import { enumerateModel } from '../inference/exact';
 import { frustratedCycle, pottsGrid, randomBinaryGraph, rosterModel, countPairwise } from './families';
 import { ilpOptimum } from './ilp';
+import { highsOptimum } from './highs-mip';
 
 interface Case {
   name: string;
   build: () => Model;
   timeLimitMs: number;
-  reference?: 'enumerate' | 'ilp';
+  reference?: 'enumerate' | 'ilp' | 'highs';
+  /** HiGHS time limits (s) for the MIP and its LP relaxation (reference 'highs'). */
+  highs?: { mipS: number; lpS: number };
+  /** Roster cases: solve through the roster path (solveRoster's bound and search) instead of solveMap. */
+  solve?: (opts: { timeLimitMs: number; seed: number; clock: () => number }) => Promise<MapResult>;
   target?: string;
   /** Extra check after solving (roster cases: independent roster score). */
   check?: (r: MapResult) => string;
@@ -31,6 +36,8 @@ const args = process.argv.slice(2);
 const quick = args.includes('--quick');
 const only = args.includes('--only') ? args[args.indexOf('--only') + 1] : undefined;
 const skipRosterCases = args.includes('--no-roster-cases');
+// --no-highs skips the HiGHS reference of the roster rows (it takes minutes)
+const skipHighs = args.includes('--no-highs');
 // Budgets and times are CPU time of this process by default ("on one core" on a shared machine);
 // --wall uses the wall clock instead.
 const wall = args.includes('--wall');
@@ -66,7 +73,13 @@ interface RosterBenchCaseLike {
   name: string;
   timeLimitMs: number;
   target?: { maxGap: number; withinMs: number };
-  build(): { model: Model; check?(assignment: ArrayLike<number>): { score: number; feasible: boolean; openSeats?: number } };
+  highs?: { mipS: number; lpS: number };
+  build(): {
+    model: Model;
+    initial?: ArrayLike<number>;
+    solve?: (opts: { timeLimitMs: number; seed: number; clock: () => number }) => Promise<MapResult>;
+    check?(assignment: ArrayLike<number>): { score: number; feasible: boolean; openSeats?: number };
+  };
 }
 
 const fmt = (v: number, d = 3): string => (v === -Infinity ? '−∞' : v === Infinity ? '∞' : Number.isFinite(v) ? v.toFixed(d) : String(v));
@@ -86,6 +99,9 @@ async function run(): Promise<void> {
         timeLimitMs: quick ? Math.min(rc.timeLimitMs, 3_000) : rc.timeLimitMs,
         target: rc.target ? `gap ≤ ${rc.target.maxGap * 100} % in < ${rc.target.withinMs / 1000} s` : undefined,
         build: () => get().model,
+        reference: rc.highs && !skipHighs ? 'highs' : undefined,
+        highs: rc.highs,
+        solve: (o) => get().solve?.(o) ?? solveMap(get().model, { timeLimitMs: o.timeLimitMs, seed: o.seed, clock: o.clock, initial: get().initial }),
         check: (r) => {
           const c = get().check?.(r.assignment);
           if (!c) return '';
@@ -109,7 +125,7 @@ async function run(): Promise<void> {
     const maxK = Math.max(...model.variables.map((v) => v.cardinality));
     const limit = quick ? Math.min(c.timeLimitMs, 2_000) : c.timeLimitMs;
     const w0 = Date.now();
-    const r = await solveMap(model, { timeLimitMs: limit, seed: 1, clock });
+    const r = c.solve ? await c.solve({ timeLimitMs: limit, seed: 1, clock }) : await solveMap(model, { timeLimitMs: limit, seed: 1, clock });
     const wallMs = Date.now() - w0;
     let ref = '—';
     if (c.reference === 'enumerate') ref = `${fmt(enumerateModel(model).score)} (enumeration)`;
@@ -117,6 +133,17 @@ async function run(): Promise<void> {
       const t = Date.now();
       const il = ilpOptimum(model, 60_000);
       ref = `${fmt(il.score)} (ILP, javascript-lp-solver, ${((Date.now() - t) / 1000).toFixed(1)} s)`;
+    }
+    if (c.reference === 'highs' && c.highs && !quick) {
+      // HiGHS (npm highs) on the MIP of highs-mip.ts, started from our roster; then its LP relaxation
+      const mip = await highsOptimum(model, { timeLimitS: c.highs.mipS, start: r.assignment });
+      const lp = await highsOptimum(model, { relax: true, timeLimitS: c.highs.lpS });
+      const mipText =
+        mip.status === 'optimal'
+          ? `MIP optimum ${fmt(mip.score)}`
+          : `MIP best ${fmt(mip.score)}, its bound ${fmt(mip.bound)} (${mip.status})`;
+      const lpText = lp.status === 'optimal' ? `LP ${fmt(lp.bound)}` : `LP not solved (${lp.status})`;
+      ref = `${mipText} in ${(mip.timeMs / 1000).toFixed(0)} s; ${lpText} in ${(lp.timeMs / 1000).toFixed(0)} s (HiGHS)`;
     }
     const notes = [`${r.method}`, r.optimal ? 'proven optimal' : r.stopReason, c.target ? `target: ${c.target}` : '', buildMs > 50 ? `build ${buildMs} ms` : '', c.check ? c.check(r) : '']
       .filter(Boolean)
