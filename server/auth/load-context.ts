@@ -1,13 +1,26 @@
 import type { Request, RequestHandler } from 'express';
-import { resolveMembership, type ResolvedMembership } from './service';
+import { resolveMembership, type ResolvedMembership, type SignedInAccount } from './service';
 import './context';
 
-// Passport's deserializeUser reads the user and the membership in one query; the membership
-// waits here for loadAuthContext so the request does not ask the database twice.
-const preloaded = new WeakMap<Request, ResolvedMembership | null>();
+// The session store reads the account with the session row, and passport's deserializeUser the
+// membership with the user, so that a request asks the database once; what they read waits here,
+// per request, for deserializeUser and loadAuthContext.
+const preloadedAccounts = new WeakMap<Request, SignedInAccount>();
+const preloadedMemberships = new WeakMap<Request, ResolvedMembership | null>();
+
+export function rememberAccount(req: Request, account: SignedInAccount): void {
+  preloadedAccounts.set(req, account);
+}
+
+/** The account read with this request's session, if it is the given user's. */
+export function preloadedAccount(req: Request, userId: number): SignedInAccount | undefined {
+  const account = preloadedAccounts.get(req);
+  preloadedAccounts.delete(req);
+  return account?.user.id === userId ? account : undefined;
+}
 
 export function rememberMembership(req: Request, membership: ResolvedMembership | null): void {
-  preloaded.set(req, membership);
+  preloadedMemberships.set(req, membership);
 }
 
 /**
@@ -17,8 +30,8 @@ export function rememberMembership(req: Request, membership: ResolvedMembership 
  */
 export const loadAuthContext: RequestHandler = async (req, _res, next) => {
   if (!req.user) return next();
-  const membership = preloaded.has(req) ? preloaded.get(req)! : await resolveMembership(req.user.id, req.session.workspaceId);
-  preloaded.delete(req);
+  const membership = preloadedMemberships.has(req) ? preloadedMemberships.get(req)! : await resolveMembership(req.user.id, req.session.workspaceId);
+  preloadedMemberships.delete(req);
   if (membership) {
     req.auth = { userId: req.user.id, ...membership };
     if (req.session.workspaceId !== membership.workspaceId) req.session.workspaceId = membership.workspaceId;

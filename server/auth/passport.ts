@@ -4,7 +4,7 @@ import { Strategy as GoogleStrategy, type Profile, type VerifyCallback } from 'p
 import type { Request } from 'express';
 import type { Env } from '../env';
 import { verifyPassword, googleSignIn, loadSignedInUser, type GoogleIdentity } from './service';
-import { rememberMembership } from './load-context';
+import { preloadedAccount, rememberMembership } from './load-context';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -67,7 +67,8 @@ export function createPassport(env: Env): Authenticator {
   }
   passport.serializeUser((user, done) => done(null, user.id));
   passport.deserializeUser((req: Request, id: number, done: (err: unknown, user?: Express.User | false) => void) => {
-    loadSignedInUser(id, req.session.workspaceId).then(
+    const preloaded = preloadedAccount(req, id);
+    (preloaded ? Promise.resolve(preloaded) : loadSignedInUser(id, req.session.workspaceId)).then(
       (found) => {
         // A deleted user simply becomes signed out.
         if (!found) return done(null, false);

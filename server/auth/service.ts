@@ -88,20 +88,39 @@ type MembershipRow = { workspace_id: number | null; role: Role | null; person_id
 const toMembership = (row: MembershipRow | undefined): ResolvedMembership | null =>
   row && row.workspace_id !== null && row.role !== null ? { workspaceId: row.workspace_id, role: row.role, personId: row.person_id ?? null } : null;
 
-/**
- * The signed-in user and their membership in one query: this runs on every signed-in request
- * (passport's deserializeUser), so it replaces a user lookup plus a membership lookup.
- * Null when the user no longer exists.
- */
-export async function loadSignedInUser(userId: number, wanted: number | undefined): Promise<{ user: Express.User; membership: ResolvedMembership | null } | null> {
-  const rows = await User.sequelize!.query<{ id: number; email: string; display_name: string } & MembershipRow>(
-    `SELECT u.id, u.email, u.display_name, ${MEMBERSHIP_COLUMNS}
-       FROM users u LEFT JOIN memberships m ON m.user_id = u.id
+/** A signed-in account as one request needs it: the user and the membership it works in. */
+export type SignedInAccount = { user: Express.User; membership: ResolvedMembership | null };
+
+type AccountRow = { uid: number | null; email: string; display_name: string } & MembershipRow;
+const ACCOUNT_COLUMNS = `u.id AS uid, u.email, u.display_name, ${MEMBERSHIP_COLUMNS}`;
+const toAccount = (row: AccountRow): SignedInAccount | null =>
+  row.uid === null ? null : { user: { id: row.uid, email: row.email, displayName: row.display_name }, membership: toMembership(row) };
+
+/** The user and their membership in one query; null when the user no longer exists. */
+export async function loadSignedInUser(userId: number, wanted: number | undefined): Promise<SignedInAccount | null> {
+  const rows = await User.sequelize!.query<AccountRow>(
+    `SELECT ${ACCOUNT_COLUMNS} FROM users u LEFT JOIN memberships m ON m.user_id = u.id
       WHERE u.id = ? ORDER BY (m.workspace_id = ?) DESC, m.id ASC LIMIT 1`,
     { replacements: [userId, wanted ?? 0], type: QueryTypes.SELECT },
   );
-  const row = rows[0];
-  return row ? { user: { id: row.id, email: row.email, displayName: row.display_name }, membership: toMembership(row) } : null;
+  return rows[0] ? toAccount(rows[0]) : null;
+}
+
+/**
+ * A live session (expired rows count as none) together with its account, in ONE query: this runs
+ * on every request, so the session read, passport's user lookup and the membership lookup share a
+ * round trip. The account is the one the row's user_id names (kept equal to the session's
+ * passport user by the store); the membership prefers the workspace the session data names.
+ */
+export async function loadSessionWithAccount(sid: string): Promise<{ data: string; account: SignedInAccount | null } | null> {
+  const rows = await User.sequelize!.query<{ data: string } & AccountRow>(
+    `SELECT s.data, ${ACCOUNT_COLUMNS}
+       FROM sessions s LEFT JOIN users u ON u.id = s.user_id LEFT JOIN memberships m ON m.user_id = u.id
+      WHERE s.sid = ? AND s.expires > ?
+      ORDER BY (m.workspace_id = JSON_VALUE(s.data, '$.workspaceId')) DESC, m.id ASC LIMIT 1`,
+    { replacements: [sid, new Date()], type: QueryTypes.SELECT },
+  );
+  return rows[0] ? { data: rows[0].data, account: toAccount(rows[0]) } : null;
 }
 
 /** The membership the session should use: the one it names if still valid, else the user's first. */

@@ -1,7 +1,9 @@
 import session from 'express-session';
 import connectSessionSequelize from 'connect-session-sequelize';
-import type { RequestHandler } from 'express';
-import { QueryTypes, type Sequelize } from 'sequelize';
+import type { Request, RequestHandler } from 'express';
+import { loadSessionWithAccount, type SignedInAccount } from './service';
+import { rememberAccount } from './load-context';
+import type { Sequelize } from 'sequelize';
 import type { Env } from '../env';
 import { initAccountModels } from './models';
 
@@ -19,6 +21,7 @@ export const SESSION_COOKIE = 'rotaloom.sid';
 const TWO_WEEKS = 14 * 24 * 60 * 60 * 1000;
 
 const SequelizeStore = connectSessionSequelize(session.Store);
+const ACCOUNT = Symbol('account read with the session');
 
 export interface SessionHandle {
   middleware: RequestHandler;
@@ -40,15 +43,23 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
       userId: data.passport?.user ?? null,
     }),
   });
-  // Read on every request: one plain SELECT instead of a model lookup (the store's own get), and
-  // an expired row counts as no session even before the periodic cleanup removes it.
+  // Read on every request: one plain SELECT that also brings the account (see
+  // loadSessionWithAccount), and an expired row counts as no session even before the periodic
+  // cleanup removes it. The account rides on the parsed session under a symbol (not saved, not
+  // hashed) until createSession, which has the request, hands it to deserializeUser.
   store.get = (sid: string, callback: (err: unknown, session?: session.SessionData | null) => void) => {
-    sequelize
-      .query<{ data: string }>('SELECT data FROM sessions WHERE sid = ? AND expires > ?', { replacements: [sid, new Date()], type: QueryTypes.SELECT })
-      .then(
-        (rows) => callback(null, rows.length ? (JSON.parse(rows[0].data) as session.SessionData) : null),
-        (err) => callback(err),
-      );
+    loadSessionWithAccount(sid).then((row) => {
+      if (!row) return callback(null, null);
+      const data = JSON.parse(row.data) as session.SessionData;
+      if (row.account) Object.defineProperty(data, ACCOUNT, { value: row.account, enumerable: false });
+      callback(null, data);
+    }, callback);
+  };
+  const createSession = store.createSession.bind(store);
+  store.createSession = (req, data) => {
+    const account = (data as { [ACCOUNT]?: SignedInAccount })[ACCOUNT];
+    if (account) rememberAccount(req as unknown as Request, account);
+    return createSession(req, data);
   };
   // Rolling sessions would otherwise write the sessions table on every read; once a minute per
   // session is plenty to keep a two-week expiry moving.
