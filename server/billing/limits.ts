@@ -1,4 +1,5 @@
-import { Op, type Transaction } from 'sequelize';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { HttpError } from '../http/errors';
 import type { RequestHandler } from 'express';
 import { Person } from '../db/models';
 import { Roster } from '../rosters/models';
@@ -49,10 +50,23 @@ export function enforcePlanLimit(limit: LimitName, adding: (req: Parameters<Requ
     const { plan } = await standingOf(workspaceId);
     const max = PLANS[plan].limits[limit];
     if (max === null) return next();
-    const current = (await usageOf(workspaceId))[limit];
-    // Bulk creates (a CSV import) say how many they would add; a plain create adds one.
-    const more = await adding(req);
-    if (more === 0 || current + more <= max) return next();
+    // Count and create must not interleave with another request of the same workspace, or two
+    // creates at 11 of 12 would both pass: the lock is held until this request's answer is sent.
+    const release = await lockLimit(workspaceId, limit);
+    let current: number, more: number;
+    try {
+      current = (await usageOf(workspaceId))[limit];
+      // Bulk creates (a CSV import) say how many they would add; a plain create adds one.
+      more = await adding(req);
+    } catch (err) {
+      await release();
+      throw err;
+    }
+    if (more === 0 || current + more <= max) {
+      res.once('close', () => void release());
+      return next();
+    }
+    await release();
     const words = LIMIT_WORDS[limit];
     const hint = req.auth?.role === 'admin' ? `Move to the ${PLANS.team.name} plan under Plan & billing to ${words.what}.` : `An admin of this workspace can move it to the ${PLANS.team.name} plan to ${words.what}.`;
     res.status(402).json({
@@ -64,6 +78,34 @@ export function enforcePlanLimit(limit: LimitName, adding: (req: Parameters<Requ
         upgrade: { plan: 'team', path: '/billing' },
       },
     });
+  };
+}
+
+const LOCK_WAIT_SECONDS = 10;
+
+/**
+ * A MariaDB named lock per workspace and limit (GET_LOCK), so it holds across server processes.
+ * Named locks belong to a connection, so a transaction keeps one connection for the lock's life;
+ * a row lock on the workspace would instead block the create's own foreign-key check.
+ */
+async function lockLimit(workspaceId: number, limit: LimitName): Promise<() => Promise<void>> {
+  const sequelize = Person.sequelize!;
+  const name = `rotaloom.limit.${workspaceId}.${limit}`;
+  const t = await sequelize.transaction();
+  const [row] = await sequelize.query<{ got: number | null }>('SELECT GET_LOCK(?, ?) AS got', { replacements: [name, LOCK_WAIT_SECONDS], type: QueryTypes.SELECT, transaction: t });
+  if (row?.got !== 1) {
+    await t.rollback();
+    throw new HttpError(409, 'conflict', 'Another change to this workspace is still being saved. Please try again in a moment.');
+  }
+  let released = false;
+  return async () => {
+    if (released) return;
+    released = true;
+    try {
+      await sequelize.query('SELECT RELEASE_LOCK(?)', { replacements: [name], type: QueryTypes.SELECT, transaction: t });
+    } finally {
+      await t.commit();
+    }
   };
 }
 

@@ -44,6 +44,17 @@ describe('plan limits, enforced by the API', () => {
     expect((await coordinator.post('/api/people').send(person(14))).status).toBe(201);
   });
 
+  it('creates sent at the same moment cannot carry a free workspace past its limit', async () => {
+    const ws = await makeWorkspace('Busy Clinic', { plan: 'free' });
+    const { agent: coordinator } = await signedIn(app, ws, 'coordinator');
+    for (let i = 1; i <= 10; i++) expect((await coordinator.post('/api/people').send(person(i))).status).toBe(201);
+    // 10 of 12: eight creates at once, so exactly two may land and six must be refused (without
+    // the lock, several read "10" before any insert and all of those passed: seen 3 and more).
+    const answers = await Promise.all([11, 12, 13, 14, 15, 16, 17, 18].map((i) => coordinator.post('/api/people').send(person(i))));
+    expect(answers.map((a) => a.status).sort()).toEqual([201, 201, 402, 402, 402, 402, 402, 402]);
+    expect((await coordinator.get('/api/people')).body.total).toBe(12);
+  });
+
   it('a CSV import cannot carry a free workspace past 12 people either', async () => {
     const ws = await makeWorkspace('Import Hall', { plan: 'free' });
     const { agent: coordinator } = await signedIn(app, ws, 'coordinator');
