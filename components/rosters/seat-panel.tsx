@@ -12,7 +12,8 @@ import { Pill } from './parts';
 import { points } from './format';
 
 const signed = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : `${x > 0 ? '+' : ''}${points(x)}`);
-const share = (p: number) => (p >= 0.995 ? 'over 99 %' : p < 0.01 ? 'under 1 %' : `${Math.round(p * 100)} %`);
+const share = (p: number) => (p >= 0.995 ? 'over 99\u00a0%' : p < 0.01 ? 'under 1\u00a0%' : `${Math.round(p * 100)}\u00a0%`);
+const change = (x: number) => (Math.abs(x) < 0.05 ? 'no change' : `${signed(x)} points`);
 
 /** The figures of one alternative in words: what was found, and at most what the bound allows. */
 export function alternativeWords(a: SeatAlternative): string {
@@ -21,9 +22,9 @@ export function alternativeWords(a: SeatAlternative): string {
     return a.impossible ? `No roster keeps every hard rule with ${who} here.` : `No roster keeping every hard rule was found with ${who} here${a.breaks[0] ? `: ${a.breaks[0]}` : '.'}`;
   }
   const moved = a.otherSeatsMoved ? ` ${a.otherSeatsMoved} other seat${a.otherSeatsMoved === 1 ? '' : 's'} change.` : ' No other seat changes.';
-  if (a.exact) return `Best roster with ${who} here: ${signed(a.scoreChange ?? 0)} points (exact).${moved}`;
+  if (a.exact) return `Best roster with ${who} here: ${change(a.scoreChange ?? 0)} (exact).${moved}`;
   const bound = a.scoreChangeAtMost === null ? '' : `; at most ${signed(a.scoreChangeAtMost)} (bound)`;
-  return `Best roster found with ${who} here: ${signed(a.scoreChange ?? 0)} points${bound}.${moved}`;
+  return `Best roster found with ${who} here: ${change(a.scoreChange ?? 0)}${bound}.${moved}`;
 }
 
 /** How much of the model's weight keeps the holder here, as a bar with the same words for screen readers. */
@@ -31,7 +32,7 @@ function ContestMeter({ contest, holder }: { contest: SeatContestAnswer; holder:
   const p = holder === null ? contest.holderProbability : contest.holderOnShiftProbability;
   const label = `${share(p)} of good rosters ${holder === null ? 'leave this seat open' : `put ${holder} on this shift`}${contest.exact ? '' : ' (approximate)'}`;
   return (
-    <View style={styles.meter} role="meter" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(p * 100)} aria-label={label} testID="seat-contest-meter">
+    <View style={styles.meter} role="meter" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(p * 100)} aria-label={label} testID="seat-panel-meter">
       <View style={[styles.meterFill, { width: `${Math.max(2, Math.round(p * 100))}%`, backgroundColor: p >= 0.9 ? colors.ok : p >= 0.5 ? colors.loom : colors.thread }]} />
     </View>
   );
@@ -51,10 +52,10 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
       {details.error ? (
         <View style={{ gap: space.sm }}>
           <Notice>{`Seat details could not be loaded: ${details.error.message}`}</Notice>
-          <Button kind="quiet" label="Try again" onPress={() => void details.refetch()} testID="seat-retry" />
+          <Button kind="quiet" label="Try again" onPress={() => void details.refetch()} testID="seat-panel-retry" />
         </View>
       ) : !d ? (
-        <View style={styles.loading} aria-busy testID="seat-loading">
+        <View style={styles.loading} aria-busy testID="seat-panel-loading">
           <ActivityIndicator color={colors.loom} accessibilityLabel="Working out the alternatives for this seat" />
           <Body muted>Working out the alternatives: each choice is tried in a whole roster, so this takes a moment.</Body>
         </View>
@@ -62,7 +63,7 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
         <View style={{ gap: space.sm }}>
           <Body bold>{`${d.current.name ?? 'Open'} · ${d.shift.words} · ${d.skill ?? 'any skill'}`}</Body>
           {d.contest && d.contest.holderProbability < 1 ? <ContestMeter contest={d.contest} holder={d.current.name} /> : null}
-          <Body muted testID="seat-contested">{d.contested}</Body>
+          <Body muted testID="seat-panel-contested">{d.contested}</Body>
           {d.pinned ? <Pill tone="good">{`Pinned to ${d.pinned.personId === null ? 'open' : (d.alternatives.find((a) => a.personId === d.pinned!.personId)?.name ?? d.current.name ?? 'this person')}`}</Pill> : null}
           <View style={styles.actions}>
             {d.pinned ? (
@@ -80,14 +81,14 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
           {d.alternatives.slice(0, all ? undefined : 6).map((a) => {
             const words = alternativeWords(a);
             return (
-              <View key={a.personId ?? 'open'} style={styles.alt} aria-label={words} testID={`seat-alt-${a.personId ?? 'open'}`}>
+              <View key={a.personId ?? 'open'} style={styles.alt} role="group" aria-label={words} testID={`seat-panel-alt-${a.personId ?? 'open'}`}>
                 <Body style={{ flex: 1, minWidth: 140 }}>{a.name ?? 'Leave open'}</Body>
                 {a.feasible ? (
-                  <Pill tone={(a.scoreChange ?? 0) >= -0.05 ? 'good' : 'warn'}>{Math.abs(a.scoreChange ?? 0) < 0.05 ? 'no change' : `${signed(a.scoreChange ?? 0)} points`}</Pill>
+                  <Pill tone={(a.scoreChange ?? 0) >= -0.05 ? 'good' : 'warn'}>{change(a.scoreChange ?? 0)}</Pill>
                 ) : (
                   <Pill tone="bad">breaks a hard rule</Pill>
                 )}
-                {a.feasible && !frozen ? <Button kind="quiet" label={`Pin ${a.name ?? 'open'}`} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
+                {a.feasible && !frozen ? <Button kind="quiet" label={a.name ? `Pin ${a.name}` : 'Pin it open'} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
                 <Body muted style={{ width: '100%', fontSize: 13 }}>{words}</Body>
               </View>
             );

@@ -4,7 +4,7 @@ import { parseRosterId, rosterIds } from '../rosters/ids';
 import { AssignmentRow, PinRow, RunRow } from '../rosters/models';
 import { buildEngine, type Engine } from '../../solver/inference/engine';
 import { solveMap } from '../../solver/inference/solve';
-import { compileRoster, decodeAssignment, encodeAssignment, OPEN, scoreRoster, type CompiledRoster } from '../../solver/roster';
+import { compileRoster, decodeAssignment, encodeAssignment, makeRosterScorer, OPEN, type CompiledRoster } from '../../solver/roster';
 import { describeShift, shiftFacts } from '../../shared/roster/derive';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import type { SeatAlternativesAnswer, SeatContestAnswer } from '../../shared/api/seat-alternatives';
@@ -23,7 +23,7 @@ const REPAIR_BUDGET_MS = 600;
  * the dual state for the bounds. All unpinned seats of a run share one entry; a pinned seat (its
  * own pin lifted) has its own. A few entries only: an engine of a large roster is big.
  */
-type Prepared = { compiled: CompiledRoster; E: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
+type Prepared = { compiled: CompiledRoster; score: ReturnType<typeof makeRosterScorer>; E: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
 const models = new Map<string, Promise<Prepared>>();
 const MAX_MODELS = 4;
 /** Finished answers per run, seat and roster state (the same roster state gives the same answer). */
@@ -59,19 +59,15 @@ async function prepare(key: string, roster: Roster, assignment: RosterAssignment
     const E = buildEngine(compiled.model);
     // Bounds come from a short dual (MPLP) pass started from the run's roster; exact cases need none.
     const dual = exactlySolvable(E) ? null : await solveMap(compiled.model, { timeLimitMs: DUAL_MS, initial: enc.values, localSearch: false, seed: 1 });
-    return { compiled, E, x: enc.values, dual: dual ? { bound: dual.bound, beliefs: dual.beliefs } : null };
+    return { compiled, score: makeRosterScorer(roster), E, x: enc.values, dual: dual ? { bound: dual.bound, beliefs: dual.beliefs } : null };
   })();
   remember(models, key, work, MAX_MODELS);
   work.catch(() => models.delete(key));
   return work;
 }
 
-const pts = (x: number) => {
-  const a = Math.abs(x);
-  const s = a < 10 ? a.toFixed(1) : String(Math.round(a));
-  return `${x < -1e-9 ? '−' : x > 1e-9 ? '+' : ''}${s}`;
-};
-const pct = (p: number) => (p >= 0.995 ? 'over 99 %' : p < 0.01 ? 'under 1 %' : `${Math.round(p * 100)} %`);
+// a no-break space keeps "17 %" on one line
+const pct = (p: number) => (p >= 0.995 ? 'over 99\u00a0%' : p < 0.01 ? 'under 1\u00a0%' : `${Math.round(p * 100)}\u00a0%`);
 
 /** "How contested" in words, from the marginals the run worker kept (server/runs/contest.ts). */
 function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boolean, holderName: string | null, name: (id: string | null) => string | null): { words: string; detail: SeatContestAnswer | null } {
@@ -129,12 +125,13 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
   const cached = answers.get(answerKey);
   if (cached) return { ...cached, cached: true, timeMs: Date.now() - started };
 
-  const base = scoreRoster(roster, assignment);
+  const prepared = prepare(`${workspaceId}:${runId}:${digest}`, roster, assignment);
+  const base = (await prepared).score(assignment);
   if (!base.feasible) {
     const first = base.violations.find((v) => v.hard)?.message ?? 'a hard rule';
     throw new HttpError(409, 'conflict', `With the roster as it stands now, this run's roster breaks a hard rule (${first}). Solve again to weigh alternatives.`);
   }
-  const { compiled, E, x, dual } = await prepare(`${workspaceId}:${runId}:${digest}`, roster, assignment);
+  const { compiled, E, x, dual, score: scoreRoster } = await prepared;
   const i = compiled.seatIndex.get(seatKey)!;
   const forced = await forcedValues(compiled.model, E, x, i, dual, { budgetMs: REPAIR_BUDGET_MS, seed: 1 });
 
@@ -144,7 +141,7 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
       const p = compiled.domains[i][f.value];
       const personKey = p === OPEN ? null : roster.people[p].id;
       const next = decodeAssignment(compiled, f.assignment).assignment;
-      const check = scoreRoster(roster, next);
+      const check = scoreRoster(next);
       const moved = Object.keys(next).filter((s) => s !== seatKey && (next[s] ?? null) !== (assignment[s] ?? null)).length;
       const change = check.feasible ? check.total - base.total : null;
       const atMost = f.bound === Infinity ? null : f.bound === -Infinity ? null : f.bound - base.total;
@@ -187,7 +184,7 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
     exact,
     methodWords: exact
       ? 'Max-marginals, exact (every roster considered): for each choice, the best whole roster with that choice in this seat, against this run’s roster. Other seats may change to make room.'
-      : `For each choice: the best roster found with it in this seat (the rest of the roster re-arranged around it by local search), against this run’s roster — achievable as shown — and the most it could be at all, from the solver’s dual bound. The true best lies between the two; a wide range means the bound is loose, not that a big gain is likely.`,
+      : 'Each choice is put in this seat and the rest of the roster re-arranged around it: the change found (a roster that exists) and the most any roster could gain (the solver’s dual bound). The true best lies between; a wide range means a loose bound, not a likely gain.',
     contested: contested.words,
     contest: contested.detail,
     ignoredPins,

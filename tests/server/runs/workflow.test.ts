@@ -236,7 +236,7 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     expect(bram.scoreChange).toBeCloseTo(0, 6);
     expect(bram.otherSeatsMoved).toBeGreaterThanOrEqual(1);
     // The two Tuesday seats are interchangeable: about half of the weight puts her in this very seat, nearly all on the shift.
-    expect(res.contested).toMatch(/^Settled: over 99 % of good rosters put Aurélie .* on this shift \(50 % in this very seat/);
+    expect(res.contested).toMatch(/^Settled: over 99\s% of good rosters put Aurélie .* on this shift \(50\s% in this very seat/);
     // A second request is answered from memory, with the same figures.
     const again = (await coordinator.get(`/api/runs/${runId}/seats/${hers.id.slice(2)}/alternatives`)).body;
     expect(again.cached).toBe(true);

@@ -1,0 +1,105 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+
+const ROSTER = 'Willowmere House, January 2027';
+
+async function signIn(page: Page) {
+  await page.goto('/');
+  await page.getByLabel('E-mail').fill('coordinator@willowmere.example');
+  await page.getByLabel('Password').fill('willowmere-demo');
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
+
+/**
+ * Seat details as a coordinator reads them: the seat's holder, how contested the seat is in words
+ * (with the meter), and each alternative with the best change found and the bound above it.
+ * Uses the newest finished run of the demo roster, solving one first when there is none (a roster
+ * published by the workflow test keeps its run, and reading alternatives needs no changes).
+ */
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('seat details at %s size', (label, viewport) => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('shows who is on a seat, how contested it is and the alternatives with both figures', { timeout: 300_000 }, async () => {
+    const { page, problems, close } = await openPage(browser, viewport);
+    const shot = (name: string) => screenshot(page, `seat-details-${label}-${name}`);
+    await signIn(page);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
+    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
+    await page.getByRole('heading', { name: ROSTER }).waitFor();
+
+    await page.getByTestId('section-result').click();
+    const summary = page.getByTestId('result-summary');
+    const hasRun = await summary.waitFor({ timeout: 10_000 }).then(
+      () => true,
+      () => false,
+    );
+    if (!hasRun) {
+      await page.getByTestId('section-solve').click();
+      await page.getByTestId('solve-seconds').fill('3');
+      await page.getByTestId('solve-start').click();
+      await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
+      await page.getByTestId('run-show-result').click();
+      await summary.waitFor();
+    }
+    await page.getByTestId('day-list').waitFor();
+
+    // The first filled seat of the first day that is not pinned.
+    const chips = page.locator('[data-testid^="seat-"]:not([data-testid^="seat-p"]):not([data-testid^="seat-u"]):not([data-testid^="seat-s"])');
+    await chips.first().waitFor();
+    let chosen = -1;
+    for (let i = 0; i < (await chips.count()); i++) {
+      const text = (await chips.nth(i).textContent()) ?? '';
+      if (!text.startsWith('Pinned') && !text.startsWith('Open')) {
+        chosen = i;
+        break;
+      }
+    }
+    expect(chosen, 'a filled, unpinned seat on the first day').toBeGreaterThanOrEqual(0);
+    const chip = chips.nth(chosen);
+    const holder = ((await chip.textContent()) ?? '').trim();
+    await chip.scrollIntoViewIfNeeded();
+    await chip.click();
+    const panel = page.getByTestId('seat-panel');
+    await panel.waitFor();
+    await panel.getByText('Alternatives', { exact: true }).waitFor({ timeout: 60_000 });
+    // the top of the panel: holder, how contested, pin
+    await panel.evaluate((el) => el.scrollIntoView({ block: 'start' }));
+    await shot('01-panel');
+
+    // How contested, in words, with the method's label (the demo is loopy: approximate).
+    const contested = (await panel.getByTestId('seat-panel-contested').textContent()) ?? '';
+    expect(contested).toMatch(/^(Settled|Leaning|Contested): .* of good rosters .*approximate: loopy sum-product/);
+    expect(holder.startsWith(contested.split(' put ')[1]?.split(' on this shift')[0] ?? '—')).toBe(true);
+    const meter = panel.getByRole('meter');
+    expect(await meter.getAttribute('aria-label')).toMatch(/of good rosters .* \(approximate\)$/);
+
+    // Each alternative says what was found and the bound above it, for screen readers too.
+    const rows = panel.locator('[data-testid^="seat-panel-alt-"]');
+    expect(await rows.count()).toBeGreaterThan(0);
+    const first = (await rows.first().getAttribute('aria-label')) ?? '';
+    expect(first).toMatch(/^Best roster found with .+ here: (no change|[−+][\d,]+(\.\d)? points); at most [−+]?[\d,]+(\.\d)? \(bound\)\./);
+    expect(await panel.getByText(/dual bound/).count()).toBe(1);
+    const rowBox = await rows.first().boundingBox();
+    expect(rowBox!.width).toBeLessThanOrEqual(viewport.width);
+    await rows.first().scrollIntoViewIfNeeded();
+    await shot('02-alternatives');
+
+    // Closing and opening again is answered from the query cache at once (no spinner).
+    await chip.click();
+    await chip.click();
+    await panel.getByText('Alternatives', { exact: true }).waitFor({ timeout: 5_000 });
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
