@@ -18,6 +18,10 @@ const change = (x: number) => (Math.abs(x) < 0.05 ? 'no change' : `${signed(x)} 
 /** The figures of one alternative in words: what was found, and at most what the bound allows. */
 export function alternativeWords(a: SeatAlternative): string {
   const who = a.name ?? 'the seat left open';
+  if (!a.evaluated) {
+    if (a.impossible) return `No roster keeps every hard rule with ${who} here (dual bound).`;
+    return `Not tried in the time allowed${a.scoreChangeAtMost === null ? '.' : `; at most ${signed(a.scoreChangeAtMost)} (bound).`}`;
+  }
   if (!a.feasible) {
     return a.impossible ? `No roster keeps every hard rule with ${who} here.` : `No roster keeping every hard rule was found with ${who} here${a.breaks[0] ? `: ${a.breaks[0]}` : '.'}`;
   }
@@ -85,8 +89,10 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
                 <Body style={{ flex: 1, minWidth: 140 }}>{a.name ?? 'Leave open'}</Body>
                 {a.feasible ? (
                   <Pill tone={(a.scoreChange ?? 0) >= -0.05 ? 'good' : 'warn'}>{change(a.scoreChange ?? 0)}</Pill>
-                ) : (
+                ) : a.evaluated || a.impossible ? (
                   <Pill tone="bad">breaks a hard rule</Pill>
+                ) : (
+                  <Pill>not tried</Pill>
                 )}
                 {a.feasible && !frozen ? <Button kind="quiet" label={a.name ? `Pin ${a.name}` : 'Pin it open'} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
                 <Body muted style={{ width: '100%', fontSize: 13 }}>{words}</Body>

@@ -2,30 +2,14 @@ import { createHash } from 'node:crypto';
 import { HttpError } from '../http/errors';
 import { parseRosterId, rosterIds } from '../rosters/ids';
 import { AssignmentRow, PinRow, RunRow } from '../rosters/models';
-import { buildEngine, type Engine } from '../../solver/inference/engine';
-import { solveMap } from '../../solver/inference/solve';
-import { compileRoster, decodeAssignment, encodeAssignment, makeRosterScorer, OPEN, type CompiledRoster } from '../../solver/roster';
 import { describeShift, shiftFacts } from '../../shared/roster/derive';
-import type { Roster, RosterAssignment } from '../../shared/roster/schema';
+import type { Roster } from '../../shared/roster/schema';
 import type { SeatAlternativesAnswer, SeatContestAnswer } from '../../shared/api/seat-alternatives';
 import { finite } from './execute';
-import { exactlySolvable, forcedValues } from './max-marginals';
+import { computeInThread, stopAlternativesThread } from './alternatives-pool';
 import { loadContest, type RunContest } from './contest';
 import { runAssignment } from './run-view';
 
-/** Time for the short dual pass behind the upper bounds (demo: 500 ms reaches 239.6 against 238.6 after the run's 3 s). */
-const DUAL_MS = 600;
-/** Time for repairing every candidate of one seat together (each gets an equal share, 8–60 ms). */
-const REPAIR_BUDGET_MS = 600;
-
-/**
- * Per run and roster as it stands: the compiled model, its engine, the run's roster encoded and
- * the dual state for the bounds. All unpinned seats of a run share one entry; a pinned seat (its
- * own pin lifted) has its own. A few entries only: an engine of a large roster is big.
- */
-type Prepared = { compiled: CompiledRoster; score: ReturnType<typeof makeRosterScorer>; E: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
-const models = new Map<string, Promise<Prepared>>();
-const MAX_MODELS = 4;
 /** Finished answers per run, seat and roster state (the same roster state gives the same answer). */
 const answers = new Map<string, SeatAlternativesAnswer>();
 const MAX_ANSWERS = 500;
@@ -36,34 +20,10 @@ function remember<T>(cache: Map<string, T>, key: string, value: T, max: number):
   return value;
 }
 
-/** The answers kept in memory are dropped when tests need a cold measurement. */
+/** Drops the answers kept in memory and ends the thread with its models (a cold start, for measurements). */
 export function forgetSeatAlternatives(): void {
-  models.clear();
   answers.clear();
-}
-
-async function prepare(key: string, roster: Roster, assignment: RosterAssignment): Promise<Prepared> {
-  const hit = models.get(key);
-  if (hit) {
-    models.delete(key);
-    models.set(key, hit);
-    return hit;
-  }
-  const work = (async () => {
-    const compiled = compileRoster(roster);
-    const enc = encodeAssignment(compiled, assignment);
-    if (!enc.ok) {
-      const names = enc.seats.slice(0, 3).map((s) => `seat ${parseRosterId('st', s)}`).join(', ');
-      throw new HttpError(409, 'conflict', `The roster changed since this run in a way its roster no longer fits (${names}: the person there may no longer have the skill, or has a "cannot" wish). Solve again to weigh alternatives.`);
-    }
-    const E = buildEngine(compiled.model);
-    // Bounds come from a short dual (MPLP) pass started from the run's roster; exact cases need none.
-    const dual = exactlySolvable(E) ? null : await solveMap(compiled.model, { timeLimitMs: DUAL_MS, initial: enc.values, localSearch: false, seed: 1 });
-    return { compiled, score: makeRosterScorer(roster), E, x: enc.values, dual: dual ? { bound: dual.bound, beliefs: dual.beliefs } : null };
-  })();
-  remember(models, key, work, MAX_MODELS);
-  work.catch(() => models.delete(key));
-  return work;
+  stopAlternativesThread();
 }
 
 // a no-break space keeps "17 %" on one line
@@ -125,42 +85,37 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
   const cached = answers.get(answerKey);
   if (cached) return { ...cached, cached: true, timeMs: Date.now() - started };
 
-  const prepared = prepare(`${workspaceId}:${runId}:${digest}`, roster, assignment);
-  const base = (await prepared).score(assignment);
-  if (!base.feasible) {
-    const first = base.violations.find((v) => v.hard)?.message ?? 'a hard rule';
-    throw new HttpError(409, 'conflict', `With the roster as it stands now, this run's roster breaks a hard rule (${first}). Solve again to weigh alternatives.`);
+  const computed = await computeInThread({ modelKey: `${workspaceId}:${runId}:${digest}`, roster, assignment, seatKey });
+  if (computed.kind === 'encode-failed') {
+    const names = computed.seats.slice(0, 3).map((s) => `seat ${parseRosterId('st', s)}`).join(', ');
+    throw new HttpError(409, 'conflict', `The roster changed since this run in a way its roster no longer fits (${names}: the person there may no longer have the skill, or has a "cannot" wish). Solve again to weigh alternatives.`);
   }
-  const { compiled, E, x, dual, score: scoreRoster } = await prepared;
-  const i = compiled.seatIndex.get(seatKey)!;
-  const forced = await forcedValues(compiled.model, E, x, i, dual, { budgetMs: REPAIR_BUDGET_MS, seed: 1 });
-
+  if (computed.kind === 'infeasible') {
+    throw new HttpError(409, 'conflict', `With the roster as it stands now, this run's roster breaks a hard rule (${computed.firstHard}). Solve again to weigh alternatives.`);
+  }
   const name = (id: string | null) => (id === null ? null : (roster.people.find((p) => p.id === id)?.name ?? id));
-  const alternatives = forced
-    .map((f) => {
-      const p = compiled.domains[i][f.value];
-      const personKey = p === OPEN ? null : roster.people[p].id;
-      const next = decodeAssignment(compiled, f.assignment).assignment;
-      const check = scoreRoster(next);
-      const moved = Object.keys(next).filter((s) => s !== seatKey && (next[s] ?? null) !== (assignment[s] ?? null)).length;
-      const change = check.feasible ? check.total - base.total : null;
-      const atMost = f.bound === Infinity ? null : f.bound === -Infinity ? null : f.bound - base.total;
-      return {
-        personId: personKey === null ? null : parseRosterId('p', personKey),
-        name: name(personKey),
-        feasible: check.feasible,
-        scoreChange: change === null ? null : finite(change),
-        // the bound is never below what was found (rounding of the dual aside)
-        scoreChangeAtMost: atMost === null ? null : finite(change === null ? atMost : Math.max(atMost, change)),
-        exact: f.how === 'exact',
-        otherSeatsMoved: check.feasible ? moved : 0,
-        breaks: check.feasible ? [] : check.violations.filter((v) => v.hard).slice(0, 3).map((v) => v.message),
-        impossible: f.how === 'exact' && !check.feasible,
-      };
-    })
-    .sort((a, b) => Number(b.feasible) - Number(a.feasible) || (b.scoreChange ?? -Infinity) - (a.scoreChange ?? -Infinity) || (b.scoreChangeAtMost ?? Infinity) - (a.scoreChangeAtMost ?? Infinity));
+  const alternatives = computed.alternatives
+    .map((a) => ({
+      personId: a.personKey === null ? null : parseRosterId('p', a.personKey),
+      name: name(a.personKey),
+      evaluated: a.evaluated,
+      feasible: a.feasible,
+      scoreChange: a.change === null ? null : finite(a.change),
+      scoreChangeAtMost: a.atMost === null ? null : finite(a.atMost),
+      exact: a.exact,
+      otherSeatsMoved: a.moved,
+      breaks: a.breaks,
+      impossible: a.impossible,
+    }))
+    .sort(
+      (a, b) =>
+        Number(b.feasible) - Number(a.feasible) ||
+        Number(b.evaluated) - Number(a.evaluated) ||
+        (b.scoreChange ?? -Infinity) - (a.scoreChange ?? -Infinity) ||
+        (b.scoreChangeAtMost ?? Infinity) - (a.scoreChangeAtMost ?? Infinity),
+    );
 
-  const exact = forced.every((f) => f.how === 'exact');
+  const exact = alternatives.every((a) => a.exact);
   const facts = shiftFacts(roster);
   const shiftIndex = roster.shifts.findIndex((s) => s.id === seat.shift);
   const shift = roster.shifts[shiftIndex];
@@ -179,7 +134,7 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
     skill: seat.skill ? (roster.skills.find((k) => k.id === seat.skill)?.name ?? seat.skill) : null,
     current: { personId: current === null ? null : parseRosterId('p', current), name: name(current) },
     pinned: pin ? { personId: pin.personId ?? null } : null,
-    score: finite(base.total),
+    score: finite(computed.baseTotal),
     method: 'max-marginal',
     exact,
     methodWords: exact

@@ -22,8 +22,10 @@ export interface ForcedValue {
   /** Upper bound on the best score with the variable at this value (= score when exact); Infinity when unknown. */
   bound: number;
   how: 'exact' | 'repair';
+  /** False when the time ran out before this value was tried (score -Infinity, no assignment; the bound still holds). */
+  evaluated: boolean;
   /** The roster behind `score` (model values), also when it breaks a hard rule (to say which). */
-  assignment: Int32Array;
+  assignment: Int32Array | null;
 }
 
 /** The same test solver/explain and solveMap use to choose enumeration or the tree pass. */
@@ -42,7 +44,7 @@ export async function forcedValues(
   base: Int32Array,
   i: number,
   dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null,
-  options: { budgetMs: number; seed: number },
+  options: { budgetMs: number; seed: number; /** Stop repairing at this time (Date.now()); values not reached are listed unevaluated. */ deadline?: number },
 ): Promise<ForcedValue[]> {
   const cur = base[i]!;
   const values = Array.from({ length: model.variables[i]!.cardinality }, (_, x) => x).filter((x) => x !== cur);
@@ -52,7 +54,7 @@ export async function forcedValues(
       const r = solveMapSync({ ...model, factors: [...model.factors, forceValue(model, i, x)] }, { method: 'auto', seed: options.seed, timeLimitMs: 60_000 });
       const assignment = Int32Array.from(r.assignment);
       // optimal and infeasible means no roster with x keeps every hard rule
-      out.push({ value: x, score: r.score, bound: r.optimal ? r.score : Infinity, how: r.optimal ? 'exact' : 'repair', assignment });
+      out.push({ value: x, score: r.score, bound: r.optimal ? r.score : Infinity, how: r.optimal ? 'exact' : 'repair', evaluated: true, assignment });
       await pause();
     }
     return out;
@@ -68,7 +70,14 @@ export async function forcedValues(
   const repairMs = Math.max(8, Math.min(60, Math.floor(options.budgetMs / Math.max(1, values.length))));
   const fixed = new Uint8Array(E.n);
   fixed[i] = 1;
+  // Most promising first by the bound, so a deadline cuts the least promising; one local-search
+  // pass over a large roster takes over 100 ms (60 people × 13 weeks), whatever repairMs says.
+  values.sort((p, q) => upper(q) - upper(p) || p - q);
   for (const x of values) {
+    if (options.deadline !== undefined && Date.now() > options.deadline) {
+      out.push({ value: x, score: -Infinity, bound: upper(x), how: 'repair', evaluated: false, assignment: null });
+      continue;
+    }
     const start = Int32Array.from(base);
     start[i] = x;
     const ls = new LocalSearch(E, start, rng(options.seed), fixed);
@@ -76,7 +85,7 @@ export async function forcedValues(
     const s = score(model, ls.x);
     const u = upper(x);
     // the repaired roster is achievable, so it also bounds the bound from below (rounding of the dual)
-    out.push({ value: x, score: s, bound: u === -Infinity && s === -Infinity ? -Infinity : Math.max(u, s), how: 'repair', assignment: Int32Array.from(ls.x) });
+    out.push({ value: x, score: s, bound: u === -Infinity && s === -Infinity ? -Infinity : Math.max(u, s), how: 'repair', evaluated: true, assignment: Int32Array.from(ls.x) });
     await pause();
   }
   return out;

@@ -6,6 +6,8 @@
 export interface SeatAlternative {
   personId: number | null;
   name: string | null;
+  /** False when the time ran out before this choice was tried (large rosters); only the bound is known then. */
+  evaluated: boolean;
   /** A roster with this choice was found that keeps every hard rule. */
   feasible: boolean;
   /** Best roster found with this choice in the seat, minus the run's roster (the max-marginal when `exact`). */
@@ -17,7 +19,7 @@ export interface SeatAlternative {
   otherSeatsMoved: number;
   /** Hard rules the best roster found with this choice breaks (when not feasible). */
   breaks: string[];
-  /** Proven: no roster with this choice keeps every hard rule. */
+  /** Proven (exactly, or by the dual bound): no roster with this choice keeps every hard rule. */
   impossible: boolean;
 }
 
