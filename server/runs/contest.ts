@@ -65,7 +65,19 @@ export async function saveContest(sequelize: Sequelize, runId: number, contest: 
   await sequelize.query('UPDATE runs SET contest = ? WHERE id = ?', { replacements: [contest === null ? null : JSON.stringify(contest), runId], transaction });
 }
 
+/** Written once with the run, so kept in memory for the next seat of the same run (up to 240 KB each for 60 × 13 weeks). */
+const loaded = new Map<string, RunContest | null>();
+
 export async function loadContest(sequelize: Sequelize, workspaceId: number, runId: number): Promise<RunContest | null> {
+  const key = `${workspaceId}:${runId}`;
+  if (loaded.has(key)) return loaded.get(key)!;
+  const contest = await readContest(sequelize, workspaceId, runId);
+  loaded.set(key, contest);
+  if (loaded.size > 20) loaded.delete(loaded.keys().next().value!);
+  return contest;
+}
+
+async function readContest(sequelize: Sequelize, workspaceId: number, runId: number): Promise<RunContest | null> {
   const rows = await sequelize.query<{ contest: string | RunContest | null }>('SELECT contest FROM runs WHERE id = ? AND workspace_id = ?', { replacements: [runId, workspaceId], type: QueryTypes.SELECT });
   const raw = rows[0]?.contest ?? null;
   return typeof raw === 'string' ? (JSON.parse(raw) as RunContest) : raw;

@@ -90,7 +90,7 @@ describe.each([
     expect(await panel.getByText(/dual bound/).count()).toBe(1);
     const rowBox = await rows.first().boundingBox();
     expect(rowBox!.width).toBeLessThanOrEqual(viewport.width);
-    await rows.first().scrollIntoViewIfNeeded();
+    await rows.nth(Math.min(4, (await rows.count()) - 1)).evaluate((el) => el.scrollIntoView({ block: 'end' }));
     await shot('02-alternatives');
 
     // Closing and opening again is answered from the query cache at once (no spinner).
