@@ -1,8 +1,7 @@
 import { buildEngine, type Engine } from '../../solver/inference/engine';
-import { solveMap } from '../../solver/inference/solve';
 import { compileRoster, decodeAssignment, encodeAssignment, makeRosterScorer, OPEN, type CompiledRoster } from '../../solver/roster';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
-import { exactlySolvable, forcedValues } from './max-marginals';
+import { dualPass, exactlySolvable, forcedValues } from './max-marginals';
 
 /** Time for the short dual pass behind the upper bounds (demo: 500 ms reaches 239.6 against 238.6 after the run's 3 s). */
 const DUAL_MS = 600;
@@ -60,8 +59,8 @@ function prepare(key: string, roster: Roster, assignment: RosterAssignment): Pro
     if (!enc.ok) return { seats: enc.seats };
     const E = buildEngine(compiled.model);
     // Bounds come from a short dual (MPLP) pass started from the run's roster; exact cases need none.
-    const dual = exactlySolvable(E) ? null : await solveMap(compiled.model, { timeLimitMs: DUAL_MS, initial: enc.values, localSearch: false, seed: 1 });
-    return { compiled, score: makeRosterScorer(roster), E, x: enc.values, dual: dual ? { bound: dual.bound, beliefs: dual.beliefs } : null };
+    const dual = exactlySolvable(E) ? null : await dualPass(compiled.model, enc.values, DUAL_MS);
+    return { compiled, score: makeRosterScorer(roster), E, x: enc.values, dual };
   })();
   models.set(key, work);
   if (models.size > MAX_MODELS) models.delete(models.keys().next().value!);

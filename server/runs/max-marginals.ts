@@ -2,7 +2,7 @@ import type { Factor, Model } from '../../solver/model/types';
 import { score } from '../../solver/model/score';
 import { isForest, log10States, type Engine } from '../../solver/inference/engine';
 import { LocalSearch, rng } from '../../solver/inference/local-search';
-import { solveMapSync } from '../../solver/inference/solve';
+import { solveMap, solveMapSync } from '../../solver/inference/solve';
 
 /**
  * Max-marginals of one variable, with the roster each figure comes from (so the server can decode
@@ -30,6 +30,17 @@ export interface ForcedValue {
 
 /** The same test solver/explain and solveMap use to choose enumeration or the tree pass. */
 export const exactlySolvable = (E: Engine): boolean => log10States(E) <= 5.3 || isForest(E);
+
+/**
+ * A short MPLP pass from the run's roster, for the bounds. Branch and bound stays off: it can
+ * certify the optimum and report that as the bound, and bound − max b_i + b_i(v) is only an
+ * upper bound with the dual bound of the state the beliefs come from (with branch and bound on,
+ * 2 of 1,050 bounds fell below the enumerated max-marginal on 25 random 7 × 7 models, measured).
+ */
+export async function dualPass(model: Model, initial: Int32Array, timeLimitMs: number): Promise<{ bound: number; beliefs: Float64Array[] | null | undefined }> {
+  const r = await solveMap(model, { timeLimitMs, initial, localSearch: false, branchAndBoundMaxVars: 0, seed: 1 });
+  return { bound: r.bound, beliefs: r.beliefs };
+}
 
 const pause = () => new Promise<void>((r) => setImmediate(r));
 
