@@ -1,6 +1,6 @@
 import type { CompiledRoster, decodeAssignment, scoreRoster } from '../../solver/roster';
 import { solveRoster } from '../../solver/roster/solve-roster';
-import type { Roster } from '../../shared/roster/schema';
+import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 
 export interface RunProgress {
   iteration: number;
@@ -41,14 +41,18 @@ export async function executeRun(
   params: { timeLimitSeconds: number; seed: number },
   onProgress: (p: RunProgress) => void,
   signal: AbortSignal,
+  /** The roster to start from (server/runs/previous-start.ts); the greedy one when it scores better. */
+  start?: RosterAssignment,
 ): Promise<{ ok: true; outcome: RunOutcome; compiled: CompiledRoster } | { ok: false; reasons: string[] }> {
   if (roster.seats.length === 0) return { ok: false, reasons: ['This roster has no shifts yet: add a shift pattern or a shift first.'] };
-  // solveRoster checks feasibility in words first, then starts max-product from a greedy roster.
+  // solveRoster checks feasibility in words first, then starts max-product from the better of the
+  // given start and a greedy roster.
   const solved = await solveRoster(
     roster,
     {
       timeLimitMs: params.timeLimitSeconds * 1000,
       seed: params.seed,
+      start,
       progressEveryMs: 250,
       onProgress: (p) => onProgress({ iteration: p.iteration, score: p.score, bound: p.bound, gap: p.gap, elapsedMs: p.timeMs }),
     },

@@ -2,7 +2,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { computeMarginals } from '../../solver/inference/marginals';
 import { executeRun } from './execute';
 import { summariseContest } from './contest';
-import type { Roster } from '../../shared/roster/schema';
+import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 
 /**
  * Runs one solve off the server's event loop. Messages out: progress, then done or failed; after
@@ -16,8 +16,8 @@ parentPort!.on('message', (msg) => {
   if (msg === 'cancel') controller.abort();
 });
 
-const { roster, params } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number; marginalsMs?: number } };
-executeRun(roster, params, (progress) => parentPort!.postMessage({ type: 'progress', progress }), controller.signal)
+const { roster, params, start } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number; marginalsMs?: number }; start?: RosterAssignment };
+executeRun(roster, params, (progress) => parentPort!.postMessage({ type: 'progress', progress }), controller.signal, start)
   .then((result) => {
     parentPort!.postMessage(result.ok ? { type: 'done', outcome: result.outcome } : { type: 'failed', reasons: result.reasons });
     if (result.ok && params.marginalsMs) {

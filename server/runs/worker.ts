@@ -9,6 +9,8 @@ import { Roster, RunRow, AssignmentRow, PinRow } from '../rosters/models';
 import { finite, type RunOutcome, type RunProgress } from './execute';
 import { summariseOutcome } from './summary';
 import { saveContest, type RunContest } from './contest';
+import { previousStart } from './previous-start';
+import type { RosterAssignment } from '../../shared/roster/schema';
 
 export interface RunWorkerOptions {
   /** Names this worker in `runs.claimed_by`. */
@@ -109,7 +111,8 @@ export class RunWorker {
         const text = parsed.issues.slice(0, 10).map((i) => `${i.path}: ${i.message}`).join('\n');
         return void (await this.finish(id, { status: 'failed', error: `The roster has problems to fix first:\n${text}` }));
       }
-      const result = await this.runThread(id, parsed.roster, run.parameters);
+      const start = await previousStart(run.workspaceId, run.rosterId, id, parsed.roster);
+      const result = await this.runThread(id, parsed.roster, run.parameters, start);
       if (result.type === 'failed') return void (await this.finish(id, { status: 'failed', error: result.reasons.join('\n') }));
       if (result.type === 'error') return void (await this.finish(id, { status: 'failed', error: `The solver stopped with an error: ${result.message}` }));
       const outcome = result.outcome;
@@ -155,6 +158,7 @@ export class RunWorker {
     id: number,
     roster: unknown,
     params: { timeLimitSeconds: number; seed: number },
+    start: RosterAssignment | undefined,
   ): Promise<{ type: 'done'; outcome: RunOutcome; contest: RunContest | null } | { type: 'failed'; reasons: string[] } | { type: 'error'; message: string }> {
     // After the solve, the thread computes how contested each seat is (sum-product marginals) for
     // up to marginalsMs; past that plus a margin for building its engine the thread is ended and the
@@ -163,7 +167,7 @@ export class RunWorker {
     let solved: RunOutcome | null = null;
     let contestTimer: ReturnType<typeof setTimeout> | undefined;
     return new Promise((resolve) => {
-      const thread = new Worker(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs } } });
+      const thread = new Worker(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs }, start } });
       this.thread = thread;
       let lastWrite = 0;
       let settled = false;

@@ -5,6 +5,7 @@
  */
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { solveMap, type MapOptions, type MapResult } from '../inference';
+import { score as modelScore } from '../model/score';
 import { compileRoster, type CompiledRoster } from './compile';
 import { decodeAssignment, encodeAssignment, type DecodedRoster } from './decode';
 import { explainInfeasible } from './explain-infeasible';
@@ -25,7 +26,7 @@ export type SolveRosterResult =
 /**
  * Solve a roster. `start`, when given, is a filled roster to start from (e.g. the published
  * one, or a coordinator's edit); seats it cannot express (someone no longer eligible) fall
- * back to the greedy start. Other MapOptions pass through (time limit, seed, onProgress…).
+ * back to the greedy start, as does a start that scores below it. Other MapOptions pass through (time limit, seed, onProgress…).
  */
 export async function solveRoster(
   roster: Roster,
@@ -38,8 +39,10 @@ export async function solveRoster(
   const { start, ...mapOptions } = options;
   let initial = greedyAssignment(compiled);
   if (start) {
+    // The given roster (e.g. the previous run with today's pins) wins unless greedy scores better:
+    // a pin it does not follow, or a seat it cannot express, makes it lose.
     const enc = encodeAssignment(compiled, start);
-    if (enc.ok) initial = enc.values;
+    if (enc.ok && modelScore(compiled.model, enc.values) >= modelScore(compiled.model, initial)) initial = enc.values;
   }
   const result = await solveMap(compiled.model, { ...mapOptions, initial: mapOptions.initial ?? initial }, signal);
   const decoded = decodeAssignment(compiled, result.assignment);
