@@ -248,7 +248,9 @@ export function encodeMip(model: Model, opts: { relax?: boolean } = {}): MipEnco
   const lines: string[] = ['Maximize', ' obj:'];
   for (let k = 0; k < objTerms.length; k += 8) lines.push('  ' + objTerms.slice(k, k + 8).join(' '));
   const relaxed = opts.relax ? binaries.map((n) => ` 0 <= ${n} <= 1`) : [];
-  lines.push('Subject To', ...rows, 'Bounds', ...upper, ...relaxed, ...free.map((n) => ` ${n} free`));
+  // (concat, not spread: large models have more rows than a call's argument limit)
+  lines.push('Subject To');
+  for (const part of [rows, ['Bounds'], upper, relaxed, free.map((n) => ` ${n} free`)]) for (const l of part) lines.push(l);
   if (!opts.relax && binaries.length) {
     lines.push('Binary');
     for (let k = 0; k < binaries.length; k += 12) lines.push(' ' + binaries.slice(k, k + 12).join(' '));

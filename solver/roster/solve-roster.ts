@@ -5,6 +5,9 @@
  */
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { solveMap, type MapOptions, type MapResult } from '../inference';
+import { DEFAULT_MAP_OPTIONS } from '../inference/options';
+import { relativeGap } from '../inference/solve';
+import { buildLagrangian, lagrangianSteps, newLagrangianState } from './lagrangian';
 import { score as modelScore } from '../model/score';
 import { compileRoster, type CompiledRoster } from './compile';
 import { decodeAssignment, encodeAssignment, type DecodedRoster } from './decode';
@@ -23,20 +26,31 @@ export type SolveRosterResult =
       score: RosterScore;
     };
 
+export type SolveRosterOptions = Partial<MapOptions> & {
+  start?: RosterAssignment;
+  /**
+   * The person-decomposition bound (lagrangian.ts): share of the time limit it gets after the
+   * search (default 0.35); 0 turns it off. The reported bound is the lower of it and MPLP's, both
+   * proven upper bounds.
+   */
+  lagrangianShare?: number;
+};
+
+const tick = () => new Promise<void>((r) => (typeof setImmediate === 'function' ? setImmediate(r) : setTimeout(r, 0)));
+
 /**
  * Solve a roster. `start`, when given, is a filled roster to start from (e.g. the published
  * one, or a coordinator's edit); seats it cannot express (someone no longer eligible) fall
  * back to the greedy start, as does a start that scores below it. Other MapOptions pass through (time limit, seed, onProgress…).
  */
-export async function solveRoster(
-  roster: Roster,
-  options: Partial<MapOptions> & { start?: RosterAssignment } = {},
-  signal?: AbortSignal,
-): Promise<SolveRosterResult> {
+export async function solveRoster(roster: Roster, options: SolveRosterOptions = {}, signal?: AbortSignal): Promise<SolveRosterResult> {
   const reasons = explainInfeasible(roster);
   if (reasons.length) return { status: 'infeasible', reasons };
+  const now = options.clock ?? Date.now;
+  const t0 = now();
   const compiled = compileRoster(roster);
-  const { start, ...mapOptions } = options;
+  const { start, lagrangianShare = 0.35, ...mapOptions } = options;
+  const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
   let initial = greedyAssignment(compiled);
   if (start) {
     // The given roster (e.g. the previous run with today's pins) wins unless greedy scores better:
@@ -44,7 +58,52 @@ export async function solveRoster(
     const enc = encodeAssignment(compiled, start);
     if (enc.ok && modelScore(compiled.model, enc.values) >= modelScore(compiled.model, initial)) initial = enc.values;
   }
-  const result = await solveMap(compiled.model, { ...mapOptions, initial: mapOptions.initial ?? initial }, signal);
+  const share = Math.min(0.9, Math.max(0, lagrangianShare));
+  const searchMs = Math.max(1, timeLimitMs * (1 - share) - (now() - t0));
+  const result = await solveMap(compiled.model, { ...mapOptions, timeLimitMs: searchMs, initial: mapOptions.initial ?? initial }, signal);
+  if (share > 0 && !result.optimal && !signal?.aborted) await tightenWithLagrangian(compiled, result, t0 + timeLimitMs, now, mapOptions, signal);
   const decoded = decodeAssignment(compiled, result.assignment);
   return { status: 'solved', compiled, result, decoded, score: scoreRoster(roster, decoded.assignment) };
+}
+
+/**
+ * Lower result.bound with the person-decomposition bound, in slices of ~50 ms so an abort or the
+ * event loop is never kept waiting; result keeps its meaning (bound: proven upper bound, gap
+ * from it). Models outside the decomposition's structure keep the MPLP bound.
+ */
+async function tightenWithLagrangian(
+  compiled: CompiledRoster,
+  result: MapResult,
+  deadline: number,
+  now: () => number,
+  mapOptions: Partial<MapOptions>,
+  signal?: AbortSignal,
+): Promise<void> {
+  const t0 = now();
+  const S = buildLagrangian(compiled);
+  if ('unsupported' in S) return;
+  const st = newLagrangianState(S);
+  const target = result.score > -Infinity ? result.score : undefined;
+  const startMs = result.timeMs - (now() - t0);
+  let lastProgress = now();
+  while (now() < deadline && !signal?.aborted) {
+    lagrangianSteps(S, st, { deadline: Math.min(deadline, now() + 50), now, target });
+    if (st.best < result.bound) {
+      result.bound = Math.max(st.best, result.score);
+      result.gap = relativeGap(result.score, result.bound);
+      result.history.push({ iteration: result.iterations + st.iterations, timeMs: startMs + (now() - t0), score: result.score, bound: result.bound });
+      if (mapOptions.onProgress && now() - lastProgress >= (mapOptions.progressEveryMs ?? DEFAULT_MAP_OPTIONS.progressEveryMs)) {
+        lastProgress = now();
+        mapOptions.onProgress({ iteration: result.iterations + st.iterations, timeMs: startMs + (now() - t0), score: result.score, bound: result.bound, gap: result.gap });
+      }
+    }
+    if (result.score > -Infinity && result.bound - result.score <= (mapOptions.absoluteTolerance ?? DEFAULT_MAP_OPTIONS.absoluteTolerance)) {
+      result.optimal = true;
+      result.stopReason = 'gap';
+      break;
+    }
+    await tick();
+  }
+  result.method = `${result.method}+lagrangian`;
+  result.timeMs = startMs + (now() - t0);
 }
