@@ -82,12 +82,15 @@ export function runsRouter() {
   const runs = new ApiRoutes('/runs');
   runs.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     const cached = cachedRun(Number(req.params.id), ws(req));
-    if (cached) return void res.type('json').send(cached);
+    if (cached) return void res.type('json').set('ETag', cached.etag).send(cached.json);
     const run = await RunRow.findOne({ where: { id: Number(req.params.id), workspaceId: ws(req) } });
     if (!run) throw notFound('Run');
     const assignments = run.status === 'done' || run.status === 'cancelled' ? await AssignmentRow.findAll({ where: { runId: run.id }, order: [['seatId', 'ASC']], raw: true }) : [];
     const body = { ...toRunDto(run), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: Boolean(a.pinned) })) };
-    if (FINAL_STATUSES.has(run.status)) return void res.type('json').send(rememberRun(run.id, run.workspaceId, body));
+    if (FINAL_STATUSES.has(run.status)) {
+      const entry = rememberRun(run.id, run.workspaceId, body);
+      return void res.type('json').set('ETag', entry.etag).send(entry.json);
+    }
     res.json(body);
   });
   runs.post('/:id/cancel', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {

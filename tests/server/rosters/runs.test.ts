@@ -50,6 +50,16 @@ describe('runs: start, claim, solve, score and cancel', () => {
     expect(run.body.status).toBe('done');
     expect(run.body.assignments).toHaveLength(6);
     expect(run.body.result.feasible).toBe(true);
+    // A finished run never changes: its answer (kept in memory) carries an ETag, the same on every
+    // read, and a client that sends it back gets 304 with no body (RFC 9110, conditional GET).
+    const etag = run.headers.etag as string;
+    expect(etag).toMatch(/^W\/"[0-9a-f]+-/);
+    const again = await coordinator.get(`/api/runs/${start.body.id}`);
+    expect(again.headers.etag).toBe(etag);
+    expect(again.body).toEqual(run.body);
+    const unchanged = await coordinator.get(`/api/runs/${start.body.id}`).set('If-None-Match', etag);
+    expect(unchanged.status).toBe(304);
+    expect(unchanged.text ?? '').toBe('');
 
     // Exact enumeration (independent of the solver): every way to fill the six seats, scored directly.
     const { parsed } = await assembleRoster(workspace.id, roster.id);
