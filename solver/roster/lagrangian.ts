@@ -478,6 +478,9 @@ export interface LagrangianState {
   step: number;
   sinceImprove: number;
   iterations: number;
+  /** Previous (deflected) direction. */
+  dMu?: Float64Array;
+  dNu?: Float64Array[];
 }
 
 export function newLagrangianState(S: LagrangianSetup): LagrangianState {
@@ -502,13 +505,15 @@ export function evaluateLagrangian(S: LagrangianSetup, mu: Float64Array, nu: Flo
 const NU_SCALE = 0.1;
 /** Halve the step after this many evaluations without a new best. */
 const PATIENCE = 8;
+/** Weight of the previous direction in the deflected subgradient. */
+const DEFLECTION = 0.7;
 
 /**
  * Subgradient descent on L(μ, ν) with Polyak steps toward `target` (a known feasible score; without
  * one, 1 % below the best bound), until `deadline` (by `now`) or maxIterations more evaluations.
  * Every L is an upper bound; st.best keeps the lowest.
  */
-export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { deadline: number; now: () => number; target?: number; maxIterations?: number }): LagrangianState {
+export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { deadline: number; now: () => number; target?: number; maxIterations?: number; patience?: number; deflection?: number }): LagrangianState {
   const gMu = new Float64Array(S.nMu);
   const gNu = S.people.map((pp) => new Float64Array(pp.period.length));
   const maxIt = o.maxIterations ?? Infinity;
@@ -521,9 +526,20 @@ export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { de
       st.best = L;
       st.schedules = schedules;
     } else st.sinceImprove++;
-    if (st.sinceImprove >= PATIENCE) {
+    if (st.sinceImprove >= (o.patience ?? PATIENCE)) {
       st.step *= 0.5;
       st.sinceImprove = 0;
+    }
+    // deflected direction d = g + β d_prev (β ≤ 1/2): damps the zig-zag of plain subgradient steps
+    const beta = o.deflection ?? DEFLECTION;
+    if (beta > 0) {
+      st.dMu ??= new Float64Array(S.nMu);
+      st.dNu ??= S.people.map((pp) => new Float64Array(pp.period.length));
+      for (let q = 0; q < gMu.length; q++) gMu[q] = st.dMu[q] = gMu[q]! + beta * st.dMu[q]!;
+      gNu.forEach((g, i) => {
+        const dn = st.dNu![i]!;
+        for (let q = 0; q < g.length; q++) g[q] = dn[q] = g[q]! + beta * dn[q]!;
+      });
     }
     let norm = 0;
     for (let q = 0; q < gMu.length; q++) norm += gMu[q]! * gMu[q]!;

@@ -62,6 +62,8 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   const searchMs = Math.max(1, timeLimitMs * (1 - share) - (now() - t0));
   const result = await solveMap(compiled.model, { ...mapOptions, timeLimitMs: searchMs, initial: mapOptions.initial ?? initial }, signal);
   if (share > 0 && !result.optimal && !signal?.aborted) await tightenWithLagrangian(compiled, result, t0 + timeLimitMs, now, mapOptions, signal);
+  // the whole call, compiling included
+  result.timeMs = now() - t0;
   const decoded = decodeAssignment(compiled, result.assignment);
   return { status: 'solved', compiled, result, decoded, score: scoreRoster(roster, decoded.assignment) };
 }
@@ -105,5 +107,4 @@ async function tightenWithLagrangian(
     await tick();
   }
   result.method = `${result.method}+lagrangian`;
-  result.timeMs = startMs + (now() - t0);
 }
