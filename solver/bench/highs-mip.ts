@@ -33,6 +33,9 @@ export interface MipEncoding {
 
 type Term = [number, string];
 
+/** Sums with at most this many values use a one-hot when the score is not concave. */
+const ONE_HOT_MAX = 64;
+
 /** Encode a model as a maximisation MIP in CPLEX LP format. */
 export function encodeMip(model: Model, opts: { relax?: boolean } = {}): MipEncoding {
   const vars = model.variables;
@@ -136,6 +139,66 @@ export function encodeMip(model: Model, opts: { relax?: boolean } = {}): MipEnco
         // t ≤ f(j) + slope·(s − j)
         row([[1, t], ...scaled(sTerms, -slope)], '<=', vals[j]! - slope * j);
       }
+      addObj(t, 1);
+      return;
+    }
+    // concave on [lo, c], then constant f(c) up to hi (a soft table cut where hard factors elsewhere
+    // stop the sum): a binary b = [s > c], exact with big-M rows
+    let c = lo;
+    while (c + 1 <= hi && (c === lo || vals[c + 1]! - vals[c]! <= vals[c]! - vals[c - 1]! + 1e-12)) c++;
+    let flatTail = c < hi;
+    for (let s2 = c; flatTail && s2 <= hi; s2++) if (vals[s2] !== vals[c]) flatTail = false;
+    // back off to the last point before the flat run starts
+    while (flatTail && c > lo && vals[c - 1] === vals[c]) c--;
+    if (interval && flatTail && c > lo && c - lo + 2 <= ONE_HOT_MAX) {
+      // one-hot over lo..c plus one "tail" state for c+1..hi (its sum in u, (c+1)·z ≤ u ≤ hi·z):
+      // exact, and its LP relaxation is as tight as a full one-hot
+      const z: Term[] = [];
+      const link: Term[] = [...scaled(sTerms, -1)];
+      for (let k = lo; k <= c; k++) {
+        const n = fresh('z');
+        binaries.push(n);
+        z.push([1, n]);
+        link.push([k, n]);
+        addObj(n, vals[k]!);
+      }
+      const zt = fresh('z');
+      binaries.push(zt);
+      z.push([1, zt]);
+      addObj(zt, vals[c]!);
+      const u = fresh('u');
+      link.push([1, u]);
+      row([[1, u], [-hi, zt]], '<=', 0);
+      row([[1, u], [-(c + 1), zt]], '>=', 0);
+      row(z, '=', 1);
+      row(link, '=', 0);
+      return;
+    }
+    if (interval && flatTail && c > lo) {
+      if (lo > 0) row(sTerms, '>=', lo);
+      if (hi < maxSum) row(sTerms, '<=', hi);
+      const b = fresh('b');
+      binaries.push(b);
+      const t = fresh('t');
+      free.push(t);
+      let fmin = Infinity, fmax = -Infinity;
+      for (let s2 = lo; s2 <= hi; s2++) (fmin = Math.min(fmin, vals[s2]!)), (fmax = Math.max(fmax, vals[s2]!));
+      const M = fmax - fmin + 1 + Math.abs(fmax) + Math.abs(fmin);
+      // b = 0 → s ≤ c; b = 1 → s ≥ c + 1
+      row([...sTerms, [-(maxSum - c), b]], '<=', c);
+      row([...sTerms, [-(c + 1), b]], '>=', 0);
+      let lastSlope = NaN;
+      for (let j = lo; j < c; j++) {
+        const slope = vals[j + 1]! - vals[j]!;
+        if (slope === lastSlope) continue;
+        lastSlope = slope;
+        // t ≤ f(j) + slope·(s − j) + M·b (slopes can be large, so M grows with the reach of s)
+        const Mj = M + Math.abs(slope) * maxSum;
+        row([[1, t], ...scaled(sTerms, -slope), [-Mj, b]], '<=', vals[j]! - slope * j);
+      }
+      // t ≤ f(c) + M·(1 − b)
+      row([[1, t], [M, b]], '<=', vals[c]! + M);
+      row([[1, t]], '<=', fmax);
       addObj(t, 1);
       return;
     }

@@ -136,14 +136,24 @@ async function run(): Promise<void> {
     }
     if (c.reference === 'highs' && c.highs && !quick) {
       // HiGHS (npm highs) on the MIP of highs-mip.ts, started from our roster; then its LP relaxation
-      const mip = await highsOptimum(model, { timeLimitS: c.highs.mipS, start: r.assignment });
-      const lp = await highsOptimum(model, { relax: true, timeLimitS: c.highs.lpS });
+      const attempt = async <T,>(f: () => Promise<T>): Promise<T | string> => {
+        try {
+          return await f();
+        } catch (e) {
+          return `failed: ${(e as Error).message}`;
+        }
+      };
+      const mip = await attempt(() => highsOptimum(model, { timeLimitS: c.highs!.mipS, start: r.assignment }));
+      const lp = await attempt(() => highsOptimum(model, { relax: true, timeLimitS: c.highs!.lpS }));
       const mipText =
-        mip.status === 'optimal'
-          ? `MIP optimum ${fmt(mip.score)}`
-          : `MIP best ${fmt(mip.score)}, its bound ${fmt(mip.bound)} (${mip.status})`;
-      const lpText = lp.status === 'optimal' ? `LP ${fmt(lp.bound)}` : `LP not solved (${lp.status})`;
-      ref = `${mipText} in ${(mip.timeMs / 1000).toFixed(0)} s; ${lpText} in ${(lp.timeMs / 1000).toFixed(0)} s (HiGHS)`;
+        typeof mip === 'string'
+          ? `MIP ${mip}`
+          : mip.status === 'optimal'
+            ? `MIP optimum ${fmt(mip.score)} in ${(mip.timeMs / 1000).toFixed(0)} s`
+            : `MIP best ${fmt(mip.score)}, its bound ${fmt(mip.bound)} (${mip.status}) in ${(mip.timeMs / 1000).toFixed(0)} s`;
+      const lpText =
+        typeof lp === 'string' ? `LP ${lp}` : lp.status === 'optimal' ? `LP ${fmt(lp.bound)} in ${(lp.timeMs / 1000).toFixed(0)} s` : `LP not solved (${lp.status}) in ${(lp.timeMs / 1000).toFixed(0)} s`;
+      ref = `${mipText}; ${lpText} (HiGHS)`;
     }
     const notes = [`${r.method}`, r.optimal ? 'proven optimal' : r.stopReason, c.target ? `target: ${c.target}` : '', buildMs > 50 ? `build ${buildMs} ms` : '', c.check ? c.check(r) : '']
       .filter(Boolean)

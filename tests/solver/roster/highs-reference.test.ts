@@ -33,6 +33,10 @@ describe('HiGHS MIP encoding equals enumeration on small models', () => {
       { kind: 'allDifferent', vars: [1, 2, 5], penalty: -0.75 },
       { kind: 'sparsePair', a: 2, b: 4, entries: [[0, 0, 1.5], [1, 2, 0.5], [2, 1, -0.25]], default: -Infinity },
       { kind: 'counting', vars: [1, 3, 5, 6], weights: [[[0, 1], [2, 2]], [[1, 1]], [[0, 1]], [[2, 1]]], score: [0, 0.5, 2, -1, 3] },
+      // concave, then cut: the table's last entry repeats past its end (flat tail, encoded with a binary)
+      { kind: 'counting', vars: [0, 2, 4, 6], weights: [[[0, 1], [1, 2]], [[1, 1]], [[2, 2]], [[0, 1]]], score: [1, 1.5, 0, -2, -5] },
+      // the same over a long range (sums 0..70, cut at 65): encoded with big-M rows instead
+      { kind: 'counting', vars: [0, 1, 2, 3, 4, 5, 6], weights: Array.from({ length: 7 }, (_, j) => [[j % 3, 10], [(j + 1) % 3, 3]] as [number, number][]), score: Array.from({ length: 66 }, (_, k) => -((k - 25) ** 2) / 200) },
     ];
     const m: Model = { ...model, factors: [...model.factors, ...extra], constant: 1.25 };
     const exact = enumerateModel(m);
