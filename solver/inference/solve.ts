@@ -221,11 +221,13 @@ function* solveSteps(model: Model, opt: MapOptions, signal: AbortSignal | undefi
   {
     const starts = [...(opt.initial ? [Int32Array.from(opt.initial)] : []), decodeBeliefs(st0(E)), safeStart(E)];
     const budget = Math.max(30, (opt.timeLimitMs * 0.12) / starts.length);
-    for (const start of starts) {
-      if (now() > deadline) break;
+    for (const [k, start] of starts.entries()) {
+      // the caller's start is always scored, even with no time left: it may be all they have
+      const callers = k === 0 && opt.initial !== undefined;
+      if (now() > deadline && !callers) break;
       const ls = new LocalSearch(E, start, R);
       ls.clock = now;
-      const s = opt.localSearch ? ls.run(Math.min(deadline, now() + budget)) : engineScore(E, ls.x);
+      const s = opt.localSearch && now() <= deadline ? ls.run(Math.min(deadline, now() + budget)) : engineScore(E, ls.x);
       if (offer(ls.x, s)) incumbentConverged = ls.converged || !opt.localSearch;
     }
   }

@@ -59,7 +59,9 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
     if (enc.ok && modelScore(compiled.model, enc.values) >= modelScore(compiled.model, initial)) initial = enc.values;
   }
   const share = Math.min(0.9, Math.max(0, lagrangianShare));
-  const searchMs = Math.max(1, timeLimitMs * (1 - share) - (now() - t0));
+  // compiling counts against the limit, but the search keeps a minimum (a short re-solve of a
+  // large roster would otherwise get no search at all)
+  const searchMs = Math.max(Math.min(200, timeLimitMs * (1 - share)), timeLimitMs * (1 - share) - (now() - t0));
   const result = await solveMap(compiled.model, { ...mapOptions, timeLimitMs: searchMs, initial: mapOptions.initial ?? initial }, signal);
   if (share > 0 && !result.optimal && !signal?.aborted) await tightenWithLagrangian(compiled, result, t0 + timeLimitMs, now, mapOptions, signal);
   // the whole call, compiling included

@@ -20,6 +20,16 @@ describe('anytime MAP', () => {
     expect(r.history.length).toBeGreaterThan(0);
   });
 
+  it('never returns worse than the caller\'s start, even with no time at all', async () => {
+    const m = rosterModel({ people: 20, days: 7, shiftsPerDay: 3, seatsPerShift: 3, seed: 4 });
+    const good = await solveMap(m, { timeLimitMs: 1_000 });
+    for (const timeLimitMs of [0, 1]) {
+      const r = await solveMap(m, { timeLimitMs, initial: good.assignment });
+      expect(r.score).toBeGreaterThanOrEqual(good.score - 1e-9);
+      expect(r.score).toBeCloseTo(score(m, r.assignment), 9);
+    }
+  });
+
   it('stops on an AbortSignal and returns the best so far', async () => {
     const m = rosterModel({ people: 60, days: 21, shiftsPerDay: 3, seatsPerShift: 4, seed: 5 });
     const ac = new AbortController();
