@@ -112,15 +112,15 @@ export async function loadSignedInUser(userId: number, wanted: number | undefine
  * round trip. The account is the one the row's user_id names (kept equal to the session's
  * passport user by the store); the membership prefers the workspace the session data names.
  */
-export async function loadSessionWithAccount(sid: string): Promise<{ data: string; account: SignedInAccount | null } | null> {
-  const rows = await User.sequelize!.query<{ data: string } & AccountRow>(
-    `SELECT s.data, ${ACCOUNT_COLUMNS}
+export async function loadSessionWithAccount(sid: string): Promise<{ data: string; expires: number; account: SignedInAccount | null } | null> {
+  const rows = await User.sequelize!.query<{ data: string; expires: Date } & AccountRow>(
+    `SELECT s.data, s.expires, ${ACCOUNT_COLUMNS}
        FROM sessions s LEFT JOIN users u ON u.id = s.user_id LEFT JOIN memberships m ON m.user_id = u.id
       WHERE s.sid = ? AND s.expires > ?
       ORDER BY (m.workspace_id = JSON_VALUE(s.data, '$.workspaceId')) DESC, m.id ASC LIMIT 1`,
     { replacements: [sid, new Date()], type: QueryTypes.SELECT },
   );
-  return rows[0] ? { data: rows[0].data, account: toAccount(rows[0]) } : null;
+  return rows[0] ? { data: rows[0].data, expires: new Date(rows[0].expires).getTime(), account: toAccount(rows[0]) } : null;
 }
 
 /** The membership the session should use: the one it names if still valid, else the user's first. */

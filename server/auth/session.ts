@@ -3,6 +3,7 @@ import connectSessionSequelize from 'connect-session-sequelize';
 import type { Request, RequestHandler } from 'express';
 import { loadSessionWithAccount, type SignedInAccount } from './service';
 import { rememberAccount } from './load-context';
+import { SessionCache } from './session-cache';
 import type { Sequelize } from 'sequelize';
 import type { Env } from '../env';
 import { initAccountModels } from './models';
@@ -22,6 +23,7 @@ const TWO_WEEKS = 14 * 24 * 60 * 60 * 1000;
 
 const SequelizeStore = connectSessionSequelize(session.Store);
 const ACCOUNT = Symbol('account read with the session');
+const READ_ONLY_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 export interface SessionHandle {
   middleware: RequestHandler;
@@ -45,16 +47,31 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
   });
   // Read on every request: one plain SELECT that also brings the account (see
   // loadSessionWithAccount), and an expired row counts as no session even before the periodic
-  // cleanup removes it. The account rides on the parsed session under a symbol (not saved, not
-  // hashed) until createSession, which has the request, hands it to deserializeUser.
+  // cleanup removes it; a burst of reads of one session within a second shares it (SessionCache).
+  // The account rides on the parsed session under a symbol (not saved, not hashed) until
+  // createSession, which has the request, hands it to deserializeUser.
+  const recent = new SessionCache();
+  const answer = (row: { data: string; account: SignedInAccount | null }) => {
+    const data = JSON.parse(row.data) as session.SessionData;
+    if (row.account) Object.defineProperty(data, ACCOUNT, { value: row.account, enumerable: false });
+    return data;
+  };
   store.get = (sid: string, callback: (err: unknown, session?: session.SessionData | null) => void) => {
+    const hit = recent.get(sid);
+    if (hit) return callback(null, answer(hit));
     loadSessionWithAccount(sid).then((row) => {
       if (!row) return callback(null, null);
-      const data = JSON.parse(row.data) as session.SessionData;
-      if (row.account) Object.defineProperty(data, ACCOUNT, { value: row.account, enumerable: false });
-      callback(null, data);
+      recent.remember(sid, row);
+      callback(null, answer(row));
     }, callback);
   };
+  for (const write of ['set', 'destroy', 'touch'] as const) {
+    const original = store[write].bind(store) as (sid: string, ...rest: unknown[]) => unknown;
+    (store as unknown as Record<string, unknown>)[write] = (sid: string, ...rest: unknown[]) => {
+      recent.forget(sid);
+      return original(sid, ...rest);
+    };
+  }
   const createSession = store.createSession.bind(store);
   store.createSession = (req, data) => {
     const account = (data as { [ACCOUNT]?: SignedInAccount })[ACCOUNT];
@@ -72,7 +89,7 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
     lastTouch.set(sid, now);
     touch(sid, data, callback);
   };
-  const middleware = session({
+  const sessions = session({
     name: SESSION_COOKIE,
     secret: env.sessionSecret,
     store,
@@ -89,5 +106,14 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
       path: '/',
     },
   });
+  // Every state-changing request may change sessions, accounts or memberships: the cache is
+  // cleared as it starts and again once its writes are done.
+  const middleware: RequestHandler = (req, res, next) => {
+    if (!READ_ONLY_METHODS.has(req.method)) {
+      recent.clear();
+      res.once('close', () => recent.clear());
+    }
+    sessions(req, res, next);
+  };
   return { middleware, store };
 }

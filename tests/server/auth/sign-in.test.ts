@@ -50,6 +50,9 @@ describe('password sign-in, session and sign-out', () => {
     expect((await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
     expect((await a.get('/api/people')).status).toBe(200);
     await db.sequelize.query('UPDATE sessions SET expires = ? WHERE user_id = ?', { replacements: [new Date(Date.now() - 1000), user.id] });
+    // A change made behind the server's back (not through a request) shows within a second: reads
+    // of one session share a lookup for that long (server/auth/session-cache.ts).
+    await new Promise((r) => setTimeout(r, 1100));
     expect((await a.get('/api/auth/session')).body.user).toBeNull();
     expect((await a.get('/api/people')).status).toBe(401);
 
@@ -57,6 +60,22 @@ describe('password sign-in, session and sign-out', () => {
     expect((await b.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
     await user.destroy();
     expect((await b.get('/api/auth/session')).body.user).toBeNull();
+  });
+
+  it('a member removed by an admin loses access on their very next request, despite the session cache', async () => {
+    const workspace = await makeWorkspace();
+    const admin = await makeUser({ workspace, role: 'admin' });
+    const member = await makeUser({ workspace, role: 'coordinator' });
+    const a = agent(app);
+    const m = agent(app);
+    expect((await a.post('/api/auth/sign-in').send({ email: admin.email, password: PASSWORD })).status).toBe(200);
+    expect((await m.post('/api/auth/sign-in').send({ email: member.email, password: PASSWORD })).status).toBe(200);
+    // two reads in a row: the second comes from the cache
+    expect((await m.get('/api/people')).status).toBe(200);
+    expect((await m.get('/api/people')).status).toBe(200);
+    expect((await a.delete(`/api/members/${member.id}`)).status).toBeLessThan(300);
+    expect((await m.get('/api/people')).status).not.toBe(200);
+    expect((await m.get('/api/auth/session')).body.role ?? null).toBeNull();
   });
 
   it('gives a new session id at each sign-in, so a planted session cookie is worthless', async () => {
