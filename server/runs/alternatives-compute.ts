@@ -1,7 +1,7 @@
 import { buildEngine, type Engine } from '../../solver/inference/engine';
 import { compileRoster, decodeAssignment, encodeAssignment, makeRosterScorer, OPEN, type CompiledRoster } from '../../solver/roster';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
-import { dualPass, exactlySolvable, forcedValues } from './max-marginals';
+import { dualPass, exactlySolvable, forcedValues } from '../../solver/explain/max-marginals';
 
 /** Time for the short dual pass behind the upper bounds (demo: 500 ms reaches 239.6 against 238.6 after the run's 3 s). */
 const DUAL_MS = 600;
@@ -69,7 +69,7 @@ function prepare(key: string, roster: Roster, assignment: RosterAssignment): Pro
 }
 
 /**
- * Max-marginals of one seat against the run's roster (see max-marginals.ts), every figure the
+ * Max-marginals of one seat against the run's roster (see solver/explain/max-marginals.ts), every figure the
  * independent scorer's (solver/roster/score-roster) total of a decoded roster.
  */
 export async function computeSeatAlternatives(input: ComputeInput): Promise<ComputeOutput> {

@@ -2,16 +2,18 @@
  * Explanations of a MAP result:
  * - concessions: every soft factor not at its own best value, with its cost, sorted;
  * - alternatives: for a variable, the next-best values from max-marginals and the
- *   score change if forced;
+ *   score change if forced (max-marginals.ts, also behind the server's seat details);
  * - price of a concession: re-solve with the factor held at its best value and
  *   report the score change and which other factors give way.
  */
 import type { Assignment, Factor, Model } from '../model/types';
 import { factorScore, isHardFactor, keyOf, scopeOf, valueLabel, countingScoreAt } from '../model/factor-graph';
 import { score } from '../model/score';
-import { buildEngine, isForest, log10States, type Engine } from '../inference/engine';
-import { enumerateModel, exactTreeMap } from '../inference/exact';
-import { LocalSearch, rng } from '../inference/local-search';
+import { buildEngine, type Engine } from '../inference/engine';
+import { exactTreeMap } from '../inference/exact';
+import { dualPass, exactlySolvable, forcedValues } from './max-marginals';
+
+export { dualPass, exactlySolvable, forcedValues, type ForcedValue } from './max-marginals';
 import { solveMap, type MapResult } from '../inference/solve';
 import type { MapOptions } from '../inference/options';
 
@@ -106,7 +108,7 @@ export interface Alternative {
   key: number;
   /** Score change if the variable is forced to this value (re-optimized as described by `how`). */
   delta: number;
-  /** Upper bound on the score change from the max-marginal (dual) when not exact. */
+  /** Upper bound on the score change (equal to delta when exact; Infinity when unknown). */
   deltaBound: number;
   /** 'exact': enumeration or tree max-marginals; 'repair': local re-optimization around the current answer (achievable, may understate). */
   how: 'exact' | 'repair';
@@ -116,58 +118,38 @@ export interface AlternativeOptions {
   /** A compiled engine of the same model, to reuse across calls (buildEngine(model)). */
   engine?: Engine;
   count: number;
-  /** Time for each local repair. */
+  /** Time for repairing all values of one variable together. */
   repairMs: number;
+  /** Time of the dual pass behind the upper bounds (loopy models only). */
+  dualMs: number;
   seed: number;
 }
 
 /**
- * Next-best values of variable i. Exact max-marginals on tiny models (enumeration)
- * and forests; otherwise candidates ranked by the dual max-marginal bound
- * bound − max b_i + b_i(v), each forced and repaired by local search to give an
- * achievable score change.
+ * Next-best values of variable i from max-marginals (forcedValues in max-marginals.ts): exact on
+ * tiny models and forests; otherwise each value forced and the answer repaired by local search
+ * (achievable), with the dual max-marginal bound above it.
  */
-export function alternatives(model: Model, result: MapResult, i: number, options: Partial<AlternativeOptions> = {}): Alternative[] {
-  const o: AlternativeOptions = { count: 3, repairMs: 200, seed: 1, ...options };
+export async function alternatives(model: Model, result: MapResult, i: number, options: Partial<AlternativeOptions> = {}): Promise<Alternative[]> {
+  const o: AlternativeOptions = { count: 3, repairMs: 200, dualMs: 300, seed: 1, ...options };
   const v = model.variables[i]!;
-  const cur = result.assignment[i]!;
   const E = o.engine ?? buildEngine(model);
-  const mk = (value: number, delta: number, deltaBound: number, how: Alternative['how']): Alternative => ({ value, label: valueLabel(v, value), key: keyOf(v, value), delta, deltaBound, how });
-  if (log10States(E) <= 5.3 || isForest(E)) {
-    const mm = log10States(E) <= 5.3 ? enumerateModel(model).maxMarginals[i]! : exactMaxMarginals(model)[i]!;
-    const best = Math.max(...mm);
-    return Array.from(mm.keys())
-      .filter((x) => x !== cur && mm[x]! > -Infinity)
-      .sort((a, b) => mm[b]! - mm[a]! || a - b)
-      .slice(0, o.count)
-      .map((x) => mk(x, mm[x]! - best, mm[x]! - best, 'exact'));
-  }
-  const b = result.beliefs?.[i];
-  const bmax = b ? Math.max(...b) : 0;
-  const ub = (x: number): number => (b ? result.bound - bmax + b[x]! - result.score : Infinity);
-  const cands = Array.from({ length: v.cardinality }, (_, x) => x)
-    .filter((x) => x !== cur)
-    .sort((p, q) => ub(q) - ub(p) || p - q)
-    .slice(0, Math.max(o.count * 3, o.count));
-  const fixed = new Uint8Array(E.n);
-  fixed[i] = 1;
-  const res: Alternative[] = [];
-  for (const x of cands) {
-    const start = Int32Array.from(result.assignment);
-    start[i] = x;
-    const ls = new LocalSearch(E, start, rng(o.seed), fixed);
-    ls.run(Date.now() + o.repairMs);
-    const s = score(model, ls.x);
-    if (s === -Infinity) continue;
-    res.push(mk(x, s - result.score, ub(x), 'repair'));
-  }
-  return res.sort((p, q) => q.delta - p.delta || p.value - q.value).slice(0, o.count);
+  const base = Int32Array.from(result.assignment);
+  const dual = exactlySolvable(E) ? null : await dualPass(model, base, o.dualMs);
+  const forced = await forcedValues(model, E, base, i, dual, { budgetMs: o.repairMs, seed: o.seed });
+  return forced
+    .filter((f) => f.score > -Infinity)
+    .sort((p, q) => q.score - p.score || p.value - q.value)
+    .slice(0, o.count)
+    .map((f) => ({ value: f.value, label: valueLabel(v, f.value), key: keyOf(v, f.value), delta: f.score - result.score, deltaBound: f.bound - result.score, how: f.how }));
 }
 
 /** Alternatives for several variables, compiling the model once. */
-export function alternativesFor(model: Model, result: MapResult, vars: number[], options: Partial<AlternativeOptions> = {}): Map<number, Alternative[]> {
+export async function alternativesFor(model: Model, result: MapResult, vars: number[], options: Partial<AlternativeOptions> = {}): Promise<Map<number, Alternative[]>> {
   const engine = options.engine ?? buildEngine(model);
-  return new Map(vars.map((i) => [i, alternatives(model, result, i, { ...options, engine })]));
+  const out = new Map<number, Alternative[]>();
+  for (const i of vars) out.set(i, await alternatives(model, result, i, { ...options, engine }));
+  return out;
 }
 
 /** Exact max-marginals on a forest (absolute scores). */

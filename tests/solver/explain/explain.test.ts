@@ -69,12 +69,12 @@ describe('price of honouring a concession', () => {
 });
 
 describe('alternatives from max-marginals', () => {
-  it('on tiny models: next-best values and exact score changes (against enumeration)', () => {
+  it('on tiny models: next-best values and exact score changes (against enumeration)', async () => {
     const m = makeRandomModel({ seed: 9, n: 6, k: 4, edges: 8 });
     const r = solveMapSync(m);
     const e = enumerateModel(m);
     for (let i = 0; i < 6; i++) {
-      const alts = alternatives(m, r, i, { count: 2 });
+      const alts = await alternatives(m, r, i, { count: 2 });
       const mm = Array.from(e.maxMarginals[i]!);
       const ranked = mm.map((v, x) => [v, x] as const).filter(([v, x]) => x !== r.assignment[i] && v > -Infinity).sort((a, b) => b[0] - a[0] || a[1] - b[1]);
       expect(alts.map((a) => a.value)).toEqual(ranked.slice(0, 2).map((p) => p[1]));
@@ -82,12 +82,12 @@ describe('alternatives from max-marginals', () => {
     }
   });
 
-  it('on loopy models too large to enumerate: forced repairs are feasible, never better than the optimum, within the dual bound', () => {
+  it('on loopy models too large to enumerate: forced repairs are feasible, never better than the optimum, within the dual bound', async () => {
     const m = makeRandomModel({ seed: 12, n: 14, k: 4, edges: 25, hardDensity: 0.02 });
     const r = solveMapSync(m, { enumerationLimit: 1 });
     expect(r.optimal).toBe(true);
     for (const i of [0, 5, 9]) {
-      for (const a of alternatives(m, r, i, { count: 3 })) {
+      for (const a of await alternatives(m, r, i, { count: 3 })) {
         expect(a.how).toBe('repair');
         expect(a.delta).toBeLessThanOrEqual(1e-9);
         expect(a.delta).toBeLessThanOrEqual(a.deltaBound + 1e-7);

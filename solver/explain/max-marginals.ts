@@ -1,13 +1,13 @@
-import type { Factor, Model } from '../../solver/model/types';
-import { score } from '../../solver/model/score';
-import { isForest, log10States, type Engine } from '../../solver/inference/engine';
-import { LocalSearch, rng } from '../../solver/inference/local-search';
-import { solveMap, solveMapSync } from '../../solver/inference/solve';
+import type { Factor, Model } from '../model/types';
+import { score } from '../model/score';
+import { isForest, log10States, type Engine } from '../inference/engine';
+import { LocalSearch, rng } from '../inference/local-search';
+import { solveMap, solveMapSync } from '../inference/solve';
 
 /**
- * Max-marginals of one variable, with the roster each figure comes from (so the server can decode
- * it and score it with the independent scorer). The same two regimes as solver/explain's
- * `alternatives`, which returns only score changes against the optimum:
+ * Max-marginals of one variable, with the assignment each figure comes from (so a caller can
+ * decode it, e.g. the server's seat alternatives score each roster with the independent scorer).
+ * Two regimes:
  *
  * - exact, when the model is tiny (≤ 10^5.3 joint states: enumeration) or a forest (two-pass
  *   tree max-product): every value is forced by a hard unary factor and the model solved exactly;
@@ -42,7 +42,8 @@ export async function dualPass(model: Model, initial: Int32Array, timeLimitMs: n
   return { bound: r.bound, beliefs: r.beliefs };
 }
 
-const pause = () => new Promise<void>((r) => setImmediate(r));
+// lets the event loop breathe between values (setTimeout where setImmediate is missing, e.g. a browser)
+const pause = () => new Promise<void>((r) => (typeof setImmediate === 'function' ? setImmediate(r) : setTimeout(r, 0)));
 
 function forceValue(model: Model, i: number, x: number): Factor {
   const table = Array.from({ length: model.variables[i]!.cardinality }, (_, v) => (v === x ? 0 : -Infinity));

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Factor, Model } from '../../../solver/model/types';
 import { buildEngine } from '../../../solver/inference/engine';
-import { dualPass, exactlySolvable, forcedValues } from '../../../server/runs/max-marginals';
+import { dualPass, exactlySolvable, forcedValues } from '../../../solver/explain/max-marginals';
 
 /**
  * The forced-and-repaired regime of seat alternatives on a model just too large for the exact
