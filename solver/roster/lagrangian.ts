@@ -103,6 +103,9 @@ export interface LagrangianOptions {
   maxLookback?: number;
   /** Cap on DP transitions over all people (memory); above it the build gives up. */
   maxTransitions?: number;
+  /** Give up (unsupported: 'out of time') once `now()` passes this, checked person by person. */
+  deadline?: number;
+  now?: () => number;
 }
 
 /** Prepare the relaxation, or say why this model does not fit it. */
@@ -330,6 +333,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
   const shared = new Map<string, Transitions>();
   let nNu = 0;
   for (let p = 0; p < nPeople; p++) {
+    if (opts.deadline !== undefined && (opts.now ?? Date.now)() > opts.deadline) return { unsupported: 'out of time' };
     const myShifts = shiftsOfPerson[p]!;
     const byDay: number[][] = Array.from({ length: days }, () => []);
     for (const sh of myShifts.keys()) byDay[dayOf(sh)]!.push(sh);

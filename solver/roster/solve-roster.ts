@@ -84,7 +84,7 @@ async function tightenWithLagrangian(
   signal?: AbortSignal,
 ): Promise<void> {
   const t0 = now();
-  const S = buildLagrangian(compiled);
+  const S = buildLagrangian(compiled, { deadline, now });
   if ('unsupported' in S) return;
   const st = newLagrangianState(S);
   const target = result.score > -Infinity ? result.score : undefined;
