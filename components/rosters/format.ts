@@ -16,6 +16,8 @@ export function gapWords(score: number | null, bound: number | null, gap: number
   if (score === null) return 'No roster that keeps every hard rule has been found yet.';
   if (optimal || (gap !== null && gap <= 1e-9)) return 'Proven the best possible roster for these rules and wishes.';
   if (bound === null || gap === null) return 'Score found; no bound on the best possible roster yet.';
+  // A percentage of a score near zero says little ("at most 346%"), so past 100% the distance is in points.
+  if (gap >= 1) return `At most ${points(bound - score)} points below the best possible roster (the best possible scores at most ${points(bound)} points).`;
   const pct = gap * 100;
   const text = pct < 0.1 ? 'less than 0.1%' : pct < 10 ? `${pct.toFixed(1)}%` : `${Math.round(pct)}%`;
   return `At most ${text} from the best possible roster (the best possible scores at most ${points(bound)} points).`;
