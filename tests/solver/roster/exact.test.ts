@@ -6,30 +6,13 @@
  */
 import { describe, expect, it } from 'vitest';
 import computeMunkres from 'munkres-js';
-import { rosterSchema, type Roster, type RosterAssignment } from '../../../shared/roster/schema';
+import { rosterSchema, type Roster } from '../../../shared/roster/schema';
 import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { compileRoster } from '../../../solver/roster/compile';
 import { decodeAssignment } from '../../../solver/roster/decode';
-import { makeRosterScorer, scoreRoster } from '../../../solver/roster/score-roster';
+import { scoreRoster } from '../../../solver/roster/score-roster';
 import { solveMapSync, enumerateModel } from '../../../solver/inference';
-
-/** Best scoreRoster total over all (people + open)^seats fillings. */
-function bruteForce(r: Roster): number {
-  const options: (string | null)[] = [null, ...r.people.map((p) => p.id)];
-  const n = r.seats.length;
-  const digits = new Array(n).fill(0);
-  let best = -Infinity;
-  const score = makeRosterScorer(r);
-  for (;;) {
-    const a: RosterAssignment = {};
-    r.seats.forEach((s, i) => (a[s.id] = options[digits[i]]));
-    const t = score(a).total;
-    if (t > best) best = t;
-    let i = 0;
-    while (i < n && ++digits[i] === options.length) digits[i++] = 0;
-    if (i === n) return best;
-  }
-}
+import { bruteForceBest } from './helpers';
 
 function smallRoster(seed: number): Roster {
   const rnd = seededRandom(seed);
@@ -61,7 +44,7 @@ describe('small rosters: brute force over the roster equals the solver on the mo
   it.each([1, 2, 3, 4])('roster seed %i (6 seats, 3 people: 4^6 fillings)', (seed) => {
     const r = smallRoster(seed);
     expect(r.seats.length).toBeLessThanOrEqual(8);
-    const best = bruteForce(r);
+    const best = bruteForceBest(r);
     const c = compileRoster(r);
     const solved = solveMapSync(c.model, { seed: 1, timeLimitMs: 3_000, method: 'mplp' });
     const enumerated = enumerateModel(c.model);

@@ -4,7 +4,7 @@
 import type { Roster, RosterAssignment } from '../../../shared/roster/schema';
 import { shiftFacts } from '../../../shared/roster/derive';
 import { seededRandom } from '../../../shared/demo/make-roster';
-import { scoreRoster } from '../../../solver/roster/score-roster';
+import { makeRosterScorer, scoreRoster } from '../../../solver/roster/score-roster';
 import type { CompiledRoster } from '../../../solver/roster/compile';
 
 /**
@@ -98,3 +98,24 @@ export function openCount(a: RosterAssignment): number {
 }
 
 export { scoreRoster };
+
+/**
+ * Best scoreRoster total over all (people + open)^seats fillings: the roster's own rules, not the
+ * model. The outside check for small rosters (exact.test.ts, lagrangian.test.ts, highs-reference.test.ts).
+ */
+export function bruteForceBest(r: Roster): number {
+  const options: (string | null)[] = [null, ...r.people.map((p) => p.id)];
+  const n = r.seats.length;
+  const digits = new Array(n).fill(0);
+  let best = -Infinity;
+  const score = makeRosterScorer(r);
+  for (;;) {
+    const a: RosterAssignment = {};
+    r.seats.forEach((s, i) => (a[s.id] = options[digits[i]]));
+    const t = score(a).total;
+    if (t > best) best = t;
+    let i = 0;
+    while (i < n && ++digits[i] === options.length) digits[i++] = 0;
+    if (i === n) return best;
+  }
+}

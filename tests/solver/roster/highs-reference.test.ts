@@ -12,15 +12,15 @@
 import { describe, expect, it } from 'vitest';
 import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
-import type { Roster, RosterAssignment } from '../../../shared/roster/schema';
+import type { Roster } from '../../../shared/roster/schema';
 import type { Factor, Model } from '../../../solver/model';
 import { score as modelScore } from '../../../solver/model';
 import { enumerateModel } from '../../../solver/inference';
 import { compileRoster } from '../../../solver/roster/compile';
-import { makeRosterScorer } from '../../../solver/roster/score-roster';
 import { solveRoster } from '../../../solver/roster/solve-roster';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
 import { makeRandomModel } from '../helpers/models';
+import { bruteForceBest } from './helpers';
 
 const close = (a: number, b: number) => (b === -Infinity ? expect(a).toBe(-Infinity) : expect(a).toBeCloseTo(b, 6));
 
@@ -50,24 +50,6 @@ describe('HiGHS MIP encoding equals enumeration on small models', () => {
     }
   });
 });
-
-/** Best scoreRoster total over all (people + open)^seats fillings: the roster's own rules, not the model. */
-function bruteForce(r: Roster): number {
-  const options: (string | null)[] = [null, ...r.people.map((p) => p.id)];
-  const n = r.seats.length;
-  const digits = new Array(n).fill(0);
-  let best = -Infinity;
-  const score = makeRosterScorer(r);
-  for (;;) {
-    const a: RosterAssignment = {};
-    r.seats.forEach((s, i) => (a[s.id] = options[digits[i]]));
-    const t = score(a).total;
-    if (t > best) best = t;
-    let i = 0;
-    while (i < n && ++digits[i] === options.length) digits[i++] = 0;
-    if (i === n) return best;
-  }
-}
 
 function smallRoster(seed: number): Roster {
   const rnd = seededRandom(seed);
@@ -100,7 +82,7 @@ describe('HiGHS on compiled small rosters equals brute force over rosters (score
   it.each([1, 2, 3, 4, 5])('roster seed %i', async (seed) => {
     const r = smallRoster(seed);
     expect(r.seats.length).toBeLessThanOrEqual(8);
-    const best = bruteForce(r);
+    const best = bruteForceBest(r);
     const c = compileRoster(r);
     const h = await highsOptimum(c.model, { timeLimitS: 30 });
     close(h.score, best);

@@ -9,30 +9,13 @@
 import { describe, expect, it } from 'vitest';
 import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
-import type { Roster, RosterAssignment } from '../../../shared/roster/schema';
+import type { Roster } from '../../../shared/roster/schema';
 import { enumerateModel } from '../../../solver/inference';
 import { compileRoster } from '../../../solver/roster/compile';
-import { makeRosterScorer } from '../../../solver/roster/score-roster';
 import { solveRoster } from '../../../solver/roster/solve-roster';
 import { buildLagrangian, evaluateLagrangian, lagrangianSteps, newLagrangianState, type LagrangianSetup } from '../../../solver/roster/lagrangian';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
-
-function bruteForce(r: Roster): number {
-  const options: (string | null)[] = [null, ...r.people.map((p) => p.id)];
-  const n = r.seats.length;
-  const digits = new Array(n).fill(0);
-  let best = -Infinity;
-  const score = makeRosterScorer(r);
-  for (;;) {
-    const a: RosterAssignment = {};
-    r.seats.forEach((s, i) => (a[s.id] = options[digits[i]]));
-    const t = score(a).total;
-    if (t > best) best = t;
-    let i = 0;
-    while (i < n && ++digits[i] === options.length) digits[i++] = 0;
-    if (i === n) return best;
-  }
-}
+import { bruteForceBest } from './helpers';
 
 /** 3 people, 7 days, 7 seats; every rule kind on, soft rest in half the seeds (sameKey factors), pairings incl. hard "never". */
 function smallRoster(seed: number): Roster {
@@ -86,7 +69,7 @@ describe('Lagrangian bound ≥ the optimum of small rosters (brute force with sc
   it.each([1, 2, 3, 4, 5, 6])('roster seed %i', (seed) => {
     const r = smallRoster(seed);
     expect(r.seats.length).toBeLessThanOrEqual(8);
-    const best = bruteForce(r);
+    const best = bruteForceBest(r);
     const c = compileRoster(r);
     expect(enumerateModel(c.model).score).toBeCloseTo(best, 9);
     const S = buildLagrangian(c);
