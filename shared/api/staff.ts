@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { localDateSchema, weekdaySchema } from '../roster/schema';
+import type { RosterDto } from './rosters';
 
 /**
  * Staff on their phones (issue 7): their own wishes, pairing requests and calendar feed. Every
@@ -80,15 +81,8 @@ export interface MyShiftsAnswer {
   week: { start: string; end: string; hours: number; contractedHours: number; shifts: number };
 }
 
-export interface MyRoster {
-  id: number;
-  name: string;
-  periodStart: string;
-  periodEnd: string;
-  timeZone: string;
-  status: 'draft' | 'solved' | 'published';
-  wishDeadline: string | null;
-  maxCannotDays: number | null;
+/** A roster as staff see it: the coordinator's roster answer without its plan details. */
+export interface MyRoster extends Pick<RosterDto, 'id' | 'name' | 'periodStart' | 'periodEnd' | 'timeZone' | 'status' | 'wishDeadline' | 'maxCannotDays'> {
   /** Wishes can still be entered or changed. */
   openForWishes: boolean;
 }

@@ -2,7 +2,7 @@ import type { Factor, Model } from '../model/types';
 import { score } from '../model/score';
 import { isForest, log10States, type Engine } from '../inference/engine';
 import { LocalSearch, rng } from '../inference/local-search';
-import { solveMap, solveMapSync } from '../inference/solve';
+import { solveMap, solveMapSync, tick } from '../inference/solve';
 
 /**
  * Max-marginals of one variable, with the assignment each figure comes from (so a caller can
@@ -42,8 +42,6 @@ export async function dualPass(model: Model, initial: Int32Array, timeLimitMs: n
   return { bound: r.bound, beliefs: r.beliefs };
 }
 
-// lets the event loop breathe between values (setTimeout where setImmediate is missing, e.g. a browser)
-const pause = () => new Promise<void>((r) => (typeof setImmediate === 'function' ? setImmediate(r) : setTimeout(r, 0)));
 
 function forceValue(model: Model, i: number, x: number): Factor {
   const table = Array.from({ length: model.variables[i]!.cardinality }, (_, v) => (v === x ? 0 : -Infinity));
@@ -67,7 +65,7 @@ export async function forcedValues(
       const assignment = Int32Array.from(r.assignment);
       // optimal and infeasible means no roster with x keeps every hard rule
       out.push({ value: x, score: r.score, bound: r.optimal ? r.score : Infinity, how: r.optimal ? 'exact' : 'repair', evaluated: true, assignment });
-      await pause();
+      await tick();
     }
     return out;
   }
@@ -98,7 +96,7 @@ export async function forcedValues(
     const u = upper(x);
     // the repaired roster is achievable, so it also bounds the bound from below (rounding of the dual)
     out.push({ value: x, score: s, bound: u === -Infinity && s === -Infinity ? -Infinity : Math.max(u, s), how: 'repair', evaluated: true, assignment: Int32Array.from(ls.x) });
-    await pause();
+    await tick();
   }
   return out;
 }

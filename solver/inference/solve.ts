@@ -366,7 +366,8 @@ export function solveMapSync(model: Model, options?: Partial<MapOptions>, signal
   return out.result!;
 }
 
-const tick: () => Promise<void> =
+/** Lets the event loop run (an abort, a progress write) between slices of work; setTimeout where setImmediate is missing (a browser). */
+export const tick: () => Promise<void> =
   typeof setImmediate === 'function' ? () => new Promise((r) => setImmediate(r)) : () => new Promise((r) => setTimeout(r, 0));
 
 /**

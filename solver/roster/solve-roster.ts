@@ -6,7 +6,7 @@
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { solveMap, type MapOptions, type MapResult } from '../inference';
 import { DEFAULT_MAP_OPTIONS } from '../inference/options';
-import { relativeGap } from '../inference/solve';
+import { relativeGap, tick } from '../inference/solve';
 import { buildLagrangian, lagrangianSteps, newLagrangianState } from './lagrangian';
 import { score as modelScore } from '../model/score';
 import { compileRoster, type CompiledRoster } from './compile';
@@ -35,8 +35,6 @@ export type SolveRosterOptions = Partial<MapOptions> & {
    */
   lagrangianShare?: number;
 };
-
-const tick = () => new Promise<void>((r) => (typeof setImmediate === 'function' ? setImmediate(r) : setTimeout(r, 0)));
 
 /**
  * Solve a roster. `start`, when given, is a filled roster to start from (e.g. the published
