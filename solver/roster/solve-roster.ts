@@ -51,9 +51,9 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
   let initial = greedyAssignment(compiled);
   if (start) {
-    // The given roster (e.g. the previous run with today's pins) wins unless greedy scores better:
+    // The given roster (e.g. the previous run), with today's pins, wins unless greedy scores better:
     // a pin it does not follow, or a seat it cannot express, makes it lose.
-    const enc = encodeAssignment(compiled, start);
+    const enc = encodeAssignment(compiled, withPins(roster, start));
     if (enc.ok && modelScore(compiled.model, enc.values) >= modelScore(compiled.model, initial)) initial = enc.values;
   }
   const share = Math.min(0.9, Math.max(0, lagrangianShare));
@@ -107,4 +107,29 @@ async function tightenWithLagrangian(
     await tick();
   }
   result.method = `${result.method}+lagrangian`;
+}
+
+const DAY_MS = 86_400_000;
+
+/**
+ * A start roster with every pin applied. A pinned person is taken off their other seats within a
+ * day of the pinned shift (they could not keep both under the rest rules); the search refills
+ * those. Without this a start that predates a pin cannot be encoded (a pinned seat allows only
+ * its person) and is dropped.
+ */
+export function withPins(roster: Roster, start: RosterAssignment): RosterAssignment {
+  const out = { ...start };
+  const shiftStart = new Map(roster.shifts.map((s) => [s.id, Date.parse(`${s.start}Z`)]));
+  const seatStart = new Map(roster.seats.map((s) => [s.id, shiftStart.get(s.shift) ?? 0]));
+  for (const pin of roster.pins) {
+    if (!(pin.seat in out)) continue;
+    out[pin.seat] = pin.person;
+    if (pin.person === null) continue;
+    const at = seatStart.get(pin.seat)!;
+    for (const seat of roster.seats)
+      if (seat.id !== pin.seat && out[seat.id] === pin.person && Math.abs(seatStart.get(seat.id)! - at) < DAY_MS) out[seat.id] = null;
+  }
+  // A pin elsewhere may have moved someone onto a seat another pin gave them: pins win again.
+  for (const pin of roster.pins) if (pin.seat in out) out[pin.seat] = pin.person;
+  return out;
 }

@@ -5,36 +5,8 @@ import { makeApp, signedIn } from '../auth/helpers';
 import { Workspace } from '../../../server/db/models';
 import { seedDemoIfEmpty } from '../../../server/db/seed';
 import { RunWorker } from '../../../server/runs/worker';
-import { withPins } from '../../../server/runs/previous-start';
 import { assembleRoster } from '../../../server/rosters/assemble';
 import { scoreRoster } from '../../../solver/roster';
-import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
-
-describe('withPins: the start of a re-solve', () => {
-  const roster = makeWillowmereRoster();
-  // Day 1 early, day 1 late, day 2 early, day 4 early: seats taken from the demo's own shifts.
-  const seatOn = (date: string, label: RegExp) => {
-    const shift = roster.shifts.find((s) => s.start.startsWith(date) && label.test(s.patternLabel ?? s.id))!;
-    return roster.seats.filter((s) => s.shift === shift.id).map((s) => s.id);
-  };
-  const [e1a, e1b] = seatOn(roster.shifts[0].start.slice(0, 10), /early/i);
-  const [l1] = seatOn(roster.shifts[0].start.slice(0, 10), /late/i);
-  const day = (n: number) => new Date(Date.parse(`${roster.shifts[0].start.slice(0, 10)}T00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
-  const [e2] = seatOn(day(1), /early/i);
-  const [e4] = seatOn(day(3), /early/i);
-  const [a, b] = roster.people.map((p) => p.id);
-
-  it('puts the pinned person in, takes them off seats within a day of it, keeps the rest', () => {
-    const start = Object.fromEntries(roster.seats.map((s) => [s.id, null as string | null]));
-    Object.assign(start, { [e1a]: b, [l1]: a, [e2]: a, [e4]: a });
-    const out = withPins({ ...roster, pins: [{ seat: e1a, person: a }] }, start);
-    expect(out[e1a]).toBe(a); // the pin
-    expect(out[l1]).toBeNull(); // same day: she cannot keep both
-    expect(out[e2]).toBe(a); // next day's early starts 24 h later (16 h of rest): kept
-    expect(out[e4]).toBe(a); // three days later: untouched
-    expect(out[e1b]).toBeNull();
-  });
-});
 
 /**
  * On the Willowmere demo: a re-solve starts from the roster's latest run, so a short re-solve never

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { makeRoster } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
 import { rosterSchema } from '../../../shared/roster/schema';
-import { solveRoster } from '../../../solver/roster/solve-roster';
+import { solveRoster, withPins } from '../../../solver/roster/solve-roster';
 import { scoreRoster } from '../../../solver/roster/score-roster';
 import { greedyRoster } from './helpers';
 
@@ -23,5 +23,31 @@ describe('solveRoster', () => {
     expect(out.score.total).toBeCloseTo(out.result.score, 9);
     expect(out.score.total).toBeGreaterThanOrEqual(scoreRoster(r, start).total - 1e-9);
     expect(out.decoded.openSeats.length).toBe(0);
+  });
+});
+
+describe('withPins: the start of a re-solve', () => {
+  const roster = makeWillowmereRoster();
+  // Day 1 early, day 1 late, day 2 early, day 4 early: seats taken from the demo's own shifts.
+  const seatOn = (date: string, label: RegExp) => {
+    const shift = roster.shifts.find((s) => s.start.startsWith(date) && label.test(s.patternLabel ?? s.id))!;
+    return roster.seats.filter((s) => s.shift === shift.id).map((s) => s.id);
+  };
+  const [e1a, e1b] = seatOn(roster.shifts[0].start.slice(0, 10), /early/i);
+  const [l1] = seatOn(roster.shifts[0].start.slice(0, 10), /late/i);
+  const day = (n: number) => new Date(Date.parse(`${roster.shifts[0].start.slice(0, 10)}T00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+  const [e2] = seatOn(day(1), /early/i);
+  const [e4] = seatOn(day(3), /early/i);
+  const [a, b] = roster.people.map((p) => p.id);
+
+  it('puts the pinned person in, takes them off seats within a day of it, keeps the rest', () => {
+    const start = Object.fromEntries(roster.seats.map((s) => [s.id, null as string | null]));
+    Object.assign(start, { [e1a]: b, [l1]: a, [e2]: a, [e4]: a });
+    const out = withPins({ ...roster, pins: [{ seat: e1a, person: a }] }, start);
+    expect(out[e1a]).toBe(a); // the pin
+    expect(out[l1]).toBeNull(); // same day: she cannot keep both
+    expect(out[e2]).toBe(a); // next day's early starts 24 h later (16 h of rest): kept
+    expect(out[e4]).toBe(a); // three days later: untouched
+    expect(out[e1b]).toBeNull();
   });
 });
