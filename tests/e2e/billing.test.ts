@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { launch, openPage, PHONE, screenshot, WIDE, DEMO_PASSWORD } from './helpers/browser';
 
 const PASSWORD = 'a long enough test password';
 const headers = { 'x-rotaloom-csrf': '1' };
@@ -211,7 +211,7 @@ describe('billing is for admins only', () => {
 
   it('a coordinator has no Plan & billing in the navigation and the page says it is for admins', async () => {
     const { page, problems, close } = await openPage(browser, PHONE);
-    const res = await page.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: 'willowmere-demo' }, headers });
+    const res = await page.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: DEMO_PASSWORD }, headers });
     expect(res.status()).toBe(200);
     await page.goto('/billing');
     await page.getByText('Only admins of this workspace see its plan and billing.').waitFor();

@@ -2,17 +2,9 @@ import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import ICAL from 'ical.js';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { launch, openPage, PHONE, screenshot, WIDE, signIn } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
-
-async function signIn(page: Page) {
-  await page.goto('/');
-  await page.getByLabel('E-mail').fill('coordinator@willowmere.example');
-  await page.getByLabel('Password').fill('willowmere-demo');
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
 
 /** Starts a run with a short time limit and waits for it to finish (the worker claims it from MariaDB). */
 async function solve(page: Page, shot: string) {

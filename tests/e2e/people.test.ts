@@ -1,22 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { baseUrl, launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { baseUrl, launch, openPage, PHONE, screenshot, WIDE, signIn, DEMO_PASSWORD } from './helpers/browser';
 
-const PASSWORD = 'willowmere-demo';
 
 // Invented names, one set per screen size, so both runs can share the demo database.
 const NAMES = {
   phone: ['Juniper Ashgrove', 'Lorcan Whitmoor', 'Tamsin Redfern'],
   wide: ['Ivo Marchetti-Lane', 'Perpetua Swale', 'Caspian Orme'],
 } as const;
-
-async function signIn(page: Page, email: string) {
-  await page.goto('/');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
 
 /** Takes away people an earlier run against the same database imported, so the run starts clean. */
 async function removeEarlierRuns(page: Page, names: readonly string[]) {
@@ -34,7 +25,7 @@ const csv = (lines: string[]) => ({ name: 'new-staff.csv', mimeType: 'text/csv',
 async function staffRequestsApart(browser: Browser, colleagueName: string, reason: string) {
   const context = await browser.newContext({ baseURL: baseUrl() });
   const headers = { 'x-rotaloom-csrf': '1' };
-  const signIn = await context.request.post('/api/auth/sign-in', { data: { email: 'staff@willowmere.example', password: PASSWORD }, headers });
+  const signIn = await context.request.post('/api/auth/sign-in', { data: { email: 'staff@willowmere.example', password: DEMO_PASSWORD }, headers });
   expect(signIn.status()).toBe(200);
   const colleagues = (await (await context.request.get('/api/me/colleagues')).json()) as { items: Array<{ id: number; name: string }> };
   const colleague = colleagues.items.find((c) => c.name === colleagueName);

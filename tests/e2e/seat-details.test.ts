@@ -1,16 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { launch, openPage, PHONE, screenshot, WIDE, signIn } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
-
-async function signIn(page: Page) {
-  await page.goto('/');
-  await page.getByLabel('E-mail').fill('coordinator@willowmere.example');
-  await page.getByLabel('Password').fill('willowmere-demo');
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
 
 /**
  * Seat details as a coordinator reads them: the seat's holder, how contested the seat is in words

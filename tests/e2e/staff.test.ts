@@ -10,17 +10,9 @@ import { CalendarFeedRow } from '../../server/staff/models';
 import { PairingRow } from '../../server/rosters/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
 import { publishDirectly, seatsOf } from '../server/staff/publish-helper';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { launch, openPage, PHONE, screenshot, WIDE, signIn, DEMO_PASSWORD } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, staff week (browser test)';
-
-async function signIn(page: Page, email: string) {
-  await page.goto('/');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill('willowmere-demo');
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
-}
 
 interface FeedEvent {
   uid: string;
@@ -153,7 +145,7 @@ describe('staff on their phones', () => {
     // ---- the coordinator sees both through the API ----
     const coordinator = await browser.newContext({ baseURL: new URL(page.url()).origin });
     const csrf = { 'X-Rotaloom-CSRF': '1' };
-    expect((await coordinator.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: 'willowmere-demo' }, headers: csrf })).status()).toBe(200);
+    expect((await coordinator.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: DEMO_PASSWORD }, headers: csrf })).status()).toBe(200);
     const wishes = (await (await coordinator.request.get(`/api/rosters/${rosterId}/wishes`)).json()).items as Array<{ personId: number; date: string; kind: string; note: string | null }>;
     const hers = wishes.filter((w) => w.personId === hattie.id).map((w) => `${w.date} ${w.kind}`).sort();
     expect(hers).toEqual(['2027-02-01 prefer', '2027-02-02 cannot', '2027-02-04 cannot', '2027-02-05 avoid', '2027-02-07 avoid']);

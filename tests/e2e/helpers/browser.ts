@@ -57,3 +57,15 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   await page.screenshot({ path: file, fullPage: false });
   return file;
 }
+
+/** The demo's password (server/db/seed.ts) for every Willowmere account. */
+export const DEMO_PASSWORD = 'willowmere-demo';
+
+/** Signs in through the landing page's form as a person would, and waits for the signed-in shell. */
+export async function signIn(page: Page, email = 'coordinator@willowmere.example'): Promise<void> {
+  await page.goto('/');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+}
