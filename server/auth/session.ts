@@ -30,10 +30,68 @@ export interface SessionHandle {
   store: session.Store;
 }
 
+type Callback = (err?: unknown) => void;
+
+/**
+ * The Sequelize store, read the way every request needs it:
+ * - get: one plain SELECT that also brings the account (loadSessionWithAccount); an expired row
+ *   counts as no session even before the periodic cleanup removes it; reads of one session within
+ *   a second share it (SessionCache, cleared by writes and by state-changing requests);
+ * - createSession, which has the request, hands the account (carried on the parsed session under
+ *   a symbol: not saved, not hashed) to deserializeUser;
+ * - touch: rolling sessions would otherwise write the table on every read; once a minute per
+ *   session keeps a two-week expiry moving.
+ */
+class RotaloomStore extends SequelizeStore {
+  readonly recent = new SessionCache();
+  private readonly lastTouch = new Map<string, number>();
+
+  get(sid: string, callback: (err: unknown, session?: session.SessionData | null) => void): void {
+    const hit = this.recent.get(sid);
+    if (hit) return callback(null, withAccount(hit));
+    loadSessionWithAccount(sid).then((row) => {
+      if (!row) return callback(null, null);
+      this.recent.remember(sid, row);
+      callback(null, withAccount(row));
+    }, callback);
+  }
+
+  set(sid: string, data: session.SessionData, callback?: Callback) {
+    this.recent.forget(sid);
+    return super.set(sid, data, callback);
+  }
+
+  destroy(sid: string, callback?: Callback) {
+    this.recent.forget(sid);
+    return super.destroy(sid, callback);
+  }
+
+  // a property in the store's typings, a prototype method at run time
+  touch = (sid: string, data: session.SessionData, callback?: Callback): void => {
+    const now = Date.now();
+    if (now - (this.lastTouch.get(sid) ?? 0) < 60_000) return void callback?.();
+    if (this.lastTouch.size > 50_000) this.lastTouch.clear();
+    this.lastTouch.set(sid, now);
+    SequelizeStore.prototype.touch.call(this, sid, data, callback);
+  };
+
+  createSession(req: Request, data: session.SessionData) {
+    const account = (data as { [ACCOUNT]?: SignedInAccount })[ACCOUNT];
+    if (account) rememberAccount(req, account);
+    return super.createSession(req, data);
+  }
+}
+
+const withAccount = (row: { data: string; account: SignedInAccount | null }): session.SessionData => {
+  const data = JSON.parse(row.data) as session.SessionData;
+  if (row.account) Object.defineProperty(data, ACCOUNT, { value: row.account, enumerable: false });
+  return data;
+};
+
 /** Sessions in MariaDB; the cookie is httpOnly, SameSite=Lax and Secure whenever the request came over HTTPS. */
 export function createSessionMiddleware(env: Env, sequelize: Sequelize): SessionHandle {
   initAccountModels(sequelize);
-  const store = new SequelizeStore({
+  const store = new RotaloomStore({
     db: sequelize,
     table: 'Session',
     expiration: TWO_WEEKS,
@@ -45,50 +103,6 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
       userId: data.passport?.user ?? null,
     }),
   });
-  // Read on every request: one plain SELECT that also brings the account (see
-  // loadSessionWithAccount), and an expired row counts as no session even before the periodic
-  // cleanup removes it; a burst of reads of one session within a second shares it (SessionCache).
-  // The account rides on the parsed session under a symbol (not saved, not hashed) until
-  // createSession, which has the request, hands it to deserializeUser.
-  const recent = new SessionCache();
-  const answer = (row: { data: string; account: SignedInAccount | null }) => {
-    const data = JSON.parse(row.data) as session.SessionData;
-    if (row.account) Object.defineProperty(data, ACCOUNT, { value: row.account, enumerable: false });
-    return data;
-  };
-  store.get = (sid: string, callback: (err: unknown, session?: session.SessionData | null) => void) => {
-    const hit = recent.get(sid);
-    if (hit) return callback(null, answer(hit));
-    loadSessionWithAccount(sid).then((row) => {
-      if (!row) return callback(null, null);
-      recent.remember(sid, row);
-      callback(null, answer(row));
-    }, callback);
-  };
-  for (const write of ['set', 'destroy', 'touch'] as const) {
-    const original = store[write].bind(store) as (sid: string, ...rest: unknown[]) => unknown;
-    (store as unknown as Record<string, unknown>)[write] = (sid: string, ...rest: unknown[]) => {
-      recent.forget(sid);
-      return original(sid, ...rest);
-    };
-  }
-  const createSession = store.createSession.bind(store);
-  store.createSession = (req, data) => {
-    const account = (data as { [ACCOUNT]?: SignedInAccount })[ACCOUNT];
-    if (account) rememberAccount(req as unknown as Request, account);
-    return createSession(req, data);
-  };
-  // Rolling sessions would otherwise write the sessions table on every read; once a minute per
-  // session is plenty to keep a two-week expiry moving.
-  const touch = store.touch.bind(store);
-  const lastTouch = new Map<string, number>();
-  store.touch = (sid: string, data: session.SessionData, callback?: (err?: unknown) => void) => {
-    const now = Date.now();
-    if (now - (lastTouch.get(sid) ?? 0) < 60_000) return callback?.();
-    if (lastTouch.size > 50_000) lastTouch.clear();
-    lastTouch.set(sid, now);
-    touch(sid, data, callback);
-  };
   const sessions = session({
     name: SESSION_COOKIE,
     secret: env.sessionSecret,
@@ -110,8 +124,8 @@ export function createSessionMiddleware(env: Env, sequelize: Sequelize): Session
   // cleared as it starts and again once its writes are done.
   const middleware: RequestHandler = (req, res, next) => {
     if (!READ_ONLY_METHODS.has(req.method)) {
-      recent.clear();
-      res.once('close', () => recent.clear());
+      store.recent.clear();
+      res.once('close', () => store.recent.clear());
     }
     sessions(req, res, next);
   };
