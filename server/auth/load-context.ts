@@ -1,26 +1,20 @@
 import type { Request, RequestHandler } from 'express';
-import { resolveMembership, type ResolvedMembership, type SignedInAccount } from './service';
+import { resolveMembership, type SignedInAccount } from './service';
 import './context';
 
-// The session store reads the account with the session row, and passport's deserializeUser the
-// membership with the user, so that a request asks the database once; what they read waits here,
-// per request, for deserializeUser and loadAuthContext.
-const preloadedAccounts = new WeakMap<Request, SignedInAccount>();
-const preloadedMemberships = new WeakMap<Request, ResolvedMembership | null>();
+// The session store reads the account (user and membership) with the session row, or passport's
+// deserializeUser reads it with one query: either way it waits here, per request, so that
+// deserializeUser and loadAuthContext do not ask the database again.
+const accounts = new WeakMap<Request, SignedInAccount>();
 
 export function rememberAccount(req: Request, account: SignedInAccount): void {
-  preloadedAccounts.set(req, account);
+  accounts.set(req, account);
 }
 
-/** The account read with this request's session, if it is the given user's. */
+/** The account read for this request, if it is the given user's. */
 export function preloadedAccount(req: Request, userId: number): SignedInAccount | undefined {
-  const account = preloadedAccounts.get(req);
-  preloadedAccounts.delete(req);
+  const account = accounts.get(req);
   return account?.user.id === userId ? account : undefined;
-}
-
-export function rememberMembership(req: Request, membership: ResolvedMembership | null): void {
-  preloadedMemberships.set(req, membership);
 }
 
 /**
@@ -30,8 +24,8 @@ export function rememberMembership(req: Request, membership: ResolvedMembership 
  */
 export const loadAuthContext: RequestHandler = async (req, _res, next) => {
   if (!req.user) return next();
-  const membership = preloadedMemberships.has(req) ? preloadedMemberships.get(req)! : await resolveMembership(req.user.id, req.session.workspaceId);
-  preloadedMemberships.delete(req);
+  const account = preloadedAccount(req, req.user.id);
+  const membership = account ? account.membership : await resolveMembership(req.user.id, req.session.workspaceId);
   if (membership) {
     req.auth = { userId: req.user.id, ...membership };
     if (req.session.workspaceId !== membership.workspaceId) req.session.workspaceId = membership.workspaceId;

@@ -4,7 +4,7 @@ import { Strategy as GoogleStrategy, type Profile, type VerifyCallback } from 'p
 import type { Request } from 'express';
 import type { Env } from '../env';
 import { verifyPassword, googleSignIn, loadSignedInUser, type GoogleIdentity } from './service';
-import { preloadedAccount, rememberMembership } from './load-context';
+import { preloadedAccount, rememberAccount } from './load-context';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -72,7 +72,7 @@ export function createPassport(env: Env): Authenticator {
       (found) => {
         // A deleted user simply becomes signed out.
         if (!found) return done(null, false);
-        rememberMembership(req, found.membership);
+        rememberAccount(req, found);
         done(null, found.user);
       },
       (err) => done(err),
