@@ -1,11 +1,10 @@
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Express } from 'express';
-import { createTestDb, type TestDb } from '../helpers/test-db';
-import { makeApp, signedIn } from '../auth/helpers';
-import { Workspace } from '../../../server/db/models';
-import { seedDemoIfEmpty } from '../../../server/db/seed';
-import { RunWorker } from '../../../server/runs/worker';
+import type { TestDb } from '../helpers/test-db';
+import type { signedIn } from '../auth/helpers';
+import type { Workspace } from '../../../server/db/models';
+import type { RunWorker } from '../../../server/runs/worker';
+import { demoSetup } from './demo';
 import { forgetSeatAlternatives } from '../../../server/runs/alternatives';
 import { assembleRoster } from '../../../server/rosters/assemble';
 import { scoreRoster } from '../../../solver/roster';
@@ -23,19 +22,14 @@ type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
  */
 describe('seat alternatives on the demo roster', () => {
   let db: TestDb;
-  let app: Express;
+  let workspace: Workspace;
   let coordinator: Agent;
   let worker: RunWorker;
   let runId: number;
   let rosterId: number;
 
   beforeAll(async () => {
-    db = await createTestDb();
-    app = makeApp(db).app;
-    await seedDemoIfEmpty(db.sequelize);
-    const workspace = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!;
-    coordinator = (await signedIn(app, workspace, 'coordinator')).agent;
-    worker = new RunWorker(db.sequelize, { name: 'alternatives-demo-worker' });
+    ({ db, workspace, coordinator, worker } = await demoSetup('alternatives-demo-worker'));
     rosterId = (await coordinator.get('/api/rosters')).body.items[0].id;
     const start = await coordinator.post(`/api/rosters/${rosterId}/runs`).send({ timeLimitSeconds: 3, seed: 1 });
     expect(start.status).toBe(202);
@@ -117,7 +111,7 @@ describe('seat alternatives on the demo roster', () => {
     expect(await worker.tick()).toBe(start.body.id);
     const next = (await coordinator.get(`/api/runs/${start.body.id}`)).body as { score: number; assignments: Array<{ seatId: number; personId: number | null; pinned: boolean }> };
     expect(next.assignments.find((a) => a.seatId === seatId)).toMatchObject({ personId: best.personId, pinned: true });
-    const { parsed } = await assembleRoster((await Workspace.findOne({ where: { name: 'Willowmere House' } }))!.id, rosterId);
+    const { parsed } = await assembleRoster(workspace.id, rosterId);
     if (!parsed.ok) throw new Error('roster invalid');
     const solved = scoreRoster(parsed.roster, Object.fromEntries(next.assignments.map((a) => [`st${a.seatId}`, a.personId === null ? null : `p${a.personId}`]))).total;
     // No roster with the pin can beat the max-marginal's upper bound.

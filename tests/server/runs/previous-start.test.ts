@@ -1,10 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Express } from 'express';
-import { createTestDb, type TestDb } from '../helpers/test-db';
-import { makeApp, signedIn } from '../auth/helpers';
-import { Workspace } from '../../../server/db/models';
-import { seedDemoIfEmpty } from '../../../server/db/seed';
-import { RunWorker } from '../../../server/runs/worker';
+import type { TestDb } from '../helpers/test-db';
+import type { signedIn } from '../auth/helpers';
+import type { Workspace } from '../../../server/db/models';
+import type { RunWorker } from '../../../server/runs/worker';
+import { demoSetup } from './demo';
 import { assembleRoster } from '../../../server/rosters/assemble';
 import { scoreRoster } from '../../../solver/roster';
 
@@ -15,16 +14,11 @@ import { scoreRoster } from '../../../solver/roster';
  */
 describe('re-solves start from the latest run', () => {
   let db: TestDb;
-  let app: Express;
+  let workspace: Workspace;
   let coordinator: Awaited<ReturnType<typeof signedIn>>['agent'];
   let worker: RunWorker;
   beforeAll(async () => {
-    db = await createTestDb();
-    app = makeApp(db).app;
-    await seedDemoIfEmpty(db.sequelize);
-    const workspace = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!;
-    coordinator = (await signedIn(app, workspace, 'coordinator')).agent;
-    worker = new RunWorker(db.sequelize, { name: 'previous-start-worker' });
+    ({ db, coordinator, worker, workspace } = await demoSetup('previous-start-worker'));
   }, 120_000);
   afterAll(async () => {
     await worker.stop();
@@ -39,7 +33,7 @@ describe('re-solves start from the latest run', () => {
       expect(await worker.tick()).toBe(started.body.id);
       const run = (await coordinator.get(`/api/runs/${started.body.id}`)).body;
       expect(run.status).toBe('done');
-      const { parsed } = await assembleRoster((await Workspace.findOne({ where: { name: 'Willowmere House' } }))!.id, rosterId);
+      const { parsed } = await assembleRoster(workspace.id, rosterId);
       if (!parsed.ok) throw new Error('demo roster invalid');
       const assignment = Object.fromEntries(run.assignments.map((x: { seatId: number; personId: number | null }) => [`st${x.seatId}`, x.personId === null ? null : `p${x.personId}`]));
       return { run, check: scoreRoster(parsed.roster, assignment) };
