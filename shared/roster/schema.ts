@@ -21,6 +21,7 @@ export const ROSTER_LIMITS = {
   wishes: 50_000,
   pairings: 20_000,
   pins: 60_000,
+  absences: 20_000,
   periodDays: 366,
 } as const;
 
@@ -45,12 +46,66 @@ export const skillSchema = z.object({
   name: z.string().min(1).max(120),
 });
 
+export const weekdaySchema = z.enum(['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun']);
+
+/**
+ * Per-person terms: rules for one person beside the roster-wide ones, each hard or soft
+ * (soft: `weight` points per unit over, the unit named per kind). `from` = the term covers
+ * shifts starting on or after that date (counts are over those shifts); absent = whole period.
+ */
+const termBase = {
+  hard: z.boolean().default(true),
+  weight: z.number().min(0).max(10_000).default(10),
+  from: localDateSchema.optional(),
+};
+export const termSchema = z.discriminatedUnion('kind', [
+  /** At least `hours` worked (plus credited absence hours) over the covered period. Per hour short. */
+  z.object({ kind: z.literal('minHours'), hours: z.number().min(0).max(2000), ...termBase }),
+  /** At most `hours` worked (plus credited absence hours) over the covered period. Per hour over. */
+  z.object({ kind: z.literal('maxHours'), hours: z.number().min(0).max(2000), ...termBase }),
+  /** No night shifts. Per night worked. */
+  z.object({ kind: z.literal('noNights'), ...termBase }),
+  /** At most `count` night shifts. Per night over. */
+  z.object({ kind: z.literal('maxNights'), count: z.number().int().min(0).max(400), ...termBase }),
+  /** At most `count` weekends worked (a weekend counts when a shift starts on its Saturday or Sunday). Per weekend over. */
+  z.object({ kind: z.literal('maxWeekends'), count: z.number().int().min(0).max(60), ...termBase }),
+  /** No shift starting on these weekdays. Per shift. */
+  z.object({ kind: z.literal('daysOff'), weekdays: z.array(weekdaySchema).min(1).max(7), ...termBase }),
+  /** At most `count` shifts starting in each calendar week (Mon–Sun). Per shift over. */
+  z.object({ kind: z.literal('maxShiftsPerWeek'), count: z.number().int().min(0).max(21), ...termBase }),
+  /** No shift starting before this local time of day. Per shift. */
+  z.object({ kind: z.literal('earliestStart'), time: localTimeSchema, ...termBase }),
+  /** Every shift ends on its start day at or before this local time (a shift past midnight breaks it). Per shift. */
+  z.object({ kind: z.literal('latestEnd'), time: localTimeSchema, ...termBase }),
+  /** Only shifts whose pattern label is listed. Per shift outside. */
+  z.object({ kind: z.literal('allowedPatterns'), labels: z.array(z.string().min(1).max(60)).min(1).max(50), ...termBase }),
+]);
+export const TERM_KINDS = ['minHours', 'maxHours', 'noNights', 'maxNights', 'maxWeekends', 'daysOff', 'maxShiftsPerWeek', 'earliestStart', 'latestEnd', 'allowedPatterns'] as const;
+
 export const personSchema = z.object({
   id,
   name: z.string().min(1).max(120),
   skills: z.array(id).max(200).default([]),
   /** Contracted hours per week; absent = no target (bank/relief staff). */
   contractedHoursPerWeek: z.number().min(0).max(168).optional(),
+  terms: z.array(termSchema).max(50).default([]),
+});
+
+export const absenceKindSchema = z.enum(['annual', 'sick', 'training', 'parental', 'other']);
+/**
+ * Approved time away. The person is unavailable (hard) for every shift whose time span
+ * overlaps [start, end). `creditHours` count toward contracted hours and the hours rules
+ * (Art. 16(b): leave is neutral in the average), spread evenly over the local days the
+ * absence touches inside the period.
+ */
+export const absenceSchema = z.object({
+  person: id,
+  kind: absenceKindSchema.default('other'),
+  /** Local date-time; a whole day starts at 00:00. */
+  start: localDateTimeSchema,
+  /** Local date-time, exclusive; a whole day ends at 00:00 of the next day. */
+  end: localDateTimeSchema,
+  creditHours: z.number().min(0).max(5000).default(0),
 });
 
 export const periodSchema = z.object({
@@ -163,7 +218,6 @@ export const ruleSetSchema = z.object({
 });
 
 /** Shift pattern: a recurring shift definition that generates shifts over the period. */
-export const weekdaySchema = z.enum(['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun']);
 export const shiftPatternSchema = z.object({
   label: z.string().min(1).max(60),
   weekdays: z.array(weekdaySchema).min(1).max(7),
@@ -186,6 +240,7 @@ const rosterBaseSchema = z.object({
   wishes: z.array(wishSchema).max(ROSTER_LIMITS.wishes).default([]),
   pairings: z.array(pairingSchema).max(ROSTER_LIMITS.pairings).default([]),
   pins: z.array(pinSchema).max(ROSTER_LIMITS.pins).default([]),
+  absences: z.array(absenceSchema).max(ROSTER_LIMITS.absences).default([]),
   rules: ruleSetSchema.prefault({}),
 });
 
@@ -277,6 +332,17 @@ function checkReferences(r: z.output<typeof rosterBaseSchema>, ctx: Ctx): void {
     }
   });
 
+  const absencesOf = new Map<string, { start: string; end: string; i: number }[]>();
+  r.absences.forEach((a, i) => {
+    if (!people.has(a.person)) add(['absences', i, 'person'], `unknown person "${a.person}"`);
+    if (a.end <= a.start) add(['absences', i, 'end'], `absence ends (${a.end}) before or when it starts (${a.start})`);
+    const mine = absencesOf.get(a.person) ?? [];
+    const clash = mine.find((b) => a.start < b.end && b.start < a.end);
+    if (clash) add(['absences', i, 'start'], `absence overlaps absences[${clash.i}] of the same person`);
+    mine.push({ start: a.start, end: a.end, i });
+    absencesOf.set(a.person, mine);
+  });
+
   r.rules.skillMix.requirements.forEach((q, i) => {
     if (!skills.has(q.skill)) add(['rules', 'skillMix', 'requirements', i, 'skill'], `unknown skill "${q.skill}"`);
   });
@@ -297,6 +363,10 @@ export type Wish = z.output<typeof wishSchema>;
 export type WishKind = z.output<typeof wishKindSchema>;
 export type Pairing = z.output<typeof pairingSchema>;
 export type Pin = z.output<typeof pinSchema>;
+export type Absence = z.output<typeof absenceSchema>;
+export type AbsenceKind = z.output<typeof absenceKindSchema>;
+export type Term = z.output<typeof termSchema>;
+export type TermKind = Term['kind'];
 export type RuleSet = z.output<typeof ruleSetSchema>;
 export type RuleName = keyof RuleSet;
 export type ShiftPattern = z.output<typeof shiftPatternSchema>;
