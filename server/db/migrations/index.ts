@@ -5,6 +5,7 @@ import * as m0003 from './0003-rosters';
 import * as m0004 from './0004-billing';
 import * as m0005 from './0005-staff-feeds';
 import * as m0006 from './0006-run-contest';
+import * as m0007 from './0007-absences-terms';
 
 export interface Migration {
   name: string;
@@ -20,4 +21,5 @@ export const migrations: Migration[] = [
   { name: '0004-billing', ...m0004 },
   { name: '0005-staff-feeds', ...m0005 },
   { name: '0006-run-contest', ...m0006 },
+  { name: '0007-absences-terms', ...m0007 },
 ];
