@@ -14,6 +14,7 @@ import { membersRouter, invitationsRouter } from './members/router';
 import { workspacesRouter } from './workspaces/router';
 import { createMailer, type Mailer } from './mail/mailer';
 import { devMailRouter } from './dev/mail-page';
+import { termsRouter } from './terms/router';
 import { peopleRouter, skillsRouter } from './people/router';
 import { rostersRouter } from './rosters/router';
 import { pairingsRouter } from './pairings/router';
@@ -65,7 +66,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/members', membersRouter());
   api.use('/invitations', invitationsRouter({ env, mailer }));
   api.use('/skills', skillsRouter());
-  api.use('/people', peopleRouter());
+  api.use('/people', peopleRouter(), termsRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
   const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
   api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }));

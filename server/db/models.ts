@@ -1,6 +1,7 @@
 import { initRosterModels } from '../rosters/models';
 import { initBillingModels } from '../billing/models';
 import { initStaffModels } from '../staff/models';
+import { initTermModels } from '../terms/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
@@ -117,4 +118,5 @@ export function initModels(sequelize: Sequelize): void {
   initRosterModels(sequelize);
   initBillingModels(sequelize);
   initStaffModels(sequelize);
+  initTermModels(sequelize);
 }

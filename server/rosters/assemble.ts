@@ -3,6 +3,7 @@ import { parseRoster, type ParseRosterResult, type RosterInput } from '../../sha
 import { PairingRow, PinRow, SeatRow, ShiftRow, WishRow } from './models';
 import { findRoster } from './repository';
 import { rosterIds } from './ids';
+import { termsForPeriod } from '../terms/repository';
 
 /**
  * Reads one roster with everything the solver needs from the database into the roster JSON
@@ -19,6 +20,7 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
     PairingRow.findAll({ where: { workspaceId, status: 'approved' }, order: [['id', 'ASC']] }),
     PinRow.findAll({ where: { workspaceId, rosterId } }),
   ]);
+  const terms = await termsForPeriod(workspaceId, { start: roster.periodStart, end: roster.periodEnd });
   const seats = await SeatRow.findAll({ where: { workspaceId, shiftId: shifts.map((s) => s.id) }, order: [['shiftId', 'ASC'], ['position', 'ASC']] });
   const input: RosterInput = {
     format: 'rotaloom.roster/1',
@@ -30,6 +32,7 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
       name: p.name,
       skills: (p.skills ?? []).map(rosterIds.skill),
       ...(p.contractedHours > 0 ? { contractedHoursPerWeek: p.contractedHours } : {}),
+      ...(terms.has(p.id) ? { terms: terms.get(p.id) } : {}),
     })),
     shifts: shifts.map((s) => ({
       id: rosterIds.shift(s.id),

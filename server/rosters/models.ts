@@ -75,6 +75,8 @@ export class WishRow extends Model<Attrs<WishRow>, Creation<WishRow>> {
   declare kind: 'prefer' | 'avoid' | 'cannot';
   declare strength: CreationOptional<number>;
   declare note: CreationOptional<string | null>;
+  /** Who typed it: the person themself, or a coordinator on their behalf; null for seeded or imported wishes. */
+  declare enteredByUserId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -182,7 +184,7 @@ export function initRosterModels(sequelize: Sequelize): void {
   );
   SeatRow.init({ ...common, shiftId: int, skillId: int, position: int }, opts(sequelize, 'seats'));
   WishRow.init(
-    { ...common, rosterId: int, personId: int, date: DataTypes.DATEONLY, shiftId: int, kind: DataTypes.ENUM('prefer', 'avoid', 'cannot'), strength: { type: DataTypes.DOUBLE, defaultValue: 1 }, note: DataTypes.STRING(500) },
+    { ...common, rosterId: int, personId: int, date: DataTypes.DATEONLY, shiftId: int, kind: DataTypes.ENUM('prefer', 'avoid', 'cannot'), strength: { type: DataTypes.DOUBLE, defaultValue: 1 }, note: DataTypes.STRING(500), enteredByUserId: int },
     opts(sequelize, 'wishes'),
   );
   PairingRow.init(

@@ -270,6 +270,7 @@ export async function createWish(
   workspaceId: number,
   rosterId: number,
   body: { personId: number; date?: string; shiftId?: number; kind: 'prefer' | 'avoid' | 'cannot'; strength: number; note?: string | null },
+  enteredByUserId: number | null = null,
 ) {
   const roster = await findRoster(workspaceId, rosterId);
   if (!(await Person.findOne({ where: { id: body.personId, workspaceId } }))) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: 'body.personId', message: 'unknown person' }]);
@@ -279,7 +280,7 @@ export async function createWish(
   if (body.shiftId && !(await ShiftRow.findOne({ where: { id: body.shiftId, workspaceId, rosterId } }))) {
     throw new HttpError(422, 'unprocessable', 'Unknown shift', [{ path: 'body.shiftId', message: 'not a shift of this roster' }]);
   }
-  const w = await WishRow.create({ workspaceId, rosterId, personId: body.personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: body.strength, note: body.note ?? null });
+  const w = await WishRow.create({ workspaceId, rosterId, personId: body.personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: body.strength, note: body.note ?? null, enteredByUserId });
   await touchRoster(workspaceId, rosterId);
   return { id: w.id, personId: w.personId, date: w.date ?? null, shiftId: w.shiftId ?? null, kind: w.kind, strength: w.strength, note: w.note ?? null };
 }

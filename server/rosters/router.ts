@@ -11,8 +11,10 @@ import {
   shiftBody,
   updateRosterBody,
   updateShiftBody,
+  updateWishBody,
   wishBody,
 } from '../../shared/api/rosters';
+import { updateWish, wishesView } from './wishes-view';
 import * as repo from './repository';
 import { enforcePlanLimit } from '../billing/limits';
 import { assembleRoster } from './assemble';
@@ -82,10 +84,13 @@ export function rostersRouter() {
   });
 
   r.get('/:rosterId/wishes', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
-    res.json({ items: await repo.listWishes(ws(req), rid(req)) });
+    res.json(await wishesView(ws(req), rid(req)));
   });
   r.post('/:rosterId/wishes', COORDINATOR_UP, validate({ params: rosterIdParams, body: wishBody }), async (req, res) => {
-    res.status(201).json(await repo.createWish(ws(req), rid(req), req.body));
+    res.status(201).json(await repo.createWish(ws(req), rid(req), req.body, req.auth!.userId));
+  });
+  r.patch('/:rosterId/wishes/:id', COORDINATOR_UP, validate({ params: rosterChildParams, body: updateWishBody }), async (req, res) => {
+    res.json(await updateWish(ws(req), rid(req), cid(req), req.body, req.auth!.userId));
   });
   r.delete('/:rosterId/wishes/:id', COORDINATOR_UP, validate({ params: rosterChildParams }), async (req, res) => {
     await repo.deleteWish(ws(req), rid(req), cid(req));

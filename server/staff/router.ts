@@ -67,14 +67,14 @@ export function staffRouter(deps: { env: Env; mailer: Mailer }) {
     await rosterInWorkspace(req);
     const person = await me(req);
     assertSelf(req.body, person);
-    const out = await setMyWish(ws(req), Number(req.params.rosterId), person.id, req.body);
+    const out = await setMyWish(ws(req), Number(req.params.rosterId), person.id, req.body, req.auth!.userId);
     res.status(out.created ? 201 : 200).json(out);
   });
   r.post('/rosters/:rosterId/wishes/weekly', STAFF_UP, validate({ params: rosterIdParams, body: weeklyWishBody }), async (req, res) => {
     await rosterInWorkspace(req);
     const person = await me(req);
     assertSelf(req.body, person);
-    res.json(await setWeeklyWish(ws(req), Number(req.params.rosterId), person.id, req.body));
+    res.json(await setWeeklyWish(ws(req), Number(req.params.rosterId), person.id, req.body, req.auth!.userId));
   });
   r.delete('/rosters/:rosterId/wishes/:id', STAFF_UP, validate({ params: rosterChildParams }), async (req, res) => {
     await rosterInWorkspace(req);

@@ -48,7 +48,10 @@ function assertOpen(r: Roster): void {
   }
   if (r.wishDeadline && new Date(r.wishDeadline).getTime() <= Date.now()) {
     const when = new Date(r.wishDeadline).toISOString().replace('T', ' ').slice(0, 16);
-    throw new HttpError(409, 'conflict', `Wishes for ${r.name} closed at ${when} UTC; they can be read but no longer changed`, [{ path: 'params.rosterId', message: 'past the wish deadline' }]);
+    // 403: the request is understood but the deadline forbids it; the field names the deadline
+    throw new HttpError(403, 'forbidden', `Wishes for ${r.name} closed at ${when} UTC; they can be read but no longer changed. Ask your coordinator to enter a late wish.`, [
+      { path: 'roster.wishDeadline', message: `the wish deadline was ${new Date(r.wishDeadline).toISOString()}` },
+    ]);
   }
 }
 
@@ -96,6 +99,7 @@ export async function setMyWish(
   rosterId: number,
   personId: number,
   body: { date?: string; shiftId?: number; kind: StaffWishKind; note?: string | null },
+  enteredByUserId: number | null = null,
 ): Promise<{ wish: MyWish; created: boolean; cannotDaysUsed: number }> {
   return Roster.sequelize!.transaction(async (transaction) => {
     // The roster row lock serialises a person's concurrent taps, so the cannot limit holds.
@@ -114,9 +118,10 @@ export async function setMyWish(
     if (existing) {
       existing.kind = body.kind;
       existing.note = note;
+      existing.enteredByUserId = enteredByUserId;
       row = await existing.save({ transaction });
     } else {
-      row = await WishRow.create({ workspaceId, rosterId, personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: STAFF_WISH_STRENGTH, note }, { transaction });
+      row = await WishRow.create({ workspaceId, rosterId, personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction });
     }
     const used = await cannotDays(workspaceId, rosterId, personId, transaction);
     if (body.kind === 'cannot') assertWithinLimit(roster, used, 'body.kind');
@@ -131,6 +136,7 @@ export async function setWeeklyWish(
   rosterId: number,
   personId: number,
   body: { weekday: (typeof WEEKDAYS)[number]; kind: StaffWishKind; note?: string | null },
+  enteredByUserId: number | null = null,
 ): Promise<{ wishes: MyWish[]; cannotDaysUsed: number }> {
   return Roster.sequelize!.transaction(async (transaction) => {
     const roster = await findRoster(workspaceId, rosterId, transaction, true);
@@ -150,9 +156,10 @@ export async function setWeeklyWish(
       if (w) {
         w.kind = body.kind;
         w.note = note;
+        w.enteredByUserId = enteredByUserId;
         rows.push(await w.save({ transaction }));
       } else {
-        rows.push(await WishRow.create({ workspaceId, rosterId, personId, date, shiftId: null, kind: body.kind, strength: STAFF_WISH_STRENGTH, note }, { transaction }));
+        rows.push(await WishRow.create({ workspaceId, rosterId, personId, date, shiftId: null, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction }));
       }
     }
     const used = await cannotDays(workspaceId, rosterId, personId, transaction);

@@ -75,6 +75,35 @@ export const wishBody = z
     if ((v.date === undefined) === (v.shiftId === undefined)) ctx.addIssue({ code: 'custom', path: ['date'], message: 'Give either a date or a shift' });
   });
 
+/** A coordinator changes a wish in the wishes view (any person's, also after the staff deadline). */
+export const updateWishBody = z
+  .object({
+    kind: z.enum(['prefer', 'avoid', 'cannot']).optional(),
+    strength: z.number().min(0).max(1000).optional(),
+    note: z.string().max(500).nullable().optional(),
+  })
+  .refine((v) => v.kind !== undefined || v.strength !== undefined || v.note !== undefined, { message: 'Nothing to change', path: ['kind'] });
+
+/** One wish as the coordinator's wishes view shows it (server/rosters/wishes-view.ts). */
+export interface CoordinatorWishDto {
+  id: number;
+  personId: number;
+  date: string | null;
+  shiftId: number | null;
+  kind: 'prefer' | 'avoid' | 'cannot';
+  strength: number;
+  note: string | null;
+  /** Who typed it (the person or a coordinator); null for seeded or imported wishes. */
+  enteredByName: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+export interface WishesViewDto {
+  items: CoordinatorWishDto[];
+  /** People who have stated no wish for this roster yet. */
+  silent: { personId: number; name: string; hasLogin: boolean }[];
+}
+
 export const pairingBody = z
   .object({
     personAId: z.number().int().min(1),

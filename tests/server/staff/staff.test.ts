@@ -146,19 +146,20 @@ describe('staff API: my shifts, wishes and pairing requests', () => {
     expect((await staff.get(`/api/me/rosters/${rosterId}/wishes`)).body.cannotDaysUsed).toBe(2);
   });
 
-  it('keeps wishes read-only after the deadline (409 saying so) but still shows them', async () => {
+  it('keeps wishes read-only after the deadline (403 naming the deadline) but still shows them', async () => {
     await Roster.update({ wishDeadline: new Date(Date.now() - 60_000) }, { where: { id: rosterId } });
     try {
       const before = await WishRow.findAll({ where: { rosterId }, order: [['id', 'ASC']] });
       const late = await staff.post(`/api/me/rosters/${rosterId}/wishes`).send({ date: '2027-03-05', kind: 'avoid' });
-      expect(late.status).toBe(409);
+      expect(late.status).toBe(403);
       expect(late.body.error.message).toMatch(/closed at .* no longer changed/);
-      expect((await staff.post(`/api/me/rosters/${rosterId}/wishes/weekly`).send({ weekday: 'mon', kind: 'avoid' })).status).toBe(409);
+      expect(late.body.error.fields[0].path).toBe('roster.wishDeadline');
+      expect((await staff.post(`/api/me/rosters/${rosterId}/wishes/weekly`).send({ weekday: 'mon', kind: 'avoid' })).status).toBe(403);
       const list = await staff.get(`/api/me/rosters/${rosterId}/wishes`);
       expect(list.status).toBe(200);
       expect(list.body.roster.openForWishes).toBe(false);
       expect(list.body.wishes.length).toBeGreaterThan(0);
-      expect((await staff.delete(`/api/me/rosters/${rosterId}/wishes/${list.body.wishes[0].id}`)).status).toBe(409);
+      expect((await staff.delete(`/api/me/rosters/${rosterId}/wishes/${list.body.wishes[0].id}`)).status).toBe(403);
       const after = await WishRow.findAll({ where: { rosterId }, order: [['id', 'ASC']] });
       expect(after.map((w) => [w.id, w.kind, w.date])).toEqual(before.map((w) => [w.id, w.kind, w.date]));
     } finally {
