@@ -3,10 +3,11 @@ import { Person, Skill } from '../db/models';
 import type { Roster as RosterJson, ShiftPatternInput } from '../../shared/roster/schema';
 import { PairingRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
 import { rosterIds } from './ids';
+import { PersonTermRow } from '../terms/models';
 
 /**
  * Writes a roster in the JSON format into a workspace: skills and people are matched by name
- * (created when missing), then the roster with its shifts, seats, wishes, pairings and rules.
+ * (created when missing) with their terms, then the roster with its shifts, seats, wishes, pairings and rules.
  * Used by the demo seed and by roster file imports. Runs inside the caller's transaction.
  */
 export async function importRosterJson(
@@ -21,8 +22,10 @@ export async function importRosterJson(
     skillIds.set(s.id, row.id);
   }
   const personIds = new Map<string, number>();
+  const created = new Set<string>();
   for (const p of roster.people) {
     const existing = await Person.findOne({ where: { workspaceId, name: p.name }, transaction });
+    if (!existing) created.add(p.id);
     const row =
       existing ??
       (await Person.create(
@@ -91,6 +94,12 @@ export async function importRosterJson(
     })),
     { transaction },
   );
+  // A person's terms are theirs, not the roster's: kept from the term's own date (or the period's
+  // start), and only for people this import creates (an existing person keeps the terms they have).
+  const terms = roster.people.filter((p) => created.has(p.id)).flatMap((p) =>
+    p.terms.map(({ from, ...term }) => ({ workspaceId, personId: personIds.get(p.id)!, term, effectiveFrom: from ?? roster.period.start })),
+  );
+  if (terms.length) await PersonTermRow.bulkCreate(terms, { transaction });
   for (const p of roster.pairings) {
     const [a, b] = [personIds.get(p.a)!, personIds.get(p.b)!].sort((x, y) => x - y);
     const exists = await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b }, transaction });
