@@ -1,3 +1,4 @@
+import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { Sequelize } from 'sequelize';
@@ -36,6 +37,8 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  // gzip/deflate for every text answer (JSON, HTML, JS, CSS, iCalendar, CSV): the 2.6 MB bundle goes out as ~0.6 MB
+  app.use(compression());
   app.use(
     helmet({
       contentSecurityPolicy: {

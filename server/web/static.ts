@@ -9,7 +9,7 @@ import path from 'node:path';
 export function webRouter(webDir: string): Router {
   const router = Router();
   const indexFile = path.join(webDir, 'index.html');
-  router.use(express.static(webDir, { index: false, maxAge: '1h', setHeaders: noCacheForHtml }));
+  router.use(express.static(webDir, { index: false, setHeaders: cacheHeaders }));
   router.get('/{*splat}', (req, res, next) => {
     if (req.path.startsWith('/api/')) return next();
     if (!existsSync(indexFile)) {
@@ -22,6 +22,17 @@ export function webRouter(webDir: string): Router {
   return router;
 }
 
-function noCacheForHtml(res: express.Response, filePath: string): void {
-  if (filePath.endsWith('.html')) res.setHeader('Cache-Control', 'no-cache');
+/** A content hash in the file name (Expo's export names bundles and assets that way): `entry-3f2a9c…e1.js`, `font.9b8c…47.ttf`. */
+const HASHED = /[.-][0-9a-f]{16,}\.[a-z0-9]+$/i;
+
+/**
+ * Hashed build files never change under their name, so browsers may keep them a year without
+ * asking; everything else (HTML, the manifest, unhashed files) is revalidated on each use.
+ */
+export function cacheControlFor(filePath: string): string {
+  return HASHED.test(path.basename(filePath)) ? 'public, max-age=31536000, immutable' : 'no-cache';
+}
+
+function cacheHeaders(res: express.Response, filePath: string): void {
+  res.setHeader('Cache-Control', cacheControlFor(filePath));
 }
