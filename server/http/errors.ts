@@ -14,6 +14,7 @@ export type ErrorCode =
   | 'plan_limit'
   | 'payment_overdue'
   | 'payment_service_unavailable'
+  | 'unavailable'
   | 'bad_signature'
   | 'internal';
 
@@ -30,6 +31,8 @@ export class HttpError extends Error {
     readonly code: ErrorCode,
     message: string,
     readonly fields?: FieldError[],
+    /** Response headers that go with the error (Retry-After on a 503). */
+    readonly headers?: Record<string, string>,
   ) {
     super(message);
   }
@@ -44,6 +47,7 @@ export const apiNotFound: RequestHandler = (req, _res, next) => {
 /** Last middleware: every failure leaves as JSON, never as an HTML page or a stack trace. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err instanceof HttpError) {
+    if (err.headers) res.set(err.headers);
     res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
     return;
   }
