@@ -24,6 +24,8 @@ import { billingRouter } from './billing/router';
 import { feedsRouter, staffRouter } from './staff/router';
 import { runWorkflowRouters } from './runs/workflow-router';
 import { publishRouter } from './rosters/publish-router';
+import { absenceCoverRouter, absencesRouter } from './absences/router';
+import { staffAbsencesRouter } from './absences/staff-router';
 
 export interface AppDeps {
   env: Env;
@@ -72,10 +74,11 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/people', peopleRouter(), termsRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
   const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }));
+  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter());
   api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
-  api.use('/me', staffRouter({ env, mailer }));
+  api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter());
+  api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/billing', billingRouter(env));
   api.use('/health', healthRouter({ sequelize, version: env.version }));

@@ -1,6 +1,7 @@
 import { initRosterModels } from '../rosters/models';
 import { initBillingModels } from '../billing/models';
 import { initStaffModels } from '../staff/models';
+import { initAbsenceModels } from '../absences/models';
 import { initTermModels } from '../terms/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 
@@ -118,5 +119,6 @@ export function initModels(sequelize: Sequelize): void {
   initRosterModels(sequelize);
   initBillingModels(sequelize);
   initStaffModels(sequelize);
+  initAbsenceModels(sequelize);
   initTermModels(sequelize);
 }

@@ -86,3 +86,15 @@ export function passwordChangedMail(input: { to: string; displayName: string; wo
     ],
   });
 }
+
+/** A coordinator's answer to an absence: approved (the roster will keep the person free) or declined, with the reason if one was given. */
+export function absenceDecisionMail(input: { to: string; name: string; workspaceName: string; approved: boolean; what: string; reason: string | null; decidedBy: string | null; url: string }): OutgoingMail {
+  const by = input.decidedBy ? ` by ${input.decidedBy}` : '';
+  return render(input.to, input.approved ? `Your absence was approved: ${input.what}` : `Your absence was declined: ${input.what}`, {
+    greeting: `Hello ${input.name},`,
+    paragraphs: input.approved
+      ? [`Your ${input.what} at ${input.workspaceName} was approved${by}. Rosters made from now on keep you free for that time.`]
+      : [`Your ${input.what} at ${input.workspaceName} was declined${by}.`, ...(input.reason ? [`The reason given: ${input.reason}`] : []), 'If you would like to talk about it, please speak to your coordinator.'],
+    action: { label: 'Open Rotaloom', url: input.url },
+  });
+}

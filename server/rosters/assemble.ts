@@ -3,6 +3,7 @@ import { parseRoster, type ParseRosterResult, type RosterInput } from '../../sha
 import { PairingRow, PinRow, SeatRow, ShiftRow, WishRow } from './models';
 import { findRoster } from './repository';
 import { rosterIds } from './ids';
+import { absencesForRoster } from '../absences/roster';
 import { termsForPeriod } from '../terms/repository';
 
 /**
@@ -51,6 +52,7 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
     pairings: pairings.map((p) => ({ a: rosterIds.person(p.personAId), b: rosterIds.person(p.personBId), score: p.score, never: p.neverTogether })),
     pins: pins.map((p) => ({ seat: rosterIds.seat(p.seatId), person: p.personId ? rosterIds.person(p.personId) : null })),
     rules: roster.rules,
+    absences: await absencesForRoster(workspaceId, { start: roster.periodStart, end: roster.periodEnd }, people.map((p) => p.id)),
   };
   return { input, parsed: parseRoster(input), version: roster.version };
 }

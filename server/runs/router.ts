@@ -42,17 +42,32 @@ async function solvableRoster(workspaceId: number, rosterId: number) {
   return { roster: parsed.roster, version };
 }
 
+/**
+ * Checks that the roster can be solved as it stands and queues a run for the worker. `prepare`
+ * changes the assembled roster the checks see (a cover run lays its pins over the roster's, the
+ * worker does the same with the run's parameters); `dryRun` only checks, for callers that must
+ * know before they change anything else (server/absences/cover.ts reopens a published roster).
+ */
+export async function queueRun(
+  workspaceId: number,
+  rosterId: number,
+  parameters: RunRow['parameters'],
+  opts: { prepare?: (roster: ParsedRoster) => ParsedRoster; dryRun?: boolean } = {},
+): Promise<RunRow | null> {
+  const solvable = await solvableRoster(workspaceId, rosterId);
+  const roster = opts.prepare ? opts.prepare(solvable.roster) : solvable.roster;
+  if (roster.seats.length === 0) throw new HttpError(422, 'unprocessable', 'This roster has no shifts yet: add a shift pattern or a shift first.', [{ path: 'roster.shifts', message: 'no shifts' }]);
+  const reasons = explainInfeasible(roster);
+  if (reasons.length > 0) throw new HttpError(422, 'unprocessable', reasons.join(' '), reasons.map((message) => ({ path: 'roster', message })));
+  if (opts.dryRun) return null;
+  return RunRow.create({ workspaceId, rosterId, parameters, rosterVersion: solvable.version, status: 'queued', cancelRequested: false });
+}
+type ParsedRoster = Awaited<ReturnType<typeof solvableRoster>>['roster'];
+
 export function runsRouter() {
   const routes = new ApiRoutes('/rosters');
   routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), requireRunsAllowed, refuseWhenPublished, async (req, res) => {
-    const workspaceId = ws(req);
-    const rosterId = Number(req.params.rosterId);
-    const { roster, version } = await solvableRoster(workspaceId, rosterId);
-    if (roster.seats.length === 0) throw new HttpError(422, 'unprocessable', 'This roster has no shifts yet: add a shift pattern or a shift first.', [{ path: 'roster.shifts', message: 'no shifts' }]);
-    const reasons = explainInfeasible(roster);
-    if (reasons.length > 0) throw new HttpError(422, 'unprocessable', reasons.join(' '), reasons.map((message) => ({ path: 'roster', message })));
-    const run = await RunRow.create({ workspaceId, rosterId, parameters: req.body, rosterVersion: version, status: 'queued', cancelRequested: false });
-    res.status(202).json(toRunDto(run));
+    res.status(202).json(toRunDto((await queueRun(ws(req), Number(req.params.rosterId), req.body))!));
   });
   routes.get('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
     await findRoster(ws(req), Number(req.params.rosterId)); // another workspace's roster is a 404, not an empty list

@@ -140,3 +140,20 @@ export interface AbsenceImportReport {
   canCommit: boolean;
   committed: boolean;
 }
+
+/** POST /api/absences/:id/decision answers the absence and whether the person was told by e-mail. */
+export interface AbsenceDecisionDto extends AbsenceDto {
+  /** to: null = the person has no e-mail address and no linked login, so no mail was sent. */
+  mail: { to: string | null; sent: boolean; error?: string };
+}
+
+/** POST /api/rosters/:rosterId/absence-cover: how long the re-solve may take (as for any run). */
+export const absenceCoverBody = z.object({
+  timeLimitSeconds: z.number().min(0.5).max(600).default(10),
+  seed: z.number().int().min(0).max(2 ** 31).default(1),
+});
+/** 202: the queued run (poll /api/runs/:runId) and the seats it is free to refill. */
+export interface AbsenceCoverDto {
+  runId: number;
+  freedSeatIds: number[];
+}
