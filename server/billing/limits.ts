@@ -27,7 +27,8 @@ export async function standingOf(workspaceId: number, transaction?: Transaction)
 /** People count as seats; a roster is active until it is published (draft or solved). */
 export async function usageOf(workspaceId: number, transaction?: Transaction): Promise<Usage> {
   const [people, activeRosters] = await Promise.all([
-    Person.count({ where: { workspaceId }, transaction }),
+    // Archived people (kept only for roster history) are not seats.
+    Person.count({ where: { workspaceId, archivedAt: null }, transaction }),
     Roster.count({ where: { workspaceId, status: { [Op.ne]: 'published' } }, transaction }),
   ]);
   return { people, activeRosters };

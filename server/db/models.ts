@@ -52,6 +52,8 @@ export class Person extends Model<InferAttributes<Person>, InferCreationAttribut
   declare contractedHours: number;
   /** Skill ids of this workspace. */
   declare skills: number[];
+  /** Set when a person who was rostered is "deleted": hidden from lists, kept for history. */
+  declare archivedAt: CreationOptional<Date | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -108,6 +110,7 @@ export function initModels(sequelize: Sequelize): void {
           return typeof raw === 'string' ? JSON.parse(raw) : raw;
         },
       },
+      archivedAt: DataTypes.DATE,
       version: { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 },
       ...timestamps,
     },

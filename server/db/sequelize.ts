@@ -30,3 +30,28 @@ export async function ensureDatabase(db: Env['db']): Promise<void> {
     await admin.close();
   }
 }
+
+/** InnoDB's "deadlock found" (1213) and "lock wait timeout" (1205): the transaction was rolled back and may be run again. */
+export function isRetryableLockError(err: unknown): boolean {
+  const e = err as { parent?: { errno?: number }; original?: { errno?: number }; errno?: number } | null;
+  const errno = e?.parent?.errno ?? e?.original?.errno ?? e?.errno;
+  return errno === 1213 || errno === 1205;
+}
+
+/**
+ * A managed transaction that is run again from the start when InnoDB chose it as a deadlock
+ * victim. Retrying one statement (Sequelize's `retry` option) would be wrong here: InnoDB has
+ * already rolled back the whole transaction, so only the whole callback can be repeated.
+ * The callback must therefore have no effects outside the database.
+ */
+export async function transactionWithRetry<T>(sequelize: Sequelize, fn: (t: import('sequelize').Transaction) => Promise<T>, attempts = 6): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await sequelize.transaction(fn);
+    } catch (err) {
+      if (attempt >= attempts || !isRetryableLockError(err)) throw err;
+      // Jittered back-off, so the same two transactions do not collide again in lockstep.
+      await new Promise((r) => setTimeout(r, Math.random() * 20 * attempt));
+    }
+  }
+}

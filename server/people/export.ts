@@ -17,7 +17,7 @@ export const csvLine = (cells: string[]) => `${cells.map(csvCell).join(',')}\r\n
 /** The workspace's people in the import's columns, sorted by name, as UTF-8 with a byte order mark (spreadsheet programs need it to read accents). */
 export async function exportPeopleCsv(workspaceId: number): Promise<string> {
   const [people, skills] = await Promise.all([
-    Person.findAll({ where: { workspaceId }, order: [['name', 'ASC'], ['id', 'ASC']] }),
+    Person.findAll({ where: { workspaceId, archivedAt: null }, order: [['name', 'ASC'], ['id', 'ASC']] }),
     Skill.findAll({ where: { workspaceId } }),
   ]);
   const skillName = new Map(skills.map((s) => [s.id, s.name]));

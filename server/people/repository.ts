@@ -1,9 +1,10 @@
-import { Op, Sequelize, UniqueConstraintError, type WhereOptions } from 'sequelize';
+import { ForeignKeyConstraintError, Op, QueryTypes, Sequelize, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import { Person, Skill } from '../db/models';
+import { transactionWithRetry } from '../db/sequelize';
 import { HttpError, notFound } from '../http/errors';
 import { updateVersioned } from '../http/versioned';
 import type { Page } from '../../shared/api/paging';
-import type { PersonDto, SkillDto } from '../../shared/api/people';
+import type { DeletePersonAnswer, PersonDto, SkillDto } from '../../shared/api/people';
 
 export const toPersonDto = (p: Person): PersonDto => ({
   id: p.id,
@@ -14,12 +15,13 @@ export const toPersonDto = (p: Person): PersonDto => ({
   userId: p.userId ?? null,
   version: p.version,
   createdAt: new Date(p.createdAt).toISOString(),
+  archivedAt: p.archivedAt ? new Date(p.archivedAt).toISOString() : null,
 });
 
 export async function listSkills(workspaceId: number): Promise<SkillDto[]> {
   const [rows, people] = await Promise.all([
     Skill.findAll({ where: { workspaceId }, order: [['name', 'ASC']] }),
-    Person.findAll({ where: { workspaceId }, attributes: ['skills'] }),
+    Person.findAll({ where: { workspaceId, archivedAt: null }, attributes: ['skills'] }),
   ]);
   const holders = new Map<number, number>();
   for (const p of people) for (const id of p.skills ?? []) holders.set(id, (holders.get(id) ?? 0) + 1);
@@ -73,11 +75,12 @@ export async function checkSkillIds(workspaceId: number, skillIds: number[]): Pr
 
 export async function listPeople(
   workspaceId: number,
-  query: { page: number; pageSize: number; sort: 'name' | 'contractedHours' | 'createdAt'; order: 'asc' | 'desc'; q?: string; skillId?: number },
+  query: { page: number; pageSize: number; sort: 'name' | 'contractedHours' | 'createdAt'; order: 'asc' | 'desc'; q?: string; skillId?: number; archived?: boolean },
 ): Promise<Page<PersonDto>> {
   const like = query.q ? `%${query.q.trim().replace(/[%_\\]/g, '\\$&')}%` : null;
   const where: WhereOptions = {
     workspaceId,
+    archivedAt: query.archived ? { [Op.ne]: null } : null,
     ...(like ? { [Op.or]: [{ name: { [Op.like]: like } }, { email: { [Op.like]: like } }] } : {}),
     // skills is a JSON array of ids; JSON_CONTAINS matches the number exactly.
     ...(query.skillId ? { [Op.and]: [Sequelize.where(Sequelize.fn('JSON_CONTAINS', Sequelize.col('skills'), String(query.skillId)), 1)] } : {}),
@@ -118,7 +121,66 @@ export async function updatePerson(
   return getPerson(workspaceId, id);
 }
 
-export async function deletePerson(workspaceId: number, id: number): Promise<void> {
-  const count = await Person.destroy({ where: { id, workspaceId } });
-  if (count === 0) throw notFound('Person');
+/** The rosters whose runs (solved, published or earlier) have this person in a seat. */
+export async function rostersHolding(workspaceId: number, personId: number, transaction?: Transaction): Promise<Array<{ id: number; name: string; status: string }>> {
+  return Person.sequelize!.query<{ id: number; name: string; status: string }>(
+    `SELECT DISTINCT r.id, r.name, r.status FROM assignments a
+       JOIN runs ru ON ru.id = a.run_id AND ru.workspace_id = a.workspace_id
+       JOIN rosters r ON r.id = ru.roster_id AND r.workspace_id = ru.workspace_id
+      WHERE a.workspace_id = ? AND a.person_id = ? ORDER BY r.id`,
+    { replacements: [workspaceId, personId], type: QueryTypes.SELECT, transaction },
+  );
+}
+
+/**
+ * Deleting a person who is in roster history (a run's seats, or records other tables keep with
+ * RESTRICT such as absences) archives them instead, unless `archive` is false, when it is a 409
+ * naming the rosters: solved and published rosters must keep showing who worked. A person never
+ * rostered is removed. Archived people drop out of lists, pickers, exports and new rosters.
+ */
+export async function deletePerson(workspaceId: number, id: number, options: { archive: boolean } = { archive: true }): Promise<DeletePersonAnswer> {
+  return transactionWithRetry(Person.sequelize!, async (transaction) => {
+    // Locked, so a run saving this person's seats meanwhile either waits or makes the delete fail on RESTRICT.
+    const p = await Person.findOne({ where: { id, workspaceId }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!p) throw notFound('Person');
+    const rosters = await rostersHolding(workspaceId, id, transaction);
+    let blockedBy = rosters.length > 0 ? 'roster' : null;
+    if (!blockedBy) {
+      try {
+        await p.destroy({ transaction });
+        return { outcome: 'deleted' as const };
+      } catch (err) {
+        // A RESTRICT reference we do not list by name (absences, terms, a run saved meanwhile).
+        if (!(err instanceof ForeignKeyConstraintError)) throw err;
+        blockedBy = 'records';
+      }
+    }
+    const named = rosters.map((r) => `"${r.name}"`).join(', ');
+    if (!options.archive) {
+      throw new HttpError(
+        409,
+        'conflict',
+        blockedBy === 'roster'
+          ? `${p.name} is on ${rosters.length === 1 ? 'the roster' : 'the rosters'} ${named}; deleting would change ${rosters.length === 1 ? 'it' : 'them'}. Archive ${p.name} instead (hidden from lists, kept in history).`
+          : `${p.name} has records that are kept (absences, terms or runs); archive ${p.name} instead.`,
+        [{ path: 'query.archive', message: blockedBy === 'roster' ? `on rosters ${rosters.map((r) => r.id).join(', ')}` : 'has kept records' }],
+      );
+    }
+    if (!p.archivedAt) await p.update({ archivedAt: new Date(), version: p.version + 1 }, { transaction });
+    return { outcome: 'archived' as const, person: toPersonDto(p), rosters };
+  });
+}
+
+/** Brings an archived person back into lists and new rosters. */
+export async function restorePerson(workspaceId: number, id: number, version: number): Promise<PersonDto> {
+  const p = await Person.findOne({ where: { id, workspaceId } });
+  if (!p) throw notFound('Person');
+  if (!p.archivedAt) throw new HttpError(409, 'conflict', `${p.name} is not archived`, [{ path: 'params.id', message: 'not archived' }]);
+  await updateVersioned(Person, { id, workspaceId }, version, { archivedAt: null }, 'Person');
+  return getPerson(workspaceId, id);
+}
+
+/** A person who can be put on a roster, paired or given wishes now: of this workspace and not archived. */
+export async function activePerson(workspaceId: number, id: number, transaction?: Transaction): Promise<Person | null> {
+  return Person.findOne({ where: { id, workspaceId, archivedAt: null }, transaction });
 }

@@ -1,7 +1,7 @@
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
-import { createPersonBody, peopleListQuery, skillBody, updatePersonBody } from '../../shared/api/people';
+import { createPersonBody, deletePersonQuery, peopleListQuery, restorePersonBody, skillBody, updatePersonBody } from '../../shared/api/people';
 import * as repo from './repository';
 import { enforcePlanLimit } from '../billing/limits';
 import { peopleChanged } from '../billing/seat-sync';
@@ -57,9 +57,16 @@ export function peopleRouter() {
   routes.patch('/:id', COORDINATOR_UP, validate({ params: idParams, body: updatePersonBody }), async (req, res) => {
     res.json(await repo.updatePerson(ws(req), Number(req.params.id), req.body));
   });
-  routes.delete('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
-    await repo.deletePerson(ws(req), Number(req.params.id));
-    res.status(204).end();
+  // 204 when the person was removed; 200 with the person and the rosters that keep them when archived.
+  routes.delete('/:id', COORDINATOR_UP, validate({ params: idParams, query: deletePersonQuery }), async (req, res) => {
+    const answer = await repo.deletePerson(ws(req), Number(req.params.id), { archive: (req.query as unknown as { archive: boolean }).archive });
+    if (answer.outcome === 'deleted') res.status(204).end();
+    else res.json(answer);
+    peopleChanged(ws(req));
+  });
+  // An archived person counts against the plan again once restored.
+  routes.post('/:id/restore', COORDINATOR_UP, validate({ params: idParams, body: restorePersonBody }), enforcePlanLimit('people'), async (req, res) => {
+    res.json(await repo.restorePerson(ws(req), Number(req.params.id), req.body.version));
     peopleChanged(ws(req));
   });
   return routes.router;

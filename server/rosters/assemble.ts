@@ -15,7 +15,8 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
   const roster = await findRoster(workspaceId, rosterId);
   const [skills, people, shifts, wishes, pairings, pins] = await Promise.all([
     Skill.findAll({ where: { workspaceId }, order: [['id', 'ASC']] }),
-    Person.findAll({ where: { workspaceId }, order: [['id', 'ASC']] }),
+    // Archived people stay in old rosters' history only; a new solve never sees them.
+    Person.findAll({ where: { workspaceId, archivedAt: null }, order: [['id', 'ASC']] }),
     ShiftRow.findAll({ where: { workspaceId, rosterId }, order: [['startsLocal', 'ASC'], ['id', 'ASC']] }),
     WishRow.findAll({ where: { workspaceId, rosterId }, order: [['id', 'ASC']] }),
     PairingRow.findAll({ where: { workspaceId, status: 'approved' }, order: [['id', 'ASC']] }),
@@ -23,6 +24,8 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
   ]);
   const terms = await termsForPeriod(workspaceId, { start: roster.periodStart, end: roster.periodEnd });
   const seats = await SeatRow.findAll({ where: { workspaceId, shiftId: shifts.map((s) => s.id) }, order: [['shiftId', 'ASC'], ['position', 'ASC']] });
+  // Wishes, pairings and pins of archived people would name someone the roster no longer has.
+  const active = new Set(people.map((p) => p.id));
   const input: RosterInput = {
     format: 'rotaloom.roster/1',
     name: roster.name,
@@ -43,14 +46,14 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
       ...(s.night === null || s.night === undefined ? {} : { night: s.night }),
     })),
     seats: seats.map((s) => ({ id: rosterIds.seat(s.id), shift: rosterIds.shift(s.shiftId), skill: s.skillId ? rosterIds.skill(s.skillId) : null })),
-    wishes: wishes.map((w) => ({
+    wishes: wishes.filter((w) => active.has(w.personId)).map((w) => ({
       person: rosterIds.person(w.personId),
       ...(w.shiftId ? { shift: rosterIds.shift(w.shiftId) } : { date: w.date ?? undefined }),
       kind: w.kind,
       strength: w.strength,
     })),
-    pairings: pairings.map((p) => ({ a: rosterIds.person(p.personAId), b: rosterIds.person(p.personBId), score: p.score, never: p.neverTogether })),
-    pins: pins.map((p) => ({ seat: rosterIds.seat(p.seatId), person: p.personId ? rosterIds.person(p.personId) : null })),
+    pairings: pairings.filter((p) => active.has(p.personAId) && active.has(p.personBId)).map((p) => ({ a: rosterIds.person(p.personAId), b: rosterIds.person(p.personBId), score: p.score, never: p.neverTogether })),
+    pins: pins.filter((p) => p.personId === null || active.has(p.personId)).map((p) => ({ seat: rosterIds.seat(p.seatId), person: p.personId ? rosterIds.person(p.personId) : null })),
     rules: roster.rules,
     absences: await absencesForRoster(workspaceId, { start: roster.periodStart, end: roster.periodEnd }, people.map((p) => p.id)),
   };

@@ -20,6 +20,8 @@ export class Roster extends Model<Attrs<Roster>, Creation<Roster>> {
   declare maxCannotDays: CreationOptional<number | null>;
   declare publishedRunId: CreationOptional<number | null>;
   declare publishedAt: CreationOptional<Date | null>;
+  /** What was published, as the exports write it (server/rosters/publish.ts PublishedSnapshot). */
+  declare publishedSnapshot: CreationOptional<object | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -170,6 +172,7 @@ export function initRosterModels(sequelize: Sequelize): void {
       maxCannotDays: int,
       publishedRunId: int,
       publishedAt: DataTypes.DATE,
+      publishedSnapshot: json('publishedSnapshot'),
       version,
     },
     opts(sequelize, 'rosters'),

@@ -36,54 +36,93 @@ export async function runShifts(workspaceId: number, rosterId: number, runId: nu
 
 const time = (local: string) => local.slice(11, 16);
 
-/** The run to export: the one asked for, else the published one. */
-async function exportRunId(workspaceId: number, rosterId: number, runId?: number): Promise<number> {
-  if (runId) return runId;
+/**
+ * What a published roster's files are written from, kept on the roster row at publish: renaming
+ * or archiving a person, renaming the workspace or editing a shift after publishing changes none
+ * of the published CSV and iCalendar bytes (the DTSTAMP is the publication time, not "now").
+ */
+export interface PublishedSnapshot {
+  format: 1;
+  runId: number;
+  rosterName: string;
+  timeZone: string;
+  workspaceName: string | null;
+  publishedAt: string;
+  shifts: Array<{ id: number; label: string; startsLocal: string; endsLocal: string; people: Array<{ personId: number; name: string }> }>;
+}
+
+async function takeSnapshot(workspaceId: number, roster: Roster, runId: number, publishedAt: Date): Promise<PublishedSnapshot> {
+  const { shifts } = await runShifts(workspaceId, roster.id, runId);
+  const workspace = await Workspace.findByPk(workspaceId);
+  return { format: 1, runId, rosterName: roster.name, timeZone: roster.timeZone, workspaceName: workspace?.name ?? null, publishedAt: publishedAt.toISOString(), shifts };
+}
+
+/** The published run's snapshot; rosters published before snapshots existed get theirs on first export. */
+async function publishedSnapshotOf(workspaceId: number, roster: Roster): Promise<PublishedSnapshot> {
+  const kept = roster.publishedSnapshot as PublishedSnapshot | null;
+  if (kept && kept.runId === roster.publishedRunId) return kept;
+  const snapshot = await takeSnapshot(workspaceId, roster, roster.publishedRunId!, new Date(roster.publishedAt ?? Date.now()));
+  await Roster.update({ publishedSnapshot: snapshot }, { where: { id: roster.id, workspaceId, publishedRunId: roster.publishedRunId }, silent: true });
+  return snapshot;
+}
+
+/** The shifts, names and stamp an export is written from: the publication's snapshot, or a named run as it is now. */
+async function exportView(workspaceId: number, rosterId: number, runId?: number) {
   const roster = await findRoster(workspaceId, rosterId);
-  if (!roster.publishedRunId) throw new HttpError(409, 'conflict', 'This roster is not published yet: publish it, or name a run to export (?runId=).', [{ path: 'query.runId', message: 'required until the roster is published' }]);
-  return roster.publishedRunId;
+  if (!runId && !roster.publishedRunId) throw new HttpError(409, 'conflict', 'This roster is not published yet: publish it, or name a run to export (?runId=).', [{ path: 'query.runId', message: 'required until the roster is published' }]);
+  if (!runId || runId === roster.publishedRunId) {
+    const snap = await publishedSnapshotOf(workspaceId, roster);
+    return { rosterId: roster.id, rosterName: snap.rosterName, timeZone: snap.timeZone, workspaceName: snap.workspaceName, stamp: new Date(snap.publishedAt), shifts: snap.shifts };
+  }
+  const workspace = await Workspace.findByPk(workspaceId);
+  const { shifts } = await runShifts(workspaceId, rosterId, runId);
+  return { rosterId: roster.id, rosterName: roster.name, timeZone: roster.timeZone, workspaceName: workspace?.name ?? null, stamp: undefined, shifts };
+}
+
+/** The person a per-person export is for: by the name the file was published with, else as they are now. */
+async function exportPerson(workspaceId: number, shifts: PublishedSnapshot['shifts'], personId?: number) {
+  if (!personId) return undefined;
+  for (const s of shifts) for (const p of s.people) if (p.personId === personId) return { id: personId, name: p.name };
+  const now = await Person.findOne({ where: { id: personId, workspaceId } });
+  if (!now) throw new HttpError(404, 'not_found', 'Person not found', [{ path: 'query.personId', message: 'unknown person' }]);
+  return { id: now.id, name: now.name };
 }
 
 export async function exportCsv(workspaceId: number, rosterId: number, q: { runId?: number; personId?: number }) {
-  const roster = await findRoster(workspaceId, rosterId);
-  const { shifts, people } = await runShifts(workspaceId, rosterId, await exportRunId(workspaceId, rosterId, q.runId));
-  if (q.personId && !people.some((p) => p.id === q.personId)) throw new HttpError(404, 'not_found', 'Person not found', [{ path: 'query.personId', message: 'unknown person' }]);
+  const view = await exportView(workspaceId, rosterId, q.runId);
+  const person = await exportPerson(workspaceId, view.shifts, q.personId);
   const rows: Array<Array<string | number>> = [['date', 'start', 'end', 'shift', 'person', 'time zone']];
-  for (const s of shifts) {
+  for (const s of view.shifts) {
     for (const p of s.people) {
-      if (q.personId && p.personId !== q.personId) continue;
-      rows.push([s.startsLocal.slice(0, 10), time(s.startsLocal), time(s.endsLocal), s.label, p.name, roster.timeZone]);
+      if (person && p.personId !== person.id) continue;
+      rows.push([s.startsLocal.slice(0, 10), time(s.startsLocal), time(s.endsLocal), s.label, p.name, view.timeZone]);
     }
   }
-  const who = q.personId ? `-${slug(people.find((p) => p.id === q.personId)!.name)}` : '';
-  return { filename: `${slug(roster.name)}${who}.csv`, body: buildCsv(rows) };
+  const who = person ? `-${slug(person.name)}` : '';
+  return { filename: `${slug(view.rosterName)}${who}.csv`, body: buildCsv(rows) };
 }
 
 export async function exportIcs(workspaceId: number, rosterId: number, q: { runId?: number; personId?: number }) {
-  const roster = await findRoster(workspaceId, rosterId);
-  const workspace = await Workspace.findByPk(workspaceId);
-  const runId = await exportRunId(workspaceId, rosterId, q.runId);
-  const { shifts, people } = await runShifts(workspaceId, rosterId, runId);
-  const person = q.personId ? people.find((p) => p.id === q.personId) : undefined;
-  if (q.personId && !person) throw new HttpError(404, 'not_found', 'Person not found', [{ path: 'query.personId', message: 'unknown person' }]);
+  const view = await exportView(workspaceId, rosterId, q.runId);
+  const person = await exportPerson(workspaceId, view.shifts, q.personId);
   const events: CalendarEvent[] = [];
-  for (const s of shifts) {
+  for (const s of view.shifts) {
     if (s.people.length === 0) continue;
     if (person && !s.people.some((p) => p.personId === person.id)) continue;
-    const start = localDateTimeToInstant(s.startsLocal, roster.timeZone);
-    const end = localDateTimeToInstant(s.endsLocal, roster.timeZone);
+    const start = localDateTimeToInstant(s.startsLocal, view.timeZone);
+    const end = localDateTimeToInstant(s.endsLocal, view.timeZone);
     events.push({
       // Stable across re-publishing, so calendar programs update an event instead of adding a copy.
-      uid: person ? `roster${roster.id}-shift${s.id}-person${person.id}@rotaloom` : `roster${roster.id}-shift${s.id}@rotaloom`,
+      uid: person ? `roster${view.rosterId}-shift${s.id}-person${person.id}@rotaloom` : `roster${view.rosterId}-shift${s.id}@rotaloom`,
       start,
       end,
       summary: person ? `${capital(s.label)} shift` : `${capital(s.label)} shift: ${s.people.map((p) => p.name).join(', ')}`,
-      description: `${roster.name}\n${capital(s.label)} shift, ${time(s.startsLocal)}–${time(s.endsLocal)} (${roster.timeZone})\nOn this shift: ${s.people.map((p) => p.name).join(', ')}`,
-      location: workspace?.name,
+      description: `${view.rosterName}\n${capital(s.label)} shift, ${time(s.startsLocal)}–${time(s.endsLocal)} (${view.timeZone})\nOn this shift: ${s.people.map((p) => p.name).join(', ')}`,
+      location: view.workspaceName ?? undefined,
     });
   }
-  const name = person ? `${person.name} — ${roster.name}` : roster.name;
-  return { filename: `${slug(roster.name)}${person ? `-${slug(person.name)}` : ''}.ics`, body: buildCalendar({ name, events }) };
+  const name = person ? `${person.name} — ${view.rosterName}` : view.rosterName;
+  return { filename: `${slug(view.rosterName)}${person ? `-${slug(person.name)}` : ''}.ics`, body: buildCalendar({ name, events, now: view.stamp }) };
 }
 
 const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
@@ -114,8 +153,10 @@ export async function publishRoster(workspaceId: number, rosterId: number, body:
   });
   const result = run.result as { feasible?: boolean } | null;
   if (run.status !== 'done' || !result?.feasible) throw new HttpError(422, 'unprocessable', 'Only a finished run that keeps every hard rule can be published.', [{ path: 'body.runId', message: 'run not finished or not feasible' }]);
+  const publishedAt = new Date();
+  const snapshot = await takeSnapshot(workspaceId, roster, run.id, publishedAt);
   const [count] = await Roster.update(
-    { status: 'published', publishedRunId: run.id, publishedAt: new Date(), version: body.version + 1 },
+    { status: 'published', publishedRunId: run.id, publishedAt, publishedSnapshot: snapshot, version: body.version + 1 },
     { where: { id: rosterId, workspaceId, version: body.version } },
   );
   if (count === 0) {

@@ -273,7 +273,7 @@ export async function createWish(
   enteredByUserId: number | null = null,
 ) {
   const roster = await findRoster(workspaceId, rosterId);
-  if (!(await Person.findOne({ where: { id: body.personId, workspaceId } }))) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: 'body.personId', message: 'unknown person' }]);
+  if (!(await Person.findOne({ where: { id: body.personId, workspaceId, archivedAt: null } }))) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: 'body.personId', message: 'unknown person' }]);
   if (body.date && (body.date < roster.periodStart || body.date > roster.periodEnd)) {
     throw new HttpError(422, 'unprocessable', `${body.date} is outside the roster period`, [{ path: 'body.date', message: 'outside the roster period' }]);
   }
@@ -305,7 +305,7 @@ export async function putPin(workspaceId: number, rosterId: number, body: { seat
   const shift = seat ? await ShiftRow.findOne({ where: { id: seat.shiftId, rosterId, workspaceId } }) : null;
   if (!seat || !shift) throw new HttpError(422, 'unprocessable', 'Unknown seat', [{ path: 'body.seatId', message: 'not a seat of this roster' }]);
   if (body.personId !== null) {
-    const person = await Person.findOne({ where: { id: body.personId, workspaceId } });
+    const person = await Person.findOne({ where: { id: body.personId, workspaceId, archivedAt: null } });
     if (!person) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: 'body.personId', message: 'unknown person' }]);
     if (seat.skillId !== null && !(person.skills ?? []).includes(seat.skillId)) {
       throw new HttpError(422, 'unprocessable', `${person.name} lacks the skill this seat needs`, [{ path: 'body.personId', message: 'lacks the seat’s skill' }]);
@@ -343,7 +343,7 @@ export async function listPairings(workspaceId: number) {
 
 export async function createPairing(workspaceId: number, body: { personAId: number; personBId: number; score: number; neverTogether: boolean; reason?: string | null }) {
   const [a, b] = body.personAId < body.personBId ? [body.personAId, body.personBId] : [body.personBId, body.personAId];
-  const found = await Person.findAll({ where: { workspaceId, id: [a, b] }, attributes: ['id'] });
+  const found = await Person.findAll({ where: { workspaceId, id: [a, b], archivedAt: null }, attributes: ['id'] });
   for (const [field, id] of [['personAId', body.personAId], ['personBId', body.personBId]] as const) {
     if (!found.some((p) => p.id === id)) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: `body.${field}`, message: 'unknown person' }]);
   }

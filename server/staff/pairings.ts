@@ -12,7 +12,7 @@ const SUGGESTED_SCORE = 5;
 
 /** Colleagues to pick from: names only. */
 export async function colleagues(workspaceId: number, personId: number): Promise<Array<{ id: number; name: string }>> {
-  const rows = await Person.findAll({ where: { workspaceId, id: { [Op.ne]: personId } }, attributes: ['id', 'name'], order: [['name', 'ASC']] });
+  const rows = await Person.findAll({ where: { workspaceId, id: { [Op.ne]: personId }, archivedAt: null }, attributes: ['id', 'name'], order: [['name', 'ASC']] });
   return rows.map((p) => ({ id: p.id, name: p.name }));
 }
 
@@ -32,7 +32,7 @@ export async function myPairingRequests(workspaceId: number, personId: number): 
 
 export async function requestPairing(workspaceId: number, personId: number, body: { colleagueId: number; together: boolean; reason: string }): Promise<MyPairingRequest> {
   if (body.colleagueId === personId) throw new HttpError(422, 'unprocessable', 'Choose a colleague other than yourself', [{ path: 'body.colleagueId', message: 'that is you' }]);
-  const colleague = await Person.findOne({ where: { workspaceId, id: body.colleagueId }, attributes: ['id', 'name'] });
+  const colleague = await Person.findOne({ where: { workspaceId, id: body.colleagueId, archivedAt: null }, attributes: ['id', 'name'] });
   if (!colleague) throw new HttpError(422, 'unprocessable', 'There is no such colleague in this workspace', [{ path: 'body.colleagueId', message: 'unknown colleague' }]);
   const [a, b] = personId < colleague.id ? [personId, colleague.id] : [colleague.id, personId];
   const existing = await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b } });

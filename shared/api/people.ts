@@ -22,7 +22,14 @@ export const updatePersonBody = z.object({ ...personFields, version: versionFiel
 export const peopleListQuery = listQuerySchema(['name', 'contractedHours', 'createdAt'] as const, 'name').extend({
   /** Only people holding this skill. */
   skillId: z.coerce.number().int().min(1).optional(),
+  /** `true`: only archived people (to restore one); otherwise only people still in use. */
+  archived: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
 });
+/** `?archive=false` refuses to archive: the delete either removes the person or answers 409. */
+export const deletePersonQuery = z.object({
+  archive: z.enum(['true', 'false']).default('true').transform((v) => v === 'true'),
+});
+export const restorePersonBody = z.object({ version: versionField });
 export type PeopleListQuery = z.input<typeof peopleListQuery>;
 
 export interface PersonDto {
@@ -34,6 +41,15 @@ export interface PersonDto {
   userId: number | null;
   version: number;
   createdAt: string;
+  /** When the person was archived (deleted after being rostered); null while in use. */
+  archivedAt: string | null;
+}
+/** What DELETE /api/people/:id did: removed the row, or archived a person who is in roster history. */
+export interface DeletePersonAnswer {
+  outcome: 'deleted' | 'archived';
+  person?: PersonDto;
+  /** The rosters (solved or published) that keep the person's name. */
+  rosters?: Array<{ id: number; name: string; status: string }>;
 }
 export interface SkillDto {
   id: number;

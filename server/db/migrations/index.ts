@@ -6,6 +6,7 @@ import * as m0004 from './0004-billing';
 import * as m0005 from './0005-staff-feeds';
 import * as m0006 from './0006-run-contest';
 import * as m0007 from './0007-absences-terms';
+import * as m0008 from './0008-nothing-lost';
 
 export interface Migration {
   name: string;
@@ -22,4 +23,5 @@ export const migrations: Migration[] = [
   { name: '0005-staff-feeds', ...m0005 },
   { name: '0006-run-contest', ...m0006 },
   { name: '0007-absences-terms', ...m0007 },
+  { name: '0008-nothing-lost', ...m0008 },
 ];
