@@ -48,3 +48,17 @@ export const calendarTheme = {
   textMonthFontFamily: fonts.heading,
   textDayHeaderFontFamily: fonts.bodyBold,
 };
+
+/**
+ * Marks for a wish in the coordinators' wishes grid: a glyph (so the stance reads without colour)
+ * on a tint of the same family the staff wish chips use. Our own: a plus for "prefer", a dash for
+ * "avoid", a cross on a bordered cell for "cannot".
+ */
+export const wishMarks = {
+  prefer: { glyph: '+', ink: colors.ok, fill: '#DCEBDD', border: '#B7D3BA', word: 'Prefer' },
+  avoid: { glyph: '–', ink: '#8A4714', fill: colors.threadSoft, border: '#E3C2A2', word: 'Avoid' },
+  cannot: { glyph: '×', ink: colors.danger, fill: colors.dangerSoft, border: colors.danger, word: 'Cannot' },
+} as const;
+
+/** Status colours for absences: a request waits (ochre), approved is settled (green), declined is struck (grey). */
+export const absenceTones = { requested: 'warn', approved: 'good', declined: 'plain' } as const;

@@ -1,0 +1,3 @@
+import { AbsenceImportScreen } from '@/components/absences/absence-import-screen';
+
+export default AbsenceImportScreen;

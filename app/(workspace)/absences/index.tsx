@@ -1,0 +1,3 @@
+import { AbsencesScreen } from '@/components/absences/absences-screen';
+
+export default AbsencesScreen;

@@ -1,0 +1,3 @@
+import { TimeAwayScreen } from '@/components/staff/time-away-screen';
+
+export default TimeAwayScreen;

@@ -1,0 +1,165 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { space } from '@/constants/theme';
+import { ABSENCE_KIND_WORDS, ABSENCE_KINDS, createAbsenceBody, requestAbsenceBody, updateAbsenceBody, type AbsenceDto, type AbsenceKindName } from '@/shared/api/absences';
+import { ApiError } from '@/hooks/api/api-client';
+import { useCreateAbsence } from '@/hooks/api/create-absence';
+import { useUpdateAbsence } from '@/hooks/api/update-absence';
+import { useRequestMyAbsence } from '@/hooks/api/request-my-absence';
+import { Button } from '@/components/ui/button';
+import { DateField } from '@/components/ui/date-field';
+import { Notice } from '@/components/ui/notice';
+import { TextField } from '@/components/ui/text-field';
+import { Body } from '@/components/ui/typography';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
+import { Choices } from '@/components/rosters/parts';
+
+interface Values {
+  person: PickedPerson | null;
+  kind: AbsenceKindName;
+  startDate: string;
+  endDate: string;
+  partDay: boolean;
+  startTime: string;
+  endTime: string;
+  creditHours: string;
+  note: string;
+}
+
+const FIELDS = ['personId', 'kind', 'startDate', 'endDate', 'startTime', 'endTime', 'creditHours', 'note', 'version'];
+const KIND_OPTIONS = ABSENCE_KINDS.map((k) => ({ value: k, label: ABSENCE_KIND_WORDS[k] }));
+
+const fromAbsence = (a: AbsenceDto): Values => ({
+  person: { id: a.personId, name: a.personName },
+  kind: a.kind,
+  startDate: a.startDate,
+  endDate: a.endDate,
+  partDay: Boolean(a.startTime || a.endTime),
+  startTime: a.startTime ?? '',
+  endTime: a.endTime ?? '',
+  creditHours: a.creditHours === null ? '' : String(a.creditHours),
+  note: a.note ?? '',
+});
+
+function toBody(v: Values) {
+  const credit = v.creditHours.trim().replace(',', '.');
+  return {
+    kind: v.kind,
+    startDate: v.startDate.trim(),
+    endDate: v.endDate.trim() || v.startDate.trim(),
+    // Part-day times only when asked for: a blank time is the whole day at that end.
+    startTime: v.partDay && v.startTime.trim() ? v.startTime.trim() : null,
+    endTime: v.partDay && v.endTime.trim() ? v.endTime.trim() : null,
+    creditHours: credit === '' ? null : Number(credit),
+    note: v.note.trim() === '' ? null : v.note.trim(),
+  };
+}
+
+/**
+ * Add or change an absence. `mode` decides who it is for and which endpoint takes it:
+ * a coordinator's new or edited absence (approved at once), or the person's own request.
+ */
+export function AbsenceForm({
+  mode,
+  absence,
+  person,
+  onDone,
+  onCancel,
+}: {
+  mode: 'coordinator' | 'staff';
+  absence?: AbsenceDto;
+  /** Fixed person (their own screen); otherwise a picker. */
+  person?: PickedPerson;
+  onDone?: (a: AbsenceDto) => void;
+  onCancel?: () => void;
+}) {
+  const create = useCreateAbsence();
+  const update = useUpdateAbsence();
+  const request = useRequestMyAbsence();
+  const [values, setValues] = useState<Values>(() =>
+    absence ? fromAbsence(absence) : { person: person ?? null, kind: 'annual', startDate: '', endDate: '', partDay: false, startTime: '', endTime: '', creditHours: '', note: '' },
+  );
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const set = (patch: Partial<Values>) => setValues({ ...values, ...patch });
+  const mutation = mode === 'staff' ? request : absence ? update : create;
+  const error = mutation.error;
+
+  const submit = () => {
+    const body = toBody(values);
+    if (mode === 'staff') {
+      const checked = checkForm(requestAbsenceBody, body);
+      setErrors(checked.errors ?? {});
+      if (checked.data) request.mutate(checked.data, { onSuccess: (a) => { setValues({ ...values, startDate: '', endDate: '', note: '' }); onDone?.(a); } });
+      return;
+    }
+    const withPerson = { ...body, personId: values.person?.id };
+    if (absence) {
+      const checked = checkForm(updateAbsenceBody, { ...withPerson, version: absence.version });
+      setErrors(checked.errors ?? {});
+      if (checked.data) update.mutate({ id: absence.id, ...checked.data }, { onSuccess: (a) => onDone?.(a) });
+    } else {
+      const checked = checkForm(createAbsenceBody, withPerson);
+      setErrors({ ...(checked.errors ?? {}), ...(values.person ? {} : { personId: 'Choose a person' }) });
+      if (checked.data && values.person) create.mutate(checked.data, { onSuccess: (a) => { setValues({ ...values, startDate: '', endDate: '', note: '', creditHours: '' }); onDone?.(a); } });
+    }
+  };
+  const conflict = error instanceof ApiError && error.status === 409;
+  const prefix = mode === 'staff' ? 'my-absence' : 'absence';
+
+  return (
+    <View style={styles.form} testID={`${prefix}-form`}>
+      {mode === 'coordinator' && !person ? (
+        <PersonPicker label="Person" value={values.person} onChange={(p) => set({ person: p })} error={fieldError(errors, error, 'personId')} testID={`${prefix}-person`} />
+      ) : null}
+      <Body bold>Kind</Body>
+      <Choices label="Kind of absence" options={KIND_OPTIONS} value={[values.kind]} onChange={(v) => set({ kind: v[0] })} testID={`${prefix}-kind`} />
+      <View style={styles.row}>
+        <DateField label="First day" value={values.startDate} onChange={(startDate) => set({ startDate, endDate: values.endDate || startDate })} error={fieldError(errors, error, 'startDate')} testID={`${prefix}-start`} />
+        <DateField label="Last day" value={values.endDate} onChange={(endDate) => set({ endDate })} minDate={/^\d{4}-\d{2}-\d{2}$/.test(values.startDate) ? values.startDate : undefined} error={fieldError(errors, error, 'endDate')} testID={`${prefix}-end`} />
+      </View>
+      <Choices
+        label="How much of the day"
+        options={[{ value: 'whole', label: 'Whole days' }, { value: 'part', label: 'Part of a day' }]}
+        value={[values.partDay ? 'part' : 'whole']}
+        onChange={(v) => set({ partDay: v[0] === 'part' })}
+        testID={`${prefix}-part`}
+      />
+      {values.partDay ? (
+        <View style={styles.row}>
+          <View style={styles.cell}>
+            <TextField label="From (HH:mm on the first day)" value={values.startTime} onChangeText={(startTime) => set({ startTime })} placeholder="09:00" error={fieldError(errors, error, 'startTime')} testID={`${prefix}-start-time`} />
+          </View>
+          <View style={styles.cell}>
+            <TextField label="Until (HH:mm on the last day)" value={values.endTime} onChangeText={(endTime) => set({ endTime })} placeholder="13:00" error={fieldError(errors, error, 'endTime')} testID={`${prefix}-end-time`} />
+          </View>
+        </View>
+      ) : null}
+      {mode === 'coordinator' ? (
+        <View style={styles.cell}>
+          <TextField
+            label="Hours it credits (blank = the default for its kind)"
+            value={values.creditHours}
+            onChangeText={(creditHours) => set({ creditHours })}
+            inputMode="decimal"
+            placeholder="default"
+            error={fieldError(errors, error, 'creditHours')}
+            testID={`${prefix}-credit`}
+          />
+        </View>
+      ) : null}
+      <TextField label="Note (optional)" value={values.note} onChangeText={(note) => set({ note })} maxLength={500} error={fieldError(errors, error, 'note')} testID={`${prefix}-note`} />
+      {conflict ? <Notice kind="caution">{`${error.message} Close the form and open it again to see their change; your values are still here.`}</Notice> : formError(error, FIELDS) ? <Notice>{formError(error, FIELDS)!}</Notice> : null}
+      <View style={styles.row}>
+        <Button label={mode === 'staff' ? 'Send request' : absence ? 'Save absence' : 'Add absence'} onPress={submit} busy={mutation.isPending} testID={`${prefix}-save`} />
+        {onCancel ? <Button kind="quiet" label="Cancel" onPress={onCancel} /> : null}
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  form: { gap: space.md },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-start' },
+  cell: { flex: 1, minWidth: 200 },
+});

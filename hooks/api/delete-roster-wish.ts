@@ -1,0 +1,16 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+import { rosterQueryOptions } from './get-roster';
+import { rosterWishesQueryOptions } from './get-roster-wishes';
+
+export const deleteRosterWish = ({ rosterId, id }: { rosterId: number; id: number }) => apiFetch<void>(`/rosters/${rosterId}/wishes/${id}`, { method: 'DELETE' });
+
+export function useDeleteRosterWish() {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: deleteRosterWish, onSuccess: (_d, v) => {
+      void queryClient.invalidateQueries({ queryKey: rosterWishesQueryOptions(v.rosterId).queryKey });
+      // A wish write moves the roster's version on (touchRoster), which its settings form sends.
+      void queryClient.invalidateQueries({ queryKey: rosterQueryOptions(v.rosterId).queryKey, exact: true });
+    },
+  });
+}
