@@ -59,7 +59,7 @@ export function TimeField({ label, value, onChange, error, step = 30, disabled, 
         <ScrollView
           style={own.list}
           contentContainerStyle={own.listInner}
-          role="listbox"
+          role="list"
           aria-label={`Times for ${label}`}
           testID={testID ? `${testID}-times` : undefined}
         >
@@ -71,8 +71,8 @@ export function TimeField({ label, value, onChange, error, step = 30, disabled, 
                 .map((t) => (
                   <Pressable
                     key={t}
-                    role="option"
-                    aria-selected={t === value}
+                    role="button"
+                    aria-pressed={t === value}
                     accessibilityLabel={t}
                     onPress={() => {
                       onChange(t);
