@@ -26,6 +26,7 @@ import { runWorkflowRouters } from './runs/workflow-router';
 import { publishRouter } from './rosters/publish-router';
 import { absenceCoverRouter, absencesRouter } from './absences/router';
 import { staffAbsencesRouter } from './absences/staff-router';
+import { useRedis } from './queue/queues';
 
 export interface AppDeps {
   env: Env;
@@ -37,6 +38,8 @@ export interface AppDeps {
 /** Builds the Express app without listening, so tests drive it with supertest. */
 export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDeps): Express {
   const app = express();
+  // Solve jobs go to this Redis (server/queue); the app itself keeps no queue state.
+  useRedis(sequelize, env.redis.url);
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
   // gzip/deflate for every text answer (JSON, HTML, JS, CSS, iCalendar, CSV): the 2.6 MB bundle goes out as ~0.6 MB

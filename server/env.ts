@@ -19,8 +19,14 @@ const envSchema = z.object({
   ROTALOOM_SESSION_SECRET: z.string().min(16).default('rotaloom-dev-secret-change-me'),
   ROTALOOM_WEB_DIR: z.string().default(path.join(rootDir, 'dist')),
   ROTALOOM_DATA_DIR: z.string().default(path.join(rootDir, '.data')),
-  /** 0 leaves solving to separate `npm run worker` processes. */
+  /** 0 leaves solving to separate `npm run worker` processes; 1 makes `npm start` start one worker process with the server. */
   ROTALOOM_IN_PROCESS_WORKER: z.enum(['0', '1']).default('1'),
+  // The queue of solve jobs (BullMQ). Without a URL, `npm start` and `npm test` start Debian's
+  // redis-server on loopback at ROTALOOM_REDIS_PORT; a URL points at a Redis run elsewhere.
+  ROTALOOM_REDIS_URL: z.string().regex(/^rediss?:\/\//, 'a redis:// or rediss:// URL').optional(),
+  ROTALOOM_REDIS_PORT: z.coerce.number().int().min(1).max(65535).default(6390),
+  /** Jobs one worker process works at once (each solve takes a thread, about one core). */
+  ROTALOOM_WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   // E-mail over SMTP (the local fake in development and tests); without a host, mail is kept in memory.
   ROTALOOM_SMTP_HOST: z.string().optional(),
   ROTALOOM_SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(587),
@@ -62,6 +68,9 @@ export interface Env {
   webDir: string;
   dataDir: string;
   inProcessWorker: boolean;
+  /** url: where the queue lives; external: given by ROTALOOM_REDIS_URL, so nobody starts one. */
+  redis: { url: string; external: boolean; port: number };
+  workerConcurrency: number;
   version: string;
   mail: {
     smtp: { host: string; port: number; secure: boolean; user?: string; password?: string } | null;
@@ -108,6 +117,8 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
     webDir: e.ROTALOOM_WEB_DIR,
     dataDir: e.ROTALOOM_DATA_DIR,
     inProcessWorker: e.ROTALOOM_IN_PROCESS_WORKER === '1',
+    redis: { url: e.ROTALOOM_REDIS_URL ?? `redis://127.0.0.1:${e.ROTALOOM_REDIS_PORT}`, external: e.ROTALOOM_REDIS_URL !== undefined, port: e.ROTALOOM_REDIS_PORT },
+    workerConcurrency: e.ROTALOOM_WORKER_CONCURRENCY,
     version: appVersion(),
     mail: {
       smtp: e.ROTALOOM_SMTP_HOST

@@ -22,6 +22,8 @@ import { createApp } from '../app';
 import { freePort, startMariaDb } from '../bootstrap/mariadb';
 import { prepareDatabase } from '../bootstrap/database';
 import { RunWorker } from '../runs/worker';
+import { closeQueues } from '../queue/queues';
+import { startRedis } from '../bootstrap/redis';
 import { Roster } from '../rosters/models';
 import { DEMO_PASSWORD } from '../db/seed';
 
@@ -64,9 +66,13 @@ async function main(): Promise<number> {
     const dbPort = await freePort();
     const db = await startMariaDb({ dataDir: path.join(tmp, 'mariadb'), port: dbPort, log: () => {} });
     cleanups.push(() => db.stop());
-    const env = readEnv({ ...process.env, NODE_ENV: 'test', ROTALOOM_DB_PORT: String(dbPort), ROTALOOM_DB_HOST: '127.0.0.1', ROTALOOM_DB_NAME: 'rotaloom_bench' });
+    // The run is a job on the queue (server/queue): a throwaway Redis beside the throwaway MariaDB.
+    const redis = await startRedis({ dataDir: path.join(tmp, 'redis'), port: await freePort(), log: () => {} });
+    cleanups.push(() => redis.stop());
+    const env = readEnv({ ...process.env, NODE_ENV: 'test', ROTALOOM_DB_PORT: String(dbPort), ROTALOOM_DB_HOST: '127.0.0.1', ROTALOOM_DB_NAME: 'rotaloom_bench', ROTALOOM_REDIS_URL: redis.url });
     const sequelize = await prepareDatabase(env.db, () => {});
     cleanups.push(() => sequelize.close());
+    cleanups.push(() => closeQueues(sequelize));
     const server: Server = await new Promise((resolve) => {
       const s = createApp({ env, sequelize }).listen(0, '127.0.0.1', () => resolve(s));
     });

@@ -128,3 +128,14 @@ export const requireRunsAllowed: RequestHandler = async (req, res, next) => {
     },
   });
 };
+
+/**
+ * Runs of one workspace solved at the same time, by plan: more waiting runs stay queued until one
+ * ends (server/runs/admission.ts), so one workspace cannot hold every worker. Pricing a concession
+ * and seat alternatives are short answers a person waits for, and are not counted.
+ */
+export const ACTIVE_RUN_CAPS: Record<PlanId, number> = { free: 1, team: 3 };
+
+export async function activeRunCap(workspaceId: number): Promise<number> {
+  return ACTIVE_RUN_CAPS[(await standingOf(workspaceId)).plan];
+}

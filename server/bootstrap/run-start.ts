@@ -4,24 +4,28 @@ import { readEnv, rootDir } from '../env';
 import { createApp } from '../app';
 import { fakeEnv, startFakes } from '../../fakes';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../db/seed';
-import { ensureDebianPackages, MARIADB } from './system-packages';
+import { ensureDebianPackages, MARIADB, REDIS } from './system-packages';
 import { startMariaDb } from './mariadb';
+import { startRedis } from './redis';
+import { startWorkerProcess } from './worker-process';
 import { prepareDatabase } from './database';
 import { buildWebIfChanged } from './web-build';
-import { RunWorker } from '../runs/worker';
 
 const log = (line: string) => console.log(`[rotaloom] ${line}`);
 
 /** `npm start`: MariaDB, migrations, demo seed, fakes, web build and the server, stopped cleanly on Ctrl-C. */
 async function main(): Promise<void> {
   const env = readEnv({ ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development' });
-  ensureDebianPackages(MARIADB);
-  const [db, web] = await Promise.all([
+  ensureDebianPackages(env.redis.external ? MARIADB : [...MARIADB, ...REDIS]);
+  const [db, redis, web] = await Promise.all([
     startMariaDb({ dataDir: path.join(env.dataDir, 'mariadb'), port: env.db.port }),
+    // The queue of solve jobs; ROTALOOM_REDIS_URL means someone else runs it.
+    env.redis.external ? Promise.resolve(null) : startRedis({ dataDir: path.join(env.dataDir, 'redis'), port: env.redis.port }),
     buildWebIfChanged(rootDir, env.webDir),
   ]);
   log(`web app ${web}`);
   const cleanups: Array<() => Promise<unknown>> = [() => db.stop()];
+  if (redis) cleanups.push(() => redis.stop());
   let stopping = false;
   const stop = async (code: number) => {
     if (stopping) return;
@@ -50,15 +54,15 @@ async function main(): Promise<void> {
     });
     cleanups.push(() => new Promise((resolve) => server.close(resolve)));
     if (env.inProcessWorker) {
-      const worker = new RunWorker(sequelize, { log });
-      worker.start();
+      // A worker process of its own, as in production: the server process never runs the solver.
+      const worker = startWorkerProcess({ ...process.env, NODE_ENV: env.nodeEnv, ROTALOOM_REDIS_URL: env.redis.url }, { log });
       cleanups.push(() => worker.stop());
     }
     console.log('');
     console.log(`  Rotaloom is running at ${env.publicUrl}`);
     console.log(`  Demo sign-in (password ${DEMO_PASSWORD}):`);
     for (const a of DEMO_ACCOUNTS) console.log(`    ${a.role.padEnd(12)} ${a.email}`);
-    console.log('  Press Ctrl-C to stop (MariaDB is stopped with it).');
+    console.log('  Press Ctrl-C to stop (the worker, Redis and MariaDB are stopped with it).');
     console.log('');
   } catch (err) {
     console.error(`[rotaloom] could not start: ${err instanceof Error ? err.message : String(err)}`);

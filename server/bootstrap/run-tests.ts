@@ -6,11 +6,12 @@ import type { Server } from 'node:http';
 import { readEnv, rootDir } from '../env';
 import { createApp } from '../app';
 import { fakeEnv, startFakes } from '../../fakes';
-import { CHROMIUM, ensureDebianPackages, MARIADB } from './system-packages';
+import { CHROMIUM, ensureDebianPackages, MARIADB, REDIS } from './system-packages';
+import { startRedis } from './redis';
+import { startWorkerProcess } from './worker-process';
 import { freePort, startMariaDb } from './mariadb';
 import { prepareDatabase } from './database';
 import { buildWebIfChanged } from './web-build';
-import { RunWorker } from '../runs/worker';
 
 const log = (line: string) => console.log(`[test] ${line}`);
 
@@ -42,7 +43,7 @@ function readVitestJson(file: string): Tally | null {
 }
 
 /**
- * `npm test`: a throwaway MariaDB in a temporary folder on a free loopback port, the unit and API
+ * `npm test`: a throwaway MariaDB and Redis in a temporary folder on free loopback ports, the unit and API
  * tests, the typecheck, and the browser tests against the built app. Everything it starts is
  * stopped again, also when something fails.
  */
@@ -50,9 +51,10 @@ async function main(): Promise<number> {
   const only = process.argv.slice(2); // e.g. `npm test -- unit` or `npm test -- e2e`
   // After Ctrl-C the step in progress ends on its own; the steps after it are skipped.
   const wants = (part: string) => !interrupted && (only.length === 0 || only.includes(part));
-  ensureDebianPackages(wants('e2e') ? [...MARIADB, ...CHROMIUM] : MARIADB);
+  ensureDebianPackages(wants('e2e') ? [...MARIADB, ...REDIS, ...CHROMIUM] : [...MARIADB, ...REDIS]);
   const tmp = mkdtempSync(path.join(os.tmpdir(), 'rotaloom-test-'));
   const port = await freePort();
+  const redisPort = await freePort();
   const bin = (name: string) => path.join(rootDir, 'node_modules', '.bin', name);
   const tally: Tally = { passed: 0, failed: 0, skipped: 0 };
   const add = (t: Tally | null, label: string) => {
@@ -67,13 +69,15 @@ async function main(): Promise<number> {
   };
   const cleanups: Array<() => Promise<unknown>> = [];
   try {
-    const [db] = await Promise.all([
-      startMariaDb({ dataDir: path.join(tmp, 'mariadb'), port, log: (l) => log(`mariadb: ${l}`) }),
+    // Each service's stop is registered as soon as it runs, so one failing to start never leaves the other behind.
+    const [, redis] = await Promise.all([
+      startMariaDb({ dataDir: path.join(tmp, 'mariadb'), port, log: (l) => log(`mariadb: ${l}`) }).then((db) => (cleanups.push(() => db.stop()), db)),
+      // One throwaway Redis for every test file: each database has its own key prefix (server/queue/connection.ts).
+      startRedis({ dataDir: path.join(tmp, 'redis'), port: redisPort, log: (l) => log(`redis: ${l}`) }).then((r) => (cleanups.push(() => r.stop()), r)),
       // ROTALOOM_WEB_DIR lets two checkouts' test runs build side by side without sharing dist/.
       wants('e2e') ? buildWebIfChanged(rootDir, readEnv(process.env).webDir).then((r) => log(`web app ${r}`)) : Promise.resolve(),
     ]);
-    cleanups.push(() => db.stop());
-    const childEnv: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', ROTALOOM_TEST_DB: '1', ROTALOOM_DB_PORT: String(port), ROTALOOM_DB_HOST: '127.0.0.1' };
+    const childEnv: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', ROTALOOM_TEST_DB: '1', ROTALOOM_DB_PORT: String(port), ROTALOOM_DB_HOST: '127.0.0.1', ROTALOOM_REDIS_URL: redis.url };
 
     if (wants('unit')) {
       log('unit and API tests (vitest)');
@@ -102,11 +106,10 @@ async function main(): Promise<number> {
         const s = createApp({ env, sequelize }).listen(appPort, '127.0.0.1', () => resolve(s));
       });
       cleanups.push(() => new Promise((resolve) => server.close(resolve)));
-    if (env.inProcessWorker) {
-      const worker = new RunWorker(sequelize, { log });
-      worker.start();
-      cleanups.push(() => worker.stop());
-    }
+      if (env.inProcessWorker) {
+        const worker = startWorkerProcess({ ...childEnv, ROTALOOM_DB_NAME: 'rotaloom_e2e' }, { log: (l) => log(`worker: ${l}`) });
+        cleanups.push(() => worker.stop());
+      }
       const address = server.address();
       const url = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
       log(`browser tests (Chromium through playwright-core) against ${url}`);

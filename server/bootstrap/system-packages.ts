@@ -40,4 +40,6 @@ export const MARIADB = [
   { executable: 'mariadbd', pkg: 'mariadb-server' },
   { executable: 'mariadb-install-db', pkg: 'mariadb-server' },
 ];
+/** The queue of solve jobs (server/queue) runs on Redis; Debian's package is redis-server. */
+export const REDIS = [{ executable: 'redis-server', pkg: 'redis-server' }];
 export const CHROMIUM = [{ executable: 'chromium', pkg: 'chromium' }];

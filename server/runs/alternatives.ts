@@ -55,6 +55,13 @@ function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boo
   return { words: `${words}${approx}.`, detail };
 }
 
+/** Alternatives are weighed on a finished run's roster: 409 in words otherwise (checked by the API before it queues the job, and again in the worker). */
+export function refuseUnfinished(run: { status: string }): void {
+  if (run.status === 'done' || run.status === 'cancelled') return;
+  const words = run.status === 'failed' ? 'This run failed, so it has no roster to weigh alternatives on.' : 'This run has not finished yet: alternatives are worked out on a finished run.';
+  throw new HttpError(409, 'conflict', words, [{ path: 'params.id', message: `the run is ${run.status}` }]);
+}
+
 /**
  * For one seat of a finished run: who is on it, and for everyone else who may sit there (and for
  * leaving it open) the max-marginal — the best roster with that choice forced, against this run's
@@ -67,10 +74,7 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
   const started = Date.now();
   const found = await RunRow.findOne({ where: { id: runId, workspaceId }, attributes: ['id', 'status'] });
   if (!found) throw new HttpError(404, 'not_found', 'Run not found', [{ path: 'params.id', message: 'no such run in this workspace' }]);
-  if (found.status !== 'done' && found.status !== 'cancelled') {
-    const words = found.status === 'failed' ? 'This run failed, so it has no roster to weigh alternatives on.' : 'This run has not finished yet: alternatives are worked out on a finished run.';
-    throw new HttpError(409, 'conflict', words, [{ path: 'params.id', message: `the run is ${found.status}` }]);
-  }
+  refuseUnfinished(found);
   const { run, roster: asStored, assignment } = await runAssignment(workspaceId, runId);
   const seatKey = rosterIds.seat(seatId);
   const seat = asStored.seats.find((s) => s.id === seatKey);

@@ -1,3 +1,4 @@
+import { Op } from 'sequelize';
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { HttpError, notFound } from '../http/errors';
@@ -12,6 +13,7 @@ import { requireRunsAllowed } from '../billing/limits';
 import { refuseWhenPublished } from '../rosters/publish';
 import { findRoster } from '../rosters/repository';
 import { cachedRun, FINAL_STATUSES, rememberRun } from './result-cache';
+import { enqueueRun, queues, requireQueue, runJobId } from '../queue/queues';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -60,7 +62,14 @@ export async function queueRun(
   const reasons = explainInfeasible(roster);
   if (reasons.length > 0) throw new HttpError(422, 'unprocessable', reasons.join(' '), reasons.map((message) => ({ path: 'roster', message })));
   if (opts.dryRun) return null;
-  return RunRow.create({ workspaceId, rosterId, parameters, rosterVersion: solvable.version, status: 'queued', cancelRequested: false });
+  // A Redis that is down is found before anything is written: 503 with Retry-After, nothing half-started.
+  const sequelize = RunRow.sequelize!;
+  await requireQueue(sequelize);
+  // The row first (the source of truth), its job after the commit. Should the add fail now, the
+  // row stays queued and the reconciler (server/queue/reconcile.ts) adds the job once Redis answers.
+  const run = await RunRow.create({ workspaceId, rosterId, parameters, rosterVersion: solvable.version, status: 'queued', cancelRequested: false });
+  await enqueueRun(sequelize, run).catch(() => {});
+  return run;
 }
 type ParsedRoster = Awaited<ReturnType<typeof solvableRoster>>['roster'];
 
@@ -112,10 +121,20 @@ export function runsRouter() {
     const where = { id: Number(req.params.id), workspaceId: ws(req) };
     const run = await RunRow.findOne({ where });
     if (!run) throw notFound('Run');
-    if (run.status === 'queued') await RunRow.update({ status: 'cancelled', cancelRequested: true, finishedAt: new Date(), error: 'Cancelled before it started' }, { where });
-    else if (run.status === 'running') await RunRow.update({ cancelRequested: true }, { where });
-    else throw new HttpError(409, 'conflict', `This run has already ${run.status === 'done' ? 'finished' : run.status}`);
-    res.status(202).json(toRunDto((await RunRow.findOne({ where }))!));
+    // The row decides: a queued run is cancelled at once (a worker that takes its job ends it
+    // unsolved); a running one is flagged and its worker stops the solver within about 0.4 s,
+    // keeping the best roster found so far. Status is part of the update's condition, so a run that
+    // started between the read and the write is flagged rather than marked cancelled under its worker.
+    if (run.status !== 'queued' && run.status !== 'running') throw new HttpError(409, 'conflict', `This run has already ${run.status === 'done' ? 'finished' : run.status}`);
+    let changed = 0;
+    if (run.status === 'queued') {
+      [changed] = await RunRow.update({ status: 'cancelled', cancelRequested: true, finishedAt: new Date(), error: 'Cancelled before it started' }, { where: { ...where, status: 'queued' } });
+      if (changed) await queues(RunRow.sequelize!).runs.remove(runJobId(run.id)).catch(() => {});
+    }
+    if (!changed) await RunRow.update({ cancelRequested: true }, { where: { ...where, status: { [Op.in]: ['queued', 'running'] } } });
+    const now = (await RunRow.findOne({ where }))!;
+    if (!now.cancelRequested) throw new HttpError(409, 'conflict', 'This run finished just before it could be cancelled');
+    res.status(202).json(toRunDto(now));
   });
   return [routes.router, runs.router] as const;
 }

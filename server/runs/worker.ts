@@ -1,156 +1,291 @@
-import { Worker } from 'node:worker_threads';
+import { Worker as Thread } from 'node:worker_threads';
+import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { QueryTypes, type Sequelize } from 'sequelize';
+import { DelayedError, Worker, type Job } from 'bullmq';
+import type { Sequelize } from 'sequelize';
 import { assembleRoster } from '../rosters/assemble';
 import { parseRosterId } from '../rosters/ids';
 import { Roster, RunRow, AssignmentRow, PinRow } from '../rosters/models';
+import { HttpError } from '../http/errors';
 import { finite, type RunOutcome, type RunProgress } from './execute';
 import { summariseOutcome } from './summary';
 import { saveContest, type RunContest } from './contest';
 import { previousStart } from './previous-start';
 import { coverPinnedSeats, withCoverPins } from '../absences/cover-pins';
+import { admitRun } from './admission';
+import { priceConcession } from './price';
+import { seatAlternatives } from './alternatives';
+import { COMPUTE_QUEUE, RUN_ATTEMPTS, RUNS_QUEUE, queueSettings, quietErrors, useRedis, type ComputeJobData, type ComputeJobResult, type RunJobData } from '../queue/queues';
+import { workerOptions } from '../queue/connection';
+import { failureInWords, reconcileRuns } from '../queue/reconcile';
 import type { RosterAssignment } from '../../shared/roster/schema';
 
 export interface RunWorkerOptions {
   /** Names this worker in `runs.claimed_by`. */
   name?: string;
-  pollMs?: number;
-  /** A running run whose heartbeat is older than this belonged to a process that died: it is claimed again. */
-  staleMs?: number;
   log?: (line: string) => void;
+  /** The Redis of the queue (default: the process environment's, server/env.ts). */
+  redisUrl?: string;
+  /** Runs solved at once by this worker (each takes a thread, about a core). */
+  concurrency?: number;
+  /**
+   * How long a job's lock lasts between renewals. A worker killed mid-run stops renewing; BullMQ's
+   * stall check (every lockMs / 2) then hands its job to another worker, so a lost run waits
+   * about lockMs to 2 × lockMs, not the 90 s a heartbeat sweep took.
+   */
+  lockMs?: number;
+  /** How often the reconciler compares the run rows with the queue (server/queue/reconcile.ts). */
+  reconcileMs?: number;
+  /** A run turned away by its workspace's cap is offered again after this long. */
+  capDelayMs?: number;
 }
 
+type RunEnd = { worked: boolean; ended: string };
+
+/** Thrown out of a run when this worker is stopping: the job goes back to the queue without costing an attempt. */
+class HandedBack extends Error {}
+
 /**
- * Claims queued runs from MariaDB one at a time (`SELECT … FOR UPDATE SKIP LOCKED`, so any
- * number of workers in any number of processes never take the same run) and solves each in a
- * worker thread, writing progress, heartbeat and the result back to the run's row.
+ * A BullMQ worker of solve jobs (server/queue). MariaDB is the source of truth: a job carries only
+ * the run's id, and progress, heartbeat and results go to the run's row. Each run is solved in a
+ * worker thread; pricing concessions and seat alternatives come in on a second queue, so the API
+ * processes never run the solver. Any number of these run in any number of processes.
  */
 export class RunWorker {
-  private timer: ReturnType<typeof setInterval> | null = null;
-  private busy = false;
-  private thread: Worker | null = null;
-  private currentRunId: number | null = null;
   readonly name: string;
-  private readonly pollMs: number;
-  private readonly staleMs: number;
   private readonly log: (line: string) => void;
+  private readonly url: string;
+  private readonly prefix: string;
+  private readonly concurrency: number;
+  private readonly lockMs: number;
+  private readonly reconcileMs: number;
+  private readonly capDelayMs: number;
+  private runs: Worker<RunJobData> | null = null;
+  private compute: Worker<ComputeJobData, ComputeJobResult> | null = null;
+  private manual: Worker<RunJobData> | null = null;
+  private reconcileTimer: ReturnType<typeof setInterval> | null = null;
+  private reconciling = false;
+  private stopping = false;
+  private readonly threads = new Set<Thread>();
 
   constructor(
     private readonly sequelize: Sequelize,
     options: RunWorkerOptions = {},
   ) {
     this.name = options.name ?? `${os.hostname()}:${process.pid}:${Math.random().toString(36).slice(2, 8)}`;
-    this.pollMs = options.pollMs ?? 500;
-    this.staleMs = options.staleMs ?? 30_000;
     this.log = options.log ?? (() => {});
+    if (options.redisUrl) useRedis(sequelize, options.redisUrl);
+    const settings = queueSettings(sequelize);
+    this.url = settings.url;
+    this.prefix = settings.prefix;
+    this.concurrency = options.concurrency ?? 1;
+    this.lockMs = options.lockMs ?? 10_000;
+    this.reconcileMs = options.reconcileMs ?? 10_000;
+    this.capDelayMs = options.capDelayMs ?? 1000;
   }
 
+  private workerOpts(concurrency: number, autorun = true) {
+    return {
+      connection: workerOptions(this.url),
+      prefix: this.prefix,
+      concurrency,
+      autorun,
+      lockDuration: this.lockMs,
+      stalledInterval: Math.max(500, Math.round(this.lockMs / 2)),
+      // A job found stalled once is retried on another worker; found stalled again, it fails (the reconciler words it).
+      maxStalledCount: 1,
+      name: this.name,
+    };
+  }
+
+  /** Works both queues continuously and reconciles the run rows with the queue now and every reconcileMs. */
   start(): void {
-    if (this.timer) return;
-    this.timer = setInterval(() => void this.tick(), this.pollMs);
-    void this.tick();
-  }
-
-  async stop(): Promise<void> {
-    if (this.timer) clearInterval(this.timer);
-    this.timer = null;
-    if (this.thread) await this.thread.terminate();
-    // Handing the run back lets the next worker (or the next start) finish it.
-    if (this.currentRunId !== null) await RunRow.update({ status: 'queued', claimedBy: null }, { where: { id: this.currentRunId, status: 'running' } });
-  }
-
-  /** One poll: requeue abandoned runs, then claim and solve at most one. Returns the run id it solved. */
-  async tick(): Promise<number | null> {
-    if (this.busy) return null;
-    this.busy = true;
-    try {
-      await this.requeueStale();
-      const id = await this.claim();
-      if (id === null) return null;
-      await this.solve(id);
-      return id;
-    } catch (err) {
-      this.log(`run worker: ${err instanceof Error ? err.message : String(err)}`);
-      return null;
-    } finally {
-      this.busy = false;
+    this.stopping = false;
+    if (!this.runs) {
+      this.runs = new Worker<RunJobData>(RUNS_QUEUE, (job, token) => this.processJob(job, token), this.workerOpts(this.concurrency));
+      this.runs.on('error', quietErrors('run worker'));
+    }
+    this.startCompute();
+    if (!this.reconcileTimer) {
+      this.reconcileTimer = setInterval(() => void this.reconcile(), this.reconcileMs);
+      void this.reconcile();
     }
   }
 
-  private async requeueStale(): Promise<void> {
-    const cutoff = new Date(Date.now() - this.staleMs);
-    await this.sequelize.query(
-      "UPDATE runs SET status = 'queued', claimed_by = NULL, updated_at = NOW() WHERE status = 'running' AND (heartbeat_at IS NULL OR heartbeat_at < ?)",
-      { replacements: [cutoff] },
-    );
+  /** Only the compute queue (prices, alternatives): for tests that solve runs one tick at a time. */
+  startCompute(): void {
+    if (this.compute) return;
+    this.compute = new Worker<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, (job) => this.processCompute(job), this.workerOpts(1));
+    this.compute.on('error', quietErrors('compute worker'));
   }
 
-  private async claim(): Promise<number | null> {
-    return this.sequelize.transaction(async (transaction) => {
-      const rows = await this.sequelize.query<{ id: number }>("SELECT id FROM runs WHERE status = 'queued' ORDER BY id LIMIT 1 FOR UPDATE SKIP LOCKED", {
-        type: QueryTypes.SELECT,
-        transaction,
-      });
-      if (rows.length === 0) return null;
-      const id = rows[0].id;
-      const now = new Date();
-      await RunRow.update({ status: 'running', claimedBy: this.name, startedAt: now, heartbeatAt: now }, { where: { id }, transaction });
-      return id;
-    });
-  }
-
-  private async solve(id: number): Promise<void> {
-    const run = (await RunRow.findByPk(id))!;
-    this.currentRunId = id;
-    const started = Date.now();
+  /** Runs the reconciler once (never two at once in this process); a Redis that is down is tried again next time. */
+  async reconcile(): Promise<void> {
+    if (this.reconciling) return;
+    this.reconciling = true;
     try {
-      if (run.cancelRequested) return void (await this.finish(id, { status: 'cancelled', error: 'Cancelled before it started' }));
+      const report = await reconcileRuns(this.sequelize);
+      if (report.enqueued.length) this.log(`reconciler: enqueued runs ${report.enqueued.join(', ')} that had no job`);
+      if (report.failed.length) this.log(`reconciler: marked runs ${report.failed.join(', ')} failed`);
+    } catch (err) {
+      this.log(`reconciler: ${err instanceof Error ? err.message : String(err)}`);
+    } finally {
+      this.reconciling = false;
+    }
+  }
+
+  /**
+   * Takes the next run job, if any, and works it to the end in this call; jobs that need no work
+   * (their run finished or was deleted meanwhile) are passed over. Returns the id of the run
+   * solved, or null when the queue has none. For tests and tools that want one step at a time.
+   */
+  async tick(): Promise<number | null> {
+    this.manual ??= new Worker<RunJobData>(RUNS_QUEUE, undefined, this.workerOpts(1, false));
+    for (let passes = 0; passes < 100; passes++) {
+      const token = randomUUID();
+      const job = (await this.manual.getNextJob(token, { block: false })) as Job<RunJobData> | undefined;
+      if (!job) return null;
+      const renew = setInterval(() => void job.extendLock(token, this.lockMs).catch(() => {}), Math.round(this.lockMs / 3));
+      try {
+        const end = await this.processRun(job);
+        if (end === 'deferred') {
+          await job.moveToDelayed(Date.now() + this.capDelayMs, token);
+          continue;
+        }
+        await job.moveToCompleted(end, token, false);
+        if (end.worked) return job.data.runId;
+      } catch (err) {
+        if (err instanceof HandedBack) {
+          await job.moveToDelayed(Date.now(), token);
+          return null;
+        }
+        await job.moveToFailed(err instanceof Error ? err : new Error(String(err)), token, false);
+        return job.data.runId;
+      } finally {
+        clearInterval(renew);
+      }
+    }
+    return null;
+  }
+
+  /** Stops taking jobs; a run in progress goes back to the queue (another worker, or the next start, solves it). */
+  async stop(): Promise<void> {
+    this.stopping = true;
+    if (this.reconcileTimer) clearInterval(this.reconcileTimer);
+    this.reconcileTimer = null;
+    await Promise.all([...this.threads].map((t) => t.terminate()));
+    await Promise.allSettled([this.runs?.close(), this.compute?.close(), this.manual?.close()]);
+    this.runs = this.compute = this.manual = null;
+  }
+
+  /** The BullMQ processor: a run over its workspace's cap waits (delayed, keeping its priority) and is offered again. */
+  private async processJob(job: Job<RunJobData>, token?: string): Promise<RunEnd> {
+    try {
+      const end = await this.processRun(job);
+      if (end !== 'deferred') return end;
+      await job.moveToDelayed(Date.now() + this.capDelayMs, token);
+    } catch (err) {
+      if (!(err instanceof HandedBack)) throw err;
+      await job.moveToDelayed(Date.now(), token);
+    }
+    throw new DelayedError();
+  }
+
+  private async processCompute(job: Job<ComputeJobData, ComputeJobResult>): Promise<ComputeJobResult> {
+    const d = job.data;
+    try {
+      const value = d.kind === 'price' ? await priceConcession(d.workspaceId, d.runId, d.index, d.params) : await seatAlternatives(d.workspaceId, d.runId, d.seatId);
+      return { ok: true, value };
+    } catch (err) {
+      // An answer in words for the person waiting (404, 409, …) travels back as data, not as a failed job.
+      if (err instanceof HttpError) return { ok: false, status: err.status, code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) };
+      throw err;
+    }
+  }
+
+  /**
+   * One run job. A run whose row is gone (its roster was deleted) or already finished ends at once:
+   * that is also what makes a duplicate job harmless. Errors of the roster itself end the run as
+   * failed in words; a crash of the solver is thrown, so BullMQ tries once more, and the second
+   * failure marks the run failed.
+   */
+  private async processRun(job: Job<RunJobData>): Promise<RunEnd | 'deferred'> {
+    const id = job.data.runId;
+    const run = await RunRow.findByPk(id);
+    if (!run) return { worked: false, ended: 'the run no longer exists (its roster was deleted)' };
+    if (run.status !== 'queued' && run.status !== 'running') return { worked: false, ended: `the run is already ${run.status}` };
+    if (run.cancelRequested) {
+      await this.finish(id, { status: 'cancelled', error: 'Cancelled before it started' });
+      return { worked: false, ended: 'cancelled before it started' };
+    }
+    if (!(await admitRun(this.sequelize, run, this.name))) return 'deferred';
+    const started = Date.now();
+    const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? RUN_ATTEMPTS);
+    try {
       const { parsed } = await assembleRoster(run.workspaceId, run.rosterId);
       if (!parsed.ok) {
         const text = parsed.issues.slice(0, 10).map((i) => `${i.path}: ${i.message}`).join('\n');
-        return void (await this.finish(id, { status: 'failed', error: `The roster has problems to fix first:\n${text}` }));
+        await this.finish(id, { status: 'failed', error: `The roster has problems to fix first:\n${text}` });
+        return { worked: true, ended: 'failed: roster problems' };
       }
       // A cover run (server/absences/cover.ts) keeps the seats its parameters pin.
       const roster = withCoverPins(parsed.roster, run.parameters);
       const start = await previousStart(run.workspaceId, run.rosterId, id, roster);
-      const result = await this.runThread(id, roster, run.parameters, start);
-      if (result.type === 'failed') return void (await this.finish(id, { status: 'failed', error: result.reasons.join('\n') }));
-      if (result.type === 'error') return void (await this.finish(id, { status: 'failed', error: `The solver stopped with an error: ${result.message}` }));
-      const outcome = result.outcome;
-      const cancelled = (await RunRow.findByPk(id, { attributes: ['cancelRequested'] }))?.cancelRequested ?? false;
-      const pins = new Set([...(await PinRow.findAll({ where: { rosterId: run.rosterId, workspaceId: run.workspaceId } })).map((p) => p.seatId), ...coverPinnedSeats(run.parameters)]);
-      await this.sequelize.transaction(async (transaction) => {
-        await AssignmentRow.destroy({ where: { runId: id }, transaction });
-        await AssignmentRow.bulkCreate(
-          Object.entries(outcome.assignment).map(([seat, person]) => {
-            const seatId = parseRosterId('st', seat);
-            return { workspaceId: run.workspaceId, runId: id, seatId, personId: person ? parseRosterId('p', person) : null, pinned: pins.has(seatId) };
-          }),
-          { transaction },
-        );
-        await RunRow.update(
-          {
-            status: cancelled ? 'cancelled' : 'done',
-            score: finite(outcome.score),
-            bound: finite(outcome.bound),
-            gap: finite(outcome.gap),
-            timeMs: Date.now() - started,
-            finishedAt: new Date(),
-            result: summariseOutcome(outcome),
-            error: cancelled ? 'Cancelled; this is the best roster found until then' : null,
-          },
-          { where: { id }, transaction },
-        );
-        await Roster.update({ status: 'solved' }, { where: { id: run.rosterId, status: 'draft', version: run.rosterVersion }, transaction });
-        await saveContest(this.sequelize, id, result.contest, transaction);
-      });
+      const result = await this.runThread(id, job, roster, run.parameters, start);
+      if (this.stopping) throw new HandedBack();
+      if (result.type === 'failed') {
+        await this.finish(id, { status: 'failed', error: result.reasons.join('\n') });
+        return { worked: true, ended: 'failed: infeasible' };
+      }
+      if (result.type === 'error') throw new Error(`the solver stopped with an error: ${result.message}`);
+      const saved = await this.save(run, result.outcome, result.contest, started);
+      return { worked: true, ended: saved };
     } catch (err) {
-      await this.finish(id, { status: 'failed', error: `The run failed: ${err instanceof Error ? err.message : String(err)}` });
-    } finally {
-      this.currentRunId = null;
+      if (err instanceof HandedBack) {
+        await RunRow.update({ status: 'queued', claimedBy: null }, { where: { id, status: 'running' } });
+        throw err;
+      }
+      if (err instanceof HttpError && err.status === 404) return { worked: false, ended: 'the roster was deleted' };
+      if (!(await RunRow.findByPk(id, { attributes: ['id'] }))) return { worked: false, ended: 'the run was deleted while it ran (its roster was deleted)' };
+      const reason = err instanceof Error ? err.message : String(err);
+      if (lastAttempt) await this.finish(id, { status: 'failed', error: failureInWords(reason) });
+      else await RunRow.update({ status: 'queued', claimedBy: null, error: `The first attempt failed (${reason}); trying once more.` }, { where: { id, status: 'running' } });
+      throw err;
     }
+  }
+
+  private async save(run: RunRow, outcome: RunOutcome, contest: RunContest | null, started: number): Promise<string> {
+    const id = run.id;
+    const cancelled = (await RunRow.findByPk(id, { attributes: ['cancelRequested'] }))?.cancelRequested ?? false;
+    const pins = new Set([...(await PinRow.findAll({ where: { rosterId: run.rosterId, workspaceId: run.workspaceId } })).map((p) => p.seatId), ...coverPinnedSeats(run.parameters)]);
+    await this.sequelize.transaction(async (transaction) => {
+      await AssignmentRow.destroy({ where: { runId: id }, transaction });
+      await AssignmentRow.bulkCreate(
+        Object.entries(outcome.assignment).map(([seat, person]) => {
+          const seatId = parseRosterId('st', seat);
+          return { workspaceId: run.workspaceId, runId: id, seatId, personId: person ? parseRosterId('p', person) : null, pinned: pins.has(seatId) };
+        }),
+        { transaction },
+      );
+      await RunRow.update(
+        {
+          status: cancelled ? 'cancelled' : 'done',
+          score: finite(outcome.score),
+          bound: finite(outcome.bound),
+          gap: finite(outcome.gap),
+          timeMs: Date.now() - started,
+          finishedAt: new Date(),
+          result: summariseOutcome(outcome),
+          error: cancelled ? 'Cancelled; this is the best roster found until then' : null,
+        },
+        { where: { id }, transaction },
+      );
+      await Roster.update({ status: 'solved' }, { where: { id: run.rosterId, status: 'draft', version: run.rosterVersion }, transaction });
+      await saveContest(this.sequelize, id, contest, transaction);
+    });
+    return cancelled ? 'cancelled with the best roster so far' : 'done';
   }
 
   private async finish(id: number, fields: { status: 'failed' | 'cancelled'; error: string }): Promise<void> {
@@ -159,6 +294,7 @@ export class RunWorker {
 
   private runThread(
     id: number,
+    job: Job<RunJobData>,
     roster: unknown,
     params: { timeLimitSeconds: number; seed: number },
     start: RosterAssignment | undefined,
@@ -170,15 +306,15 @@ export class RunWorker {
     let solved: RunOutcome | null = null;
     let contestTimer: ReturnType<typeof setTimeout> | undefined;
     return new Promise((resolve) => {
-      const thread = new Worker(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs }, start } });
-      this.thread = thread;
+      const thread = new Thread(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs }, start } });
+      this.threads.add(thread);
       let lastWrite = 0;
       let settled = false;
       const settle = (value: Parameters<typeof resolve>[0]) => {
         if (settled) return;
         settled = true;
         clearTimeout(contestTimer);
-        this.thread = null;
+        this.threads.delete(thread);
         void thread.terminate();
         resolve(value);
       };
@@ -188,10 +324,11 @@ export class RunWorker {
           if (now - lastWrite < 400) return;
           lastWrite = now;
           const p = msg.progress;
-          void RunRow.update(
-            { progress: { ...p, score: finite(p.score) ?? 0, bound: finite(p.bound) ?? 0, gap: finite(p.gap) ?? 0 }, score: finite(p.score), bound: finite(p.bound), gap: finite(p.gap), heartbeatAt: new Date() },
-            { where: { id } },
-          )
+          const progress = { ...p, score: finite(p.score) ?? 0, bound: finite(p.bound) ?? 0, gap: finite(p.gap) ?? 0 };
+          // The row is what the client polls; the job's progress feeds BullMQ's queue events.
+          void job.updateProgress(progress).catch(() => {});
+          // Cancelling is a flag on the row (any API process sets it); seen here within about 0.4 s.
+          void RunRow.update({ progress, score: finite(p.score), bound: finite(p.bound), gap: finite(p.gap), heartbeatAt: new Date() }, { where: { id } })
             .then(() => RunRow.findByPk(id, { attributes: ['cancelRequested'] }))
             .then((row) => {
               if (row?.cancelRequested) thread.postMessage('cancel');

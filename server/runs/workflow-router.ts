@@ -1,10 +1,13 @@
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
+import { HttpError } from '../http/errors';
 import { manualRunBody, priceConcessionBody, rosterIdParams, runIdParams, seatAlternativesParams } from '../../shared/api/rosters';
 import { refuseWhenPublished } from '../rosters/publish';
-import { seatAlternatives } from './alternatives';
 import { saveManualRun } from './manual';
-import { concessionsOf, priceConcession } from './price';
+import { refuseUnfinished } from './alternatives';
+import { concessionsOf } from './price';
+import { RunRow } from '../rosters/models';
+import { computeOnWorker } from '../queue/queues';
 import { findRun } from './run-view';
 import { requireRunsAllowed } from '../billing/limits';
 
@@ -19,10 +22,16 @@ export function runWorkflowRouters() {
   });
   // Pricing a concession solves the roster again, so it waits like a new run while a payment is overdue.
   runs.post('/:id/concession-price', COORDINATOR_UP, validate({ params: runIdParams, body: priceConcessionBody }), requireRunsAllowed, async (req, res) => {
-    res.json(await priceConcession(ws(req), Number(req.params.id), req.body.index, req.body));
+    // The run is looked up here (a cheap read) so another workspace's id is a 404 without a worker; the re-solve is a job.
+    const run = await findRun(ws(req), Number(req.params.id));
+    const params = { timeLimitSeconds: req.body.timeLimitSeconds, seed: req.body.seed };
+    res.json(await computeOnWorker(RunRow.sequelize!, { kind: 'price', workspaceId: ws(req), runId: run.id, index: req.body.index, params }, params.timeLimitSeconds * 1000 + 120_000, 'the price of this concession'));
   });
   runs.get('/:id/seats/:seatId/alternatives', COORDINATOR_UP, validate({ params: seatAlternativesParams }), async (req, res) => {
-    res.json(await seatAlternatives(ws(req), Number(req.params.id), Number(req.params.seatId)));
+    const run = await RunRow.findOne({ where: { id: Number(req.params.id), workspaceId: ws(req) }, attributes: ['id', 'status'] });
+    if (!run) throw new HttpError(404, 'not_found', 'Run not found', [{ path: 'params.id', message: 'no such run in this workspace' }]);
+    refuseUnfinished(run);
+    res.json(await computeOnWorker(RunRow.sequelize!, { kind: 'alternatives', workspaceId: ws(req), runId: run.id, seatId: Number(req.params.seatId) }, 150_000, 'the alternatives for this seat'));
   });
 
   const rosters = new ApiRoutes('/rosters');

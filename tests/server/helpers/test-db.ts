@@ -4,6 +4,7 @@ import { readEnv, type Env } from '../../../server/env';
 import { createSequelize, ensureDatabase } from '../../../server/db/sequelize';
 import { initModels } from '../../../server/db/models';
 import { migrateUp } from '../../../server/db/migrate';
+import { closeQueues } from '../../../server/queue/queues';
 
 export interface TestDb {
   env: Env;
@@ -29,6 +30,8 @@ export async function createTestDb(overrides: Partial<NodeJS.ProcessEnv> = {}): 
     env,
     sequelize,
     async drop() {
+      // The file's queue connections to the shared test Redis (server/queue), opened on its first run.
+      await closeQueues(sequelize);
       await sequelize.query(`DROP DATABASE \`${name}\``);
       await sequelize.close();
     },

@@ -65,6 +65,7 @@ describe('roster workflow API: concessions, alternatives, pins, manual saves, pu
     workspace = await makeWorkspace('Larchfield Clinic');
     coordinator = (await signedIn(app, workspace, 'coordinator')).agent;
     worker = new RunWorker(db.sequelize, { name: 'workflow-test-worker' });
+    worker.startCompute(); // prices and alternatives are jobs the API waits for
 
     // Two people (one with a long accented name, to exercise iCalendar line folding), one day shift
     // of two seats on Mon–Wed: 3 choices per seat, 3^6 = 729 rosters, few enough to enumerate.

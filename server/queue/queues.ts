@@ -1,0 +1,175 @@
+import { Queue, QueueEvents, type Job } from 'bullmq';
+import { Op, type Sequelize } from 'sequelize';
+import { readEnv } from '../env';
+import { HttpError } from '../http/errors';
+import { RunRow } from '../rosters/models';
+import { producerOptions, queuePrefix, workerOptions } from './connection';
+
+/** Solve runs: one job per run row, id `run-<row id>` (BullMQ refuses custom ids that are plain integers). */
+export const RUNS_QUEUE = 'runs';
+/** Request-and-answer computations an API request waits for: a concession's price, seat alternatives. */
+export const COMPUTE_QUEUE = 'compute';
+
+export const runJobId = (runId: number) => `run-${runId}`;
+export const runIdOfJob = (jobId: string | undefined) => Number(String(jobId ?? '').replace(/^run-/, ''));
+
+export interface RunJobData {
+  runId: number;
+  workspaceId: number;
+}
+
+export type ComputeJobData =
+  | { kind: 'price'; workspaceId: number; runId: number; index: number; params: { timeLimitSeconds: number; seed: number } }
+  | { kind: 'alternatives'; workspaceId: number; runId: number; seatId: number };
+
+/** What a compute job hands back: the answer, or the HttpError the API should send, as data (it crosses Redis). */
+export type ComputeJobResult = { ok: true; value: unknown } | { ok: false; status: number; code: string; message: string; fields?: Array<{ path: string; message: string }> };
+
+/** Attempts per run: a second try after a crash or a killed worker, then the run is marked failed in words. */
+export const RUN_ATTEMPTS = 2;
+/** BullMQ priorities run from 1 (first) to 2^21 − 1. */
+const MAX_PRIORITY = 2 ** 21 - 1;
+
+interface Hub {
+  url: string;
+  prefix: string;
+  runs: Queue<RunJobData>;
+  compute: Queue<ComputeJobData, ComputeJobResult>;
+  events: Promise<QueueEvents> | null;
+}
+
+const urls = new WeakMap<Sequelize, string>();
+const hubs = new WeakMap<Sequelize, Hub>();
+
+/**
+ * Which Redis the queues of this database live on. The app and the worker say so from their
+ * environment; without it the process environment decides (tests that build an app per file).
+ */
+export function useRedis(sequelize: Sequelize, url: string): void {
+  const hub = hubs.get(sequelize);
+  if (hub && hub.url !== url) void closeQueues(sequelize);
+  urls.set(sequelize, url);
+}
+
+export function queueSettings(sequelize: Sequelize): { url: string; prefix: string } {
+  const url = urls.get(sequelize) ?? readEnv(process.env).redis.url;
+  return { url, prefix: queuePrefix(sequelize.getDatabaseName()) };
+}
+
+let lastLogged = 0;
+/** Redis errors arrive as 'error' events; without a listener they would end the process. Logged at most every 30 s. */
+export function quietErrors(where: string) {
+  return (err: Error) => {
+    if (process.env.NODE_ENV === 'test' || Date.now() - lastLogged < 30_000) return;
+    lastLogged = Date.now();
+    console.error(`[queue] ${where}: ${err.message}`);
+  };
+}
+
+export function queues(sequelize: Sequelize): Hub {
+  let hub = hubs.get(sequelize);
+  if (hub) return hub;
+  const { url, prefix } = queueSettings(sequelize);
+  const runs = new Queue<RunJobData>(RUNS_QUEUE, { connection: producerOptions(url), prefix });
+  const compute = new Queue<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, { connection: producerOptions(url), prefix });
+  runs.on('error', quietErrors('runs queue'));
+  compute.on('error', quietErrors('compute queue'));
+  hub = { url, prefix, runs, compute, events: null };
+  hubs.set(sequelize, hub);
+  return hub;
+}
+
+export async function closeQueues(sequelize: Sequelize): Promise<void> {
+  const hub = hubs.get(sequelize);
+  if (!hub) return;
+  hubs.delete(sequelize);
+  const events = hub.events ? await hub.events.catch(() => null) : null;
+  await Promise.allSettled([hub.runs.close(), hub.compute.close(), events?.close()]);
+}
+
+export class QueueUnavailableError extends HttpError {
+  constructor(message = 'The solve queue cannot be reached just now, so nothing was started. Try again in a few seconds.') {
+    super(503, 'unavailable', message, undefined, { 'Retry-After': '5' });
+  }
+}
+
+/** Resolves when the queue's Redis connection is up; a Redis that is down answers within about two seconds. */
+async function ready(queue: Queue<never, never> | Queue<RunJobData> | Queue<ComputeJobData, ComputeJobResult>): Promise<void> {
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const client = await Promise.race([queue.client.catch(() => null), new Promise<null>((r) => (timer = setTimeout(() => r(null), 2000)))]);
+  clearTimeout(timer);
+  if (!client || client.status !== 'ready') throw new QueueUnavailableError();
+}
+
+/** Throws QueueUnavailableError (503 with Retry-After) when Redis cannot take a job now. Called before a run row is written. */
+export async function requireQueue(sequelize: Sequelize): Promise<void> {
+  await ready(queues(sequelize).runs);
+}
+
+/**
+ * The queue position of a workspace's run: 1 + how many of its runs are already waiting or
+ * running. A workspace's first run goes ahead of every other workspace's second, so a flood from
+ * one workspace interleaves with the others instead of holding them back (BullMQ takes the lowest
+ * number first, oldest first among equals).
+ */
+export async function runPriority(workspaceId: number, runId: number): Promise<number> {
+  const ahead = await RunRow.count({ where: { workspaceId, status: { [Op.in]: ['queued', 'running'] }, id: { [Op.lt]: runId } } });
+  return Math.min(MAX_PRIORITY, 1 + ahead);
+}
+
+/**
+ * Adds the job of a run whose row is committed. The job id is the run's, so adding it twice
+ * (the API and the reconciler, or two reconcilers) keeps one job: BullMQ ignores an add whose id
+ * exists, and a job for a run that has already finished ends at once in the worker.
+ */
+export async function enqueueRun(sequelize: Sequelize, run: { id: number; workspaceId: number }): Promise<Job<RunJobData>> {
+  const priority = await runPriority(run.workspaceId, run.id);
+  return queues(sequelize).runs.add(
+    'solve',
+    { runId: run.id, workspaceId: run.workspaceId },
+    {
+      jobId: runJobId(run.id),
+      priority,
+      attempts: RUN_ATTEMPTS,
+      backoff: { type: 'fixed', delay: 1000 },
+      // Kept a while so a duplicate add within that time finds the job; the row keeps the result for good.
+      removeOnComplete: { age: 3600, count: 5000 },
+      removeOnFail: { age: 7 * 86_400 },
+    },
+  );
+}
+
+function eventsOf(hub: Hub): Promise<QueueEvents> {
+  hub.events ??= (async () => {
+    const events = new QueueEvents(COMPUTE_QUEUE, { connection: workerOptions(hub.url), prefix: hub.prefix });
+    events.on('error', quietErrors('compute events'));
+    await events.waitUntilReady();
+    return events;
+  })();
+  return hub.events;
+}
+
+/**
+ * Hands a heavy computation to a worker process and waits for its answer, so the API process
+ * never runs the solver. `what` names it in the words of a timeout.
+ */
+export async function computeOnWorker(sequelize: Sequelize, data: ComputeJobData, timeoutMs: number, what: string): Promise<unknown> {
+  const hub = queues(sequelize);
+  await ready(hub.compute);
+  const events = await eventsOf(hub);
+  const job = await hub.compute.add(data.kind, data, { attempts: 1, removeOnComplete: { age: 600 }, removeOnFail: { age: 3600 } });
+  let result: ComputeJobResult;
+  try {
+    result = await job.waitUntilFinished(events, timeoutMs);
+  } catch (err) {
+    const message = err instanceof Error ? err.message : String(err);
+    if (/timed out/i.test(message)) {
+      // Nobody took it (no worker running, or all busy for that long): take it back so it is not worked for nobody.
+      await job.remove().catch(() => {});
+      throw new QueueUnavailableError(`No solve worker answered ${what} within ${Math.round(timeoutMs / 1000)} s. Try again in a moment.`);
+    }
+    throw new HttpError(500, 'internal', `Working out ${what} failed: ${message}`);
+  }
+  if (!result.ok) throw new HttpError(result.status, result.code as never, result.message, result.fields);
+  return result.value;
+}
