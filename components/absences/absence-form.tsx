@@ -10,6 +10,7 @@ import { Button } from '@/components/ui/button';
 import { DateField } from '@/components/ui/date-field';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
+import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
 import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
@@ -128,10 +129,10 @@ export function AbsenceForm({
       {values.partDay ? (
         <View style={styles.row}>
           <View style={styles.cell}>
-            <TextField label="From (HH:mm on the first day)" value={values.startTime} onChangeText={(startTime) => set({ startTime })} placeholder="09:00" error={fieldError(errors, error, 'startTime')} testID={`${prefix}-start-time`} />
+            <TimeField label="From (on the first day)" value={values.startTime} onChange={(startTime) => set({ startTime })} error={fieldError(errors, error, 'startTime')} testID={`${prefix}-start-time`} />
           </View>
           <View style={styles.cell}>
-            <TextField label="Until (HH:mm on the last day)" value={values.endTime} onChangeText={(endTime) => set({ endTime })} placeholder="13:00" error={fieldError(errors, error, 'endTime')} testID={`${prefix}-end-time`} />
+            <TimeField label="Until (on the last day)" value={values.endTime} onChange={(endTime) => set({ endTime })} error={fieldError(errors, error, 'endTime')} testID={`${prefix}-end-time`} />
           </View>
         </View>
       ) : null}

@@ -17,7 +17,9 @@ import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { PersonAbsencesSection } from '@/components/absences/person-absences-section';
 import { Chip, CoordinatorsOnly } from './parts';
+import { TermsSection } from './terms-section';
 
 interface Values {
   name: string;
@@ -136,6 +138,9 @@ function EditPerson({ id }: { id: number }) {
       ) : null}
       {saved ? <Notice kind="info">Saved.</Notice> : null}
       <Button label="Save changes" onPress={() => save()} busy={update.isPending} testID="person-save" />
+
+      <TermsSection personId={id} personName={person.data.name} />
+      <PersonAbsencesSection personId={id} personName={person.data.name} />
 
       <Section title="Remove from the workspace" lead="Their pairings, wishes and seats in unpublished rosters go with them.">
         {confirmDelete ? (
