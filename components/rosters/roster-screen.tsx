@@ -10,6 +10,7 @@ import { Loadable, Pill } from './parts';
 import { periodWords } from './format';
 import { SetupSection } from './setup-section';
 import { RulesSection } from './rules-section';
+import { WishesSection } from './wishes-section';
 import { SolveSection } from './solve-section';
 import { ResultSection } from './result-section';
 import { EditSection } from './edit-section';
@@ -18,6 +19,7 @@ import { PublishSection } from './publish-section';
 const SECTIONS = [
   { key: 'setup', label: 'Shifts' },
   { key: 'rules', label: 'Rules' },
+  { key: 'wishes', label: 'Wishes' },
   { key: 'solve', label: 'Solve' },
   { key: 'result', label: 'Result' },
   { key: 'edit', label: 'Edit' },
@@ -63,6 +65,7 @@ export function RosterScreen() {
           <View role="tabpanel">
             {section === 'setup' ? <SetupSection roster={r} /> : null}
             {section === 'rules' ? <RulesSection roster={r} /> : null}
+            {section === 'wishes' ? <WishesSection roster={r} /> : null}
             {section === 'solve' ? <SolveSection roster={r} onFinished={(id) => { setChosenRun(id); }} onShowResult={(id) => { setChosenRun(id); setSection('result'); }} /> : null}
             {section === 'result' ? <ResultSection roster={r} runId={runId} runs={runs.data ?? []} onPickRun={setChosenRun} /> : null}
             {section === 'edit' ? <EditSection roster={r} runId={runId} onSaved={(id) => { setChosenRun(id); setSection('result'); }} /> : null}
