@@ -11,6 +11,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel } from './parts';
+import { SkillMixEditor, type SkillMixRequirement } from './skill-mix-editor';
 
 type RuleKey = keyof RuleSet;
 
@@ -98,7 +99,9 @@ function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleS
                 </View>
               ))}
             </View>
-            {key === 'skillMix' ? <Body muted>{`${(r.requirements as unknown[] | undefined)?.length ?? 0} skill-mix requirement(s); they are kept as they are.`}</Body> : null}
+            {key === 'skillMix' ? (
+              <SkillMixEditor rosterId={roster.id} requirements={(r.requirements as SkillMixRequirement[] | undefined) ?? []} onChange={(requirements) => setDraft({ ...draft, skillMix: { ...r, requirements } })} />
+            ) : null}
           </View>
         );
       })}
