@@ -53,7 +53,7 @@ function ResultBody({ roster, run }: { roster: RosterDto; run: RunDetail }) {
           <Figure label="Open seats" value={String(result.openSeats)} />
           <Figure label="Concessions" value={String(result.violations.filter((v) => !v.hard).length)} />
         </View>
-        <Body testID="result-gap-words">{run.parameters.manual ? 'Edited by hand: scored by the independent scorer, no bound.' : gapWords(run.score, run.bound, run.gap, result.optimal)}</Body>
+        <Body testID="result-gap-words">{run.parameters.manual ? 'Edited by hand: scored by the independent scorer, no bound.' : gapWords(run.score, run.bound, run.gap, result.optimal, result.ideal)}</Body>
         {stale ? <Notice kind="caution">The roster changed after this run (shifts, wishes, rules or pins). Solve again to include the changes.</Notice> : null}
       </Panel>
       {error ? <Notice>{`The roster could not be loaded: ${error.message}`}</Notice> : null}

@@ -66,6 +66,8 @@ export interface RunDetail extends RunDto {
   result: {
     feasible: boolean;
     optimal: boolean;
+    /** Score with every rule, wish and pairing at its best (runs since concessions were measured). */
+    ideal?: number | null;
     stopReason: string;
     method: string;
     openSeats: number;

@@ -16,6 +16,8 @@ export interface RunOutcome {
   score: number;
   bound: number;
   gap: number;
+  /** The score with every rule, wish and pairing at its own best (concessions are measured from it); null if not finite. */
+  ideal: number | null;
   feasible: boolean;
   optimal: boolean;
   stopReason: string;
@@ -72,6 +74,7 @@ export async function executeRun(
       score: result.score,
       bound: result.bound,
       gap: result.gap,
+      ideal: finite(solved.ideal.total),
       feasible: result.feasible,
       optimal: result.optimal,
       stopReason: result.stopReason,

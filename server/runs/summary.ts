@@ -10,6 +10,7 @@ export function summariseOutcome(outcome: RunOutcome) {
   return {
     feasible: outcome.feasible,
     optimal: outcome.optimal,
+    ideal: outcome.ideal,
     stopReason: outcome.stopReason,
     method: outcome.method,
     iterations: outcome.iterations,

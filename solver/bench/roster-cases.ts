@@ -17,6 +17,7 @@ import { scoreRoster } from '../roster/score-roster';
 import { greedyAssignment } from '../roster/greedy';
 import { solveRoster } from '../roster/solve-roster';
 import type { MapResult } from '../inference/solve';
+import { rosterIdeal } from '../roster/bound/grid';
 
 export interface RosterBenchBuilt {
   model: Model;
@@ -31,6 +32,8 @@ export interface RosterBenchBuilt {
   solve(o: { timeLimitMs: number; seed: number; clock: () => number }): Promise<MapResult>;
   /** Independent score of a model assignment (scoreRoster on the decoded roster); -Infinity if a hard rule breaks. */
   check(assignment: ArrayLike<number>): { score: number; feasible: boolean; openSeats: number };
+  /** Concessions against the ideal (every factor at its best): given up, the least any roster gives up, share still avoidable. */
+  concessions(r: MapResult): string;
 }
 
 export interface RosterBenchCase {
@@ -64,6 +67,13 @@ function fromRoster(roster: Roster): RosterBenchBuilt {
       if (r.status !== 'solved') throw new Error(`roster case infeasible: ${r.reasons.join('; ')}`);
       return r.result;
     },
+    concessions(r) {
+      const ideal = rosterIdeal(compiled).total;
+      const given = ideal - r.score;
+      const least = Math.max(0, ideal - r.bound);
+      const share = given > 0 ? ((r.bound - r.score) / given) * 100 : 0;
+      return `gives up ${given.toFixed(1)}, no roster fewer than ${least.toFixed(1)} (ideal ${ideal.toFixed(1)}); avoidable ≤ ${share.toFixed(1)} %`;
+    },
     check(assignment) {
       const decoded = decodeAssignment(compiled, assignment);
       const s = scoreRoster(roster, decoded.assignment);
@@ -72,29 +82,30 @@ function fromRoster(roster: Roster): RosterBenchBuilt {
   };
 }
 
-/** Demo, the issue's large case, and fixture rosters of 10 / 50 / 200 people (4 weeks, every rule on). */
+/** Issue 14's rows: the demo, a two-week roster of 12 people, 60 people × 13 weeks and 200 people × 4 weeks (every rule on). */
 export function rosterBenchCases(): RosterBenchCase[] {
   return [
     {
       name: 'roster: Willowmere demo, 18 people × 4 weeks',
-      timeLimitMs: 3_000,
-      target: { maxGap: 0.01, withinMs: 3_000 },
+      timeLimitMs: 10_000,
       highs: { mipS: 120, lpS: 120 },
       build: () => fromRoster(makeWillowmereRoster()),
     },
     {
+      name: 'roster: 12 people × 2 weeks',
+      timeLimitMs: 4_000,
+      highs: { mipS: 60, lpS: 60 },
+      build: () => fromRoster(makeRoster({ people: 12, weeks: 2, seed: 12 })),
+    },
+    {
       name: 'roster: 60 people × 13 weeks',
-      timeLimitMs: 20_000,
-      target: { maxGap: 0.01, withinMs: 20_000 },
-      highs: { mipS: 120, lpS: 300 },
+      timeLimitMs: 60_000,
       build: () => fromRoster(makeRoster({ people: 60, weeks: 13, seed: 1 })),
     },
-    ...[10, 50, 200].map(
-      (people): RosterBenchCase => ({
-        name: `roster-like: ${people} people × 4 weeks`,
-        timeLimitMs: people >= 200 ? 20_000 : 5_000,
-        build: () => fromRoster(makeRoster({ people, weeks: 4, seed: people })),
-      }),
-    ),
+    {
+      name: 'roster: 200 people × 4 weeks',
+      timeLimitMs: 10_000,
+      build: () => fromRoster(makeRoster({ people: 200, weeks: 4, seed: 200 })),
+    },
   ];
 }

@@ -30,6 +30,8 @@ interface Case {
   target?: string;
   /** Extra check after solving (roster cases: independent roster score). */
   check?: (r: MapResult) => string;
+  /** Roster cases: concessions against the ideal, in words. */
+  concessions?: (r: MapResult) => string;
 }
 
 const args = process.argv.slice(2);
@@ -79,6 +81,7 @@ interface RosterBenchCaseLike {
     initial?: ArrayLike<number>;
     solve?: (opts: { timeLimitMs: number; seed: number; clock: () => number }) => Promise<MapResult>;
     check?(assignment: ArrayLike<number>): { score: number; feasible: boolean; openSeats?: number };
+    concessions?(r: MapResult): string;
   };
 }
 
@@ -102,6 +105,7 @@ async function run(): Promise<void> {
         reference: rc.highs && !skipHighs ? 'highs' : undefined,
         highs: rc.highs,
         solve: (o) => get().solve?.(o) ?? solveMap(get().model, { timeLimitMs: o.timeLimitMs, seed: o.seed, clock: o.clock, initial: get().initial }),
+        concessions: (r) => get().concessions?.(r) ?? '',
         check: (r) => {
           const c = get().check?.(r.assignment);
           if (!c) return '';
@@ -155,7 +159,8 @@ async function run(): Promise<void> {
         typeof lp === 'string' ? `LP ${lp}` : lp.status === 'optimal' ? `LP ${fmt(lp.bound)} in ${(lp.timeMs / 1000).toFixed(0)} s` : `LP not solved (${lp.status}) in ${(lp.timeMs / 1000).toFixed(0)} s`;
       ref = `${mipText}; ${lpText} (HiGHS)`;
     }
-    const notes = [`${r.method}`, r.optimal ? 'proven optimal' : r.stopReason, c.target ? `target: ${c.target}` : '', buildMs > 50 ? `build ${buildMs} ms` : '', c.check ? c.check(r) : '']
+    const proven = r.optimal ? r.history.find((p) => p.score > -Infinity && p.bound <= p.score + 1e-9) : undefined;
+    const notes = [`${r.method}`, r.optimal ? `proven best${proven ? ` at ${(proven.timeMs / 1000).toFixed(2)} s` : ''}` : r.stopReason, c.concessions ? c.concessions(r) : '', c.target ? `target: ${c.target}` : '', buildMs > 50 ? `build ${buildMs} ms` : '', c.check ? c.check(r) : '']
       .filter(Boolean)
       .join('; ');
     const rss = `${Math.round(process.resourceUsage().maxRSS / 1024)} MB`;

@@ -1,5 +1,5 @@
 /**
- * `npm run --silent solve -- --roster FILE.json [--time-limit S] [--json] [--export-uai OUT.uai] [--seed N]`
+ * `npm run --silent solve -- --roster FILE.json [--time-limit S] [--json] [--export-uai OUT.uai] [--export-lp OUT.lp] [--seed N]`
  *
  * Reads a roster JSON file (docs/roster-format.md), says why it cannot be feasible if a
  * pre-check finds a reason, else compiles and solves it and prints the roster (a table by
@@ -17,12 +17,13 @@ import { TERM_NAMES, type RosterScore } from './score-roster';
 import { solveRoster } from './solve-roster';
 import { expandCountingForUai } from './uai-expand';
 import { writeUaiWithOffset } from '../io/uai';
+import { rosterLp } from './lp-export';
 
-type Args = { roster: string; timeLimitS: number; json: boolean; exportUai?: string; seed: number };
+type Args = { roster: string; timeLimitS: number; json: boolean; exportUai?: string; exportLp?: string; seed: number };
 
 class UsageError extends Error {}
 
-const USAGE = 'usage: solve --roster FILE.json [--time-limit S] [--json] [--export-uai OUT.uai] [--seed N]';
+const USAGE = 'usage: solve --roster FILE.json [--time-limit S] [--json] [--export-uai OUT.uai] [--export-lp OUT.lp] [--seed N]';
 
 function parseArgs(argv: string[]): Args {
   const out: Partial<Args> = { timeLimitS: 10, json: false, seed: 1 };
@@ -40,6 +41,7 @@ function parseArgs(argv: string[]): Args {
       out.timeLimitS = s;
     } else if (a === '--json') out.json = true;
     else if (a === '--export-uai') out.exportUai = value();
+    else if (a === '--export-lp') out.exportLp = value();
     else if (a === '--seed') {
       const s = Number(value());
       if (!Number.isInteger(s)) throw new UsageError('--seed must be an integer');
@@ -164,6 +166,16 @@ export async function main(argv: string[]): Promise<number> {
     try {
       // a note on stderr keeps --json output on stdout clean
       process.stderr.write(`solve: ${await exportUai(compileRoster(roster), args.exportUai)}\n`);
+    } catch (e) {
+      process.stderr.write(`solve: ${(e as Error).message}\n`);
+      return 2;
+    }
+  }
+  if (args.exportLp) {
+    try {
+      const lp = rosterLp(compileRoster(roster));
+      await writeFile(args.exportLp, lp.text, 'utf8');
+      process.stderr.write(`solve: wrote ${args.exportLp}: MIP with ${lp.columns} columns, ${lp.rows} rows; roster score = objective + ${lp.constant}\n`);
     } catch (e) {
       process.stderr.write(`solve: ${(e as Error).message}\n`);
       return 2;

@@ -44,6 +44,8 @@ interface WindowFactor {
 }
 
 interface PeriodFactor {
+  /** The model factor's id (names its multiplier across runs). */
+  id: string;
   /** Per (day, option): weight of that option. */
   weight: Int32Array[];
   table: Float64Array; // f(t) for t = 0..maxSum
@@ -372,7 +374,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
       const table = new Float64Array(maxSum + 1);
       for (let t = 0; t <= maxSum; t++) table[t] = countingScoreAt(f, t);
       nNu++;
-      return { weight: options.map((os) => Int32Array.from(os, (o) => o.reduce((m, sh) => m + (w.get(sh) ?? 0), 0))), table };
+      return { id: f.id ?? '', weight: options.map((os) => Int32Array.from(os, (o) => o.reduce((m, sh) => m + (w.get(sh) ?? 0), 0))), table };
     });
     // people with the same choices, windows and rest rules share one transition structure
     // (transitions do not depend on μ, ν: only the gains do)
@@ -471,6 +473,43 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
   return { compiled, people, shifts, constant, muIndex, nMu, nNu, lookback };
 }
 
+/** Multipliers of a run, keyed by names that survive recompiling the roster (a warm start for the next run). */
+export interface DualStart {
+  /** `${shiftId}|${personId}` → μ. */
+  mu: Record<string, number>;
+  /** period factor id (`term:detail`) → ν. */
+  nu: Record<string, number>;
+}
+
+/** Name of each μ: the (shift, person) it prices. */
+export function multiplierKeys(S: LagrangianSetup): string[] {
+  const { roster, domains } = S.compiled;
+  const out: string[] = new Array(S.nMu);
+  domains.forEach((d, s) =>
+    d.forEach((p, x) => {
+      const q = S.muIndex[s]![x]!;
+      if (q >= 0) out[q] = `${roster.seats[s]!.shift}|${roster.people[p]!.id}`;
+    }),
+  );
+  return out;
+}
+
+/** Multipliers by name (zeros left out). */
+export function dualOf(S: LagrangianSetup, mu: Float64Array, nu: Float64Array[]): DualStart {
+  const keys = multiplierKeys(S);
+  const out: DualStart = { mu: {}, nu: {} };
+  for (let q = 0; q < S.nMu; q++) if (mu[q] !== 0) out.mu[keys[q]!] = mu[q]!;
+  S.people.forEach((pp, i) => pp.period.forEach((pf, j) => nu[i]![j] !== 0 && (out.nu[pf.id] = nu[i]![j]!)));
+  return out;
+}
+
+/** Named multipliers of an earlier run into this setup's arrays (unknown names start at 0). */
+export function applyDual(S: LagrangianSetup, d: DualStart, mu: Float64Array, nu: Float64Array[]): void {
+  const keys = multiplierKeys(S);
+  for (let q = 0; q < S.nMu; q++) mu[q] = d.mu[keys[q]!] ?? 0;
+  S.people.forEach((pp, i) => pp.period.forEach((pf, j) => (nu[i]![j] = d.nu[pf.id] ?? 0)));
+}
+
 /** Multipliers and step state of a subgradient run; pass it back in to continue. */
 export interface LagrangianState {
   mu: Float64Array;
@@ -479,6 +518,9 @@ export interface LagrangianState {
   best: number;
   /** The people's seats at the best L (for decoding a roster). */
   schedules: number[][];
+  /** Multipliers at the best L (a warm start for a later run: lagrangianDual). */
+  bestMu?: Float64Array;
+  bestNu?: Float64Array[];
   step: number;
   sinceImprove: number;
   iterations: number;
@@ -491,16 +533,43 @@ export function newLagrangianState(S: LagrangianSetup): LagrangianState {
   return { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)), best: Infinity, schedules: [], step: 1, sinceImprove: 0, iterations: 0 };
 }
 
-/** One evaluation of L(μ, ν) with its subgradient (gMu = y − x, gNu = S(y) − t*). */
-export function evaluateLagrangian(S: LagrangianSetup, mu: Float64Array, nu: Float64Array[], gMu: Float64Array, gNu: Float64Array[]): { L: number; schedules: number[][] } {
+/** A shift side solution: the value of every seat of the shift, its own score (no μ) and its μ indices. */
+export interface ShiftColumn {
+  shift: number;
+  values: number[];
+  score: number;
+  mus: number[];
+}
+
+/** A person side solution: the seats taken, the score of the exact (window) part, the sums of the relaxed period factors and the μ indices. */
+export interface PersonColumn {
+  person: number;
+  seats: number[];
+  score: number;
+  sums: number[];
+  mus: number[];
+}
+
+/** Columns collected by evaluateLagrangian (the pricing problems of column generation). */
+export interface Columns {
+  shifts: ShiftColumn[];
+  people: PersonColumn[];
+}
+
+/**
+ * One evaluation of L(μ, ν) with its subgradient (gMu = y − x, gNu = S(y) − t*). With `cols`,
+ * each subproblem's maximiser is also pushed there as a column (shift index / person plan index).
+ */
+export function evaluateLagrangian(S: LagrangianSetup, mu: Float64Array, nu: Float64Array[], gMu: Float64Array, gNu: Float64Array[], cols?: Columns): { L: number; schedules: number[][] } {
   gMu.fill(0);
   let L = S.constant;
-  for (const sp of S.shifts) L += solveShift(S, sp, mu, gMu);
+  S.shifts.forEach((sp, sh) => (L += solveShift(S, sp, mu, gMu, cols ? (values, score, mus) => cols.shifts.push({ shift: sh, values, score, mus }) : undefined)));
   const schedules: number[][] = [];
   S.people.forEach((pp, i) => {
     const r = solvePerson(S, pp, mu, nu[i]!, gMu, gNu[i]!);
     L += r.value;
     schedules.push(r.seats);
+    cols?.people.push({ person: i, seats: r.seats, score: r.fixed, sums: r.sums, mus: r.mus });
   });
   return { L, schedules };
 }
@@ -529,6 +598,10 @@ export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { de
       if (L < st.best - 1e-9 * Math.max(1, Math.abs(st.best))) st.sinceImprove = 0;
       st.best = L;
       st.schedules = schedules;
+      st.bestMu ??= new Float64Array(S.nMu);
+      st.bestNu ??= S.people.map((pp) => new Float64Array(pp.period.length));
+      st.bestMu.set(st.mu);
+      st.nu.forEach((v, i) => st.bestNu![i]!.set(v));
     } else st.sinceImprove++;
     if (st.sinceImprove >= (o.patience ?? PATIENCE)) {
       st.step *= 0.5;
@@ -562,12 +635,14 @@ export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { de
 }
 
 /** Shift side: max over the shift's seats of Σ (unary − μ) + mixed factors; gMu −= chosen. */
-function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Float64Array): number {
+function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Float64Array, emit?: (values: number[], score: number, mus: number[]) => void): number {
   const n = sp.seats.length;
   const muIndex = S.muIndex;
   const domains = S.compiled.domains;
   if (sp.mixed.length === 0) {
     let total = 0;
+    const values: number[] = [], mus: number[] = [];
+    let own = 0;
     for (let i = 0; i < n; i++) {
       const s = sp.seats[i]!;
       let bx = -1, bv = NEG;
@@ -579,8 +654,11 @@ function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Fl
       if (bx < 0) return NEG;
       total += bv;
       const mi = muIndex[s]![bx]!;
-      if (mi >= 0) gMu[mi] -= 1;
+      if (mi >= 0) (gMu[mi] -= 1), mus.push(mi);
+      values.push(bx);
+      own += sp.unary[i]![bx]!;
     }
+    emit?.(values, own, mus);
     return total;
   }
   // DP over seats; state code = sums of the mixed factors (capped, mixed radix) + mask of tracked keys used
@@ -649,13 +727,41 @@ function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Fl
   }
   if (bestV === NEG) return NEG;
   let code = bestCode;
+  const values: number[] = new Array(n), mus: number[] = [];
+  let own = bestV;
   for (let i = n - 1; i >= 0; i--) {
     const x = backX[i]![code]!;
     const mi = muIndex[sp.seats[i]!]![x]!;
-    if (mi >= 0) gMu[mi] -= 1;
+    if (mi >= 0) (gMu[mi] -= 1), (own += mu[mi]!), mus.push(mi);
+    values[i] = x;
     code = backPrev[i]![code]!;
   }
+  emit?.(values, own, mus);
   return bestV;
+}
+
+/**
+ * The shift side's column for given seat values of shift `sh` (e.g. a known roster's): its own
+ * score (unaries, majorants, the mixed factors kept in the DP) and μ indices; null when a value
+ * is one the shift side excludes (a hard unary).
+ */
+export function shiftColumnOf(S: LagrangianSetup, sh: number, x: ArrayLike<number>): ShiftColumn | null {
+  const sp = S.shifts[sh]!;
+  let score = 0;
+  const values: number[] = [], mus: number[] = [];
+  const sums = sp.mixed.map(() => 0);
+  for (let i = 0; i < sp.seats.length; i++) {
+    const s = sp.seats[i]!;
+    const v = x[s]!;
+    if (!sp.values[i]!.includes(v)) return null;
+    values.push(v);
+    score += sp.unary[i]![v]!;
+    const q = S.muIndex[s]![v]!;
+    if (q >= 0) mus.push(q);
+    sp.mixed.forEach((f, j) => (sums[j] += f.weights[i]!.get(v) ?? 0));
+  }
+  sp.mixed.forEach((f, j) => (score += f.table[Math.min(sums[j]!, f.cap)]!));
+  return { shift: sh, values, score, mus };
 }
 
 /** Largest sum of period factor j over the person's schedules that keep every hard rule. */
@@ -677,7 +783,7 @@ function maxReachable(pp: PersonPlan, j: number): number {
 }
 
 /** Person side: best schedule by DP over days; gMu += chosen seats; gNu = S(y) − t*. */
-function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: Float64Array, gMu: Float64Array, gNu: Float64Array): { value: number; seats: number[] } {
+function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: Float64Array, gMu: Float64Array, gNu: Float64Array): { value: number; seats: number[]; fixed: number; sums: number[]; mus: number[] } {
   const muIndex = S.muIndex;
   // conjugate constants: max_t f(t) − ν t, and its argmax
   let value = 0;
@@ -743,19 +849,22 @@ function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: F
   if (days === 0) bv = 0;
   value += bv;
   const seats: number[] = [];
-  const sums = new Float64Array(pp.period.length);
+  const mus: number[] = [];
+  const sums = new Array<number>(pp.period.length).fill(0);
+  let fixed = 0;
   for (let d = days - 1; d >= 0 && bs >= 0; d--) {
     const k = back[d]![bs]!;
     const oi = pp.opt[d]![k]!;
+    fixed += pp.fixed[d]![k]!;
     for (const seat of bestSeat[d]![oi]!) {
       seats.push(seat);
       const x = S.compiled.domains[seat]!.indexOf(pp.p);
       const mi = muIndex[seat]![x]!;
-      if (mi >= 0) gMu[mi] += 1;
+      if (mi >= 0) (gMu[mi] += 1), mus.push(mi);
     }
     pp.period.forEach((pf, j) => (sums[j] += pf.weight[d]![oi]!));
     bs = pp.from[d]![k]!;
   }
   pp.period.forEach((_, j) => (gNu[j] = sums[j]! - tStar[j]!));
-  return { value, seats };
+  return { value, seats, fixed, sums, mus };
 }

@@ -19,4 +19,12 @@ describe('gapWords: how far from the best possible roster, in words', () => {
     expect(gapWords(null, null, null)).toBe('No roster that keeps every hard rule has been found yet.');
     expect(gapWords(5, null, null)).toBe('Score found; no bound on the best possible roster yet.');
   });
+
+  it('counts concessions against the ideal when the run carries it', () => {
+    // ideal 264, score 16, bound 20 → gives up 248, at least 244; (20 − 16) / 248 = 1.6 % avoidable
+    expect(gapWords(16, 20, 0.25, false, 264)).toBe('This roster gives up 248 points; no roster can give up fewer than 244. At most 1.6% of what it gives up could still be avoided.');
+    expect(gapWords(-36.5, -36.5, 0, true, 30)).toBe('Proven the best possible roster for these rules and wishes: it gives up 67 points, and no roster can give up fewer.');
+    // runs stored before the ideal was kept fall back to the old words
+    expect(gapWords(13, 58.1, (58.1 - 13) / 13, false, null)).toMatch(/^At most 45 points below/);
+  });
 });
