@@ -4,6 +4,8 @@ import type { Roster as RosterJson, ShiftPatternInput } from '../../shared/roste
 import { PairingRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
 import { rosterIds } from './ids';
 import { PersonTermRow } from '../terms/models';
+import { AbsenceRow } from '../absences/models';
+import { addLocalDays } from '../../shared/roster/time';
 
 /**
  * Writes a roster in the JSON format into a workspace: skills and people are matched by name
@@ -100,6 +102,26 @@ export async function importRosterJson(
     p.terms.map(({ from, ...term }) => ({ workspaceId, personId: personIds.get(p.id)!, term, effectiveFrom: from ?? roster.period.start })),
   );
   if (terms.length) await PersonTermRow.bulkCreate(terms, { transaction });
+  // Absences in a roster file are approved time away: whole days when they run 00:00 to 00:00.
+  const absences = roster.absences
+    .filter((a) => created.has(a.person))
+    .map((a) => {
+      const startTime = a.start.slice(11, 16);
+      const endTime = a.end.slice(11, 16);
+      const endDate = endTime === '00:00' ? addLocalDays(a.end.slice(0, 10), -1) : a.end.slice(0, 10);
+      return {
+        workspaceId,
+        personId: personIds.get(a.person)!,
+        kind: a.kind,
+        startDate: a.start.slice(0, 10),
+        endDate,
+        startTime: startTime === '00:00' ? null : startTime,
+        endTime: endTime === '00:00' ? null : endTime,
+        creditHours: a.creditHours,
+        status: 'approved' as const,
+      };
+    });
+  if (absences.length) await AbsenceRow.bulkCreate(absences, { transaction });
   for (const p of roster.pairings) {
     const [a, b] = [personIds.get(p.a)!, personIds.get(p.b)!].sort((x, y) => x - y);
     const exists = await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b }, transaction });
