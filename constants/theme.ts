@@ -62,3 +62,7 @@ export const wishMarks = {
 
 /** Status colours for absences: a request waits (ochre), approved is settled (green), declined is struck (grey). */
 export const absenceTones = { requested: 'warn', approved: 'good', declined: 'plain' } as const;
+
+
+/** The roster grid's marks; in a file of their own so the server's PDF can read them without the font files. */
+export { gridColors } from './grid-colors';

@@ -15,6 +15,7 @@ import { Choices, Loadable, Panel, Pill } from './parts';
 import { gapWords, longDayWords, points, timeOf } from './format';
 import { useRosterView, type SeatView } from './use-roster-view';
 import { SeatPanel } from './seat-panel';
+import { RosterGrid } from './grid/roster-grid';
 
 export function ResultSection({ roster, runId, runs, onPickRun }: { roster: RosterDto; runId: number | null; runs: RunDto[]; onPickRun: (id: number) => void }) {
   const finished = runs.filter((r) => (r.status === 'done' || r.status === 'cancelled') && r.score !== null).slice(0, 6);
@@ -24,21 +25,22 @@ export function ResultSection({ roster, runId, runs, onPickRun }: { roster: Rost
       {finished.length > 1 ? (
         <Choices label="Run shown" options={finished.map((r) => ({ value: String(r.id), label: `Run ${r.id}${r.parameters.manual ? ' (edited)' : ''}${roster.publishedRunId === r.id ? ' · published' : ''}` }))} value={[String(runId)]} onChange={(v) => onPickRun(Number(v[0]))} />
       ) : null}
-      <RunResult roster={roster} runId={runId} />
+      <RunResult roster={roster} runId={runId} onPickRun={onPickRun} />
     </View>
   );
 }
 
-function RunResult({ roster, runId }: { roster: RosterDto; runId: number }) {
+function RunResult({ roster, runId, onPickRun }: { roster: RosterDto; runId: number; onPickRun: (id: number) => void }) {
   const run = useRun(runId);
   return (
     <Loadable query={run} label="The result">
-      {(r) => (r.status === 'queued' || r.status === 'running' ? <Notice kind="info">This run is still solving; see Solve for its progress.</Notice> : r.result ? <ResultBody roster={roster} run={r} /> : <Notice>{r.error ?? 'This run has no roster.'}</Notice>)}
+      {(r) => (r.status === 'queued' || r.status === 'running' ? <Notice kind="info">This run is still solving; see Solve for its progress.</Notice> : r.result ? <ResultBody roster={roster} run={r} onPickRun={onPickRun} /> : <Notice>{r.error ?? 'This run has no roster.'}</Notice>)}
     </Loadable>
   );
 }
 
-function ResultBody({ roster, run }: { roster: RosterDto; run: RunDetail }) {
+function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDetail; onPickRun: (id: number) => void }) {
+  const [shape, setShape] = useState<'grid' | 'days'>('grid');
   const assignment = useMemo(() => new Map(run.assignments.map((a) => [a.seatId, a.personId])), [run.assignments]);
   const { view, error } = useRosterView(roster.id, assignment);
   const [day, setDay] = useState<string>(roster.periodStart);
@@ -57,7 +59,9 @@ function ResultBody({ roster, run }: { roster: RosterDto; run: RunDetail }) {
         {stale ? <Notice kind="caution">The roster changed after this run (shifts, wishes, rules or pins). Solve again to include the changes.</Notice> : null}
       </Panel>
       {error ? <Notice>{`The roster could not be loaded: ${error.message}`}</Notice> : null}
-      {view ? (
+      <Choices label="Show the roster as" options={[{ value: 'grid', label: 'Grid' }, { value: 'days', label: 'Month and days' }]} value={[shape]} onChange={(v) => setShape(v[0] as 'grid' | 'days')} testID="result-shape" />
+      {shape === 'grid' ? <RosterGrid roster={roster} run={run} onSaved={onPickRun} /> : null}
+      {shape === 'days' && view ? (
         <>
           <Panel title="Month" lead="Each day: green when every seat is filled, ochre when a seat stays open.">
             <Calendar
@@ -90,7 +94,7 @@ function ResultBody({ roster, run }: { roster: RosterDto; run: RunDetail }) {
             ))}
           </Panel>
         </>
-      ) : !error ? (
+      ) : shape === 'days' && !error ? (
         <Body muted>Loading the roster…</Body>
       ) : null}
       <Concessions run={run} />

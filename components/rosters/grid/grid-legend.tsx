@@ -1,0 +1,60 @@
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, gridColors, radius, space } from '@/constants/theme';
+import { ABSENCE_KIND_WORDS } from '@/shared/api/absences';
+import { ABSENCE_MARKS, WISH_MARKS } from '@/shared/roster/grid-model';
+
+const BANDS = [
+  { key: 'morning', words: 'starts 04:00–10:59' },
+  { key: 'afternoon', words: 'starts 11:00–15:59' },
+  { key: 'evening', words: 'starts 16:00–19:59' },
+  { key: 'night', words: 'night shift' },
+] as const;
+
+/** What the grid's marks mean; the print sheet and the PDF use the same words. */
+export function GridLegend({ compact }: { compact?: boolean }) {
+  return (
+    <View style={[styles.legend, compact && { gap: space.xs }]} role="list" aria-label="What the marks mean" testID="grid-legend">
+      {BANDS.map((b) => (
+        <View key={b.key} style={styles.item} role="listitem">
+          <View style={[styles.swatch, { backgroundColor: gridColors[b.key].fill }]}>
+            <Text style={[styles.swatchText, { color: gridColors[b.key].ink }]}>Ab</Text>
+          </View>
+          <Text style={styles.words}>{`${b.words} (first letters of the shift's name)`}</Text>
+        </View>
+      ))}
+      <View style={styles.item} role="listitem">
+        <View style={[styles.swatch, { backgroundColor: gridColors.away.fill }]}>
+          <Text style={[styles.swatchText, { color: gridColors.away.ink }]}>Lv</Text>
+        </View>
+        <Text style={styles.words}>{Object.entries(ABSENCE_MARKS).map(([k, m]) => `${m} ${ABSENCE_KIND_WORDS[k as keyof typeof ABSENCE_KIND_WORDS].toLowerCase()}`).join(', ')}</Text>
+      </View>
+      <View style={styles.item} role="listitem">
+        <Text style={[styles.glyph, { color: gridColors.honoured }]}>{`${WISH_MARKS.prefer} ${WISH_MARKS.avoid} ${WISH_MARKS.cannot}`}</Text>
+        <Text style={styles.words}>wish to work, to be spared, cannot: green when honoured,</Text>
+        <Text style={[styles.glyph, { color: gridColors.missed, textDecorationLine: 'underline' }]}>{WISH_MARKS.prefer}</Text>
+        <Text style={styles.words}>ochre and underlined when not</Text>
+      </View>
+      <View style={styles.item} role="listitem">
+        <View style={[styles.swatch, styles.breach]}>
+          <Text style={[styles.swatchText, { color: gridColors.breach }]}>!</Text>
+        </View>
+        <Text style={styles.words}>a rule is broken or given up here (tap or hover for the reason)</Text>
+      </View>
+      <View style={styles.item} role="listitem">
+        <View style={[styles.pinDot]} />
+        <Text style={styles.words}>pinned seat</Text>
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  legend: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, columnGap: space.lg },
+  item: { flexDirection: 'row', alignItems: 'center', gap: space.xs, flexWrap: 'wrap' },
+  swatch: { minWidth: 26, height: 20, borderRadius: radius.sm, alignItems: 'center', justifyContent: 'center', paddingHorizontal: 3 },
+  swatchText: { fontFamily: fonts.bodyBold, fontSize: 12 },
+  breach: { borderWidth: 2, borderColor: gridColors.breach, backgroundColor: colors.white },
+  glyph: { fontFamily: fonts.bodyBold, fontSize: 15 },
+  words: { fontFamily: fonts.body, fontSize: 13, color: colors.inkSoft },
+  pinDot: { width: 8, height: 8, borderRadius: 4, backgroundColor: gridColors.pinned },
+});

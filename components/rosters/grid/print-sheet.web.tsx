@@ -1,0 +1,102 @@
+import { useEffect, useState, type ReactNode } from 'react';
+import { StyleSheet, Text, View } from 'react-native';
+import { colors, fonts, space } from '@/constants/theme';
+import { WORKING_TIME_CAUTION } from '@/shared/caution';
+import type { RosterDto, RunDetail } from '@/hooks/api/roster-types';
+import { Button } from '@/components/ui/button';
+import { DownloadLink } from '../download-link';
+import { Choices } from '../parts';
+import { periodWords } from '../format';
+import type { GridModel } from '@/shared/roster/grid-model';
+import { GridTable, PRINT_SIZES } from './grid-table';
+import { GridLegend } from './grid-legend';
+
+// react-dom ships without types here; only its portal is needed, to print the sheet outside the app's layout boxes.
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const { createPortal } = require('react-dom') as { createPortal: (node: ReactNode, container: Element) => ReactNode };
+
+/**
+ * On screen the sheet is not shown; in print only the sheet is (everything else hidden), A4
+ * landscape, a page per week or fortnight, each with the legend and the working-time caution.
+ */
+const PRINT_CSS = `
+@media screen { #rotaloom-print { display: none; } }
+@media print {
+  @page { size: A4 landscape; margin: 8mm; }
+  body * { visibility: hidden; }
+  #rotaloom-print, #rotaloom-print * { visibility: visible; }
+  #rotaloom-print { position: absolute; left: 0; top: 0; width: 100%; }
+  #rotaloom-print .rotaloom-page { break-after: page; page-break-after: always; }
+  #rotaloom-print .rotaloom-page:last-child { break-after: auto; page-break-after: auto; }
+  * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
+}`;
+
+function usePrintStyles() {
+  useEffect(() => {
+    if (document.getElementById('rotaloom-print-css')) return;
+    const el = document.createElement('style');
+    el.id = 'rotaloom-print-css';
+    el.textContent = PRINT_CSS;
+    document.head.appendChild(el);
+  }, []);
+}
+
+export function PrintButton({ roster, run, model, skillName }: { roster: RosterDto; run: RunDetail; model: GridModel; skillName: (id: number | null) => string }) {
+  usePrintStyles();
+  const [span, setSpan] = useState<'7' | '14'>('7');
+  const [sheet, setSheet] = useState(false);
+  useEffect(() => {
+    if (!sheet) return;
+    // Print once the sheet is in the document; drop it again when the dialog closes.
+    const done = () => setSheet(false);
+    window.addEventListener('afterprint', done);
+    const t = setTimeout(() => window.print(), 50);
+    return () => {
+      clearTimeout(t);
+      window.removeEventListener('afterprint', done);
+    };
+  }, [sheet]);
+  return (
+    <View style={styles.actions}>
+      <Choices label="Print pages of" options={[{ value: '7', label: 'A week' }, { value: '14', label: 'Two weeks' }]} value={[span]} onChange={(v) => setSpan(v[0] as '7' | '14')} testID="grid-print-span" />
+      <Button kind="quiet" label="Print" onPress={() => setSheet(true)} testID="grid-print" />
+      <DownloadLink href={`/api/rosters/${roster.id}/roster.pdf?runId=${run.id}&days=${span}`} filename={`${roster.name}.pdf`} label="PDF" a11yLabel="Download the roster grid as a PDF" testID="grid-pdf" />
+      {sheet ? createPortal(<PrintSheet roster={roster} run={run} model={model} skillName={skillName} span={Number(span)} />, document.body) : null}
+    </View>
+  );
+}
+
+export function PrintSheet({ roster, run, model, skillName, span }: { roster: RosterDto; run: RunDetail; model: GridModel; skillName: (id: number | null) => string; span: number }) {
+  const pages: string[][] = [];
+  for (let i = 0; i < model.days.length; i += span) pages.push(model.days.slice(i, i + span));
+  const rows = [...model.rows].filter((r) => r.hours > 0 || [...r.cells.values()].some((c) => c.seats.length || c.absence)).sort((a, b) => a.person.name.localeCompare(b.person.name));
+  const sizes = span > 7 ? { ...PRINT_SIZES, day: 52, name: 110 } : PRINT_SIZES;
+  return (
+    <View nativeID="rotaloom-print" testID="print-sheet">
+      {pages.map((days, i) => (
+        <View key={i} style={styles.page}>
+          {/* react-native-web has no className prop; PageClass sets the page-break class through a ref. */}
+          <PageClass />
+          <Text style={styles.title}>{`${roster.name} · ${periodWords(days[0], days[days.length - 1])}`}</Text>
+          <Text style={styles.sub}>{`Run ${run.id}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
+          <GridTable model={model} days={days} rows={rows} sizes={sizes} skillName={skillName} print />
+          <GridLegend compact />
+          <Text style={styles.caution}>{WORKING_TIME_CAUTION}</Text>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+/** Marks its parent as a printed page (break after it). */
+function PageClass() {
+  return <View style={{ display: 'none' }} ref={(el) => { const parent = (el as unknown as HTMLElement | null)?.parentElement; if (parent) parent.classList.add('rotaloom-page'); }} />;
+}
+
+const styles = StyleSheet.create({
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
+  page: { padding: space.sm, gap: space.sm, backgroundColor: colors.white },
+  title: { fontFamily: fonts.heading, fontSize: 18, color: colors.ink },
+  sub: { fontFamily: fonts.body, fontSize: 12, color: colors.inkSoft },
+  caution: { fontFamily: fonts.body, fontSize: 10, color: colors.ink, borderLeftWidth: 3, borderLeftColor: colors.thread, paddingLeft: space.sm },
+});
