@@ -166,6 +166,8 @@ async function tightenWithLagrangian(
         result.method = `${result.method}+column-generation`;
         if (done()) (result.optimal = true), (result.stopReason = 'gap');
         return Number.isFinite(cg.bound) ? cg.dual() : undefined;
+      } catch {
+        // HiGHS failed on the master: the bounds reported so far stay valid; the subgradient takes over
       } finally {
         cg.dispose();
       }

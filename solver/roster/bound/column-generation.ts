@@ -233,6 +233,8 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
 
   const solveMaster = () => {
     m.run();
+    // a master HiGHS could not solve gives no duals: stop (every bound so far stays valid)
+    if (m.getModelStatus() !== highs.constants.modelStatus.optimal) throw new Error(`column generation: master LP status ${m.getModelStatus()}`);
     const sol = m.getSolution();
     masterValue = m.getObjectiveValue() + S.constant;
     const y = sol.rowDual;
@@ -305,7 +307,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
       return dualOf(S, best.mu, best.nu);
     },
     lpRoster() {
-      if (masterValue === -Infinity) return null;
+      if (masterValue === -Infinity || m.getModelStatus() !== highs.constants.modelStatus.optimal) return null;
       const v = m.getSolution().colValue;
       const x = new Int32Array(domains.length).fill(-1);
       const w = new Float64Array(nSh).fill(-1);
