@@ -24,6 +24,8 @@ import { billingRouter } from './billing/router';
 import { feedsRouter, staffRouter } from './staff/router';
 import { runWorkflowRouters } from './runs/workflow-router';
 import { publishRouter } from './rosters/publish-router';
+import { rosterPdfRouter } from './rosters/pdf';
+import { publishPreviewRouter } from './rosters/mail-preview';
 import { absenceCoverRouter, absencesRouter } from './absences/router';
 import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
@@ -77,7 +79,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/people', peopleRouter(), termsRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
   const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter());
+  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter());
   api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter());

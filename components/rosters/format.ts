@@ -46,5 +46,8 @@ export const longDayWords = (s: string) => format(localDate(s.slice(0, 10)), 'EE
 export const timeOf = (local: string) => local.slice(11, 16);
 export const periodWords = (start: string, end: string) => `${dayWords(start)} – ${dayWords(end)} ${end.slice(0, 4)}`;
 
+/** A run as people name it: its number within the roster. */
+export const runName = (r: { id: number; number?: number }) => `Run ${r.number ?? r.id}`;
+
 /** Roster JSON ids (p12, st99) back to database ids. */
 export const dbId = (prefixed: string) => Number(prefixed.replace(/^[a-z]+/, ''));

@@ -9,7 +9,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
 import { Loadable, Panel } from './parts';
-import { dbId, gapWords, points } from './format';
+import { dbId, gapWords, points, runName } from './format';
 import { DownloadLink } from './download-link';
 
 /** Freeze the roster on one run, mail everyone their shifts, and hand out CSV and iCalendar files. */
@@ -27,7 +27,7 @@ export function PublishSection({ roster, runId }: { roster: RosterDto; runId: nu
     <View style={{ gap: space.lg }}>
       <Loadable query={run} label="The run">
         {(r) => (
-          <Panel title={roster.status === 'published' ? `Published: run ${r.id}` : `Publish run ${r.id}`} lead={roster.status === 'published' ? `Published ${roster.publishedAt ? new Date(roster.publishedAt).toLocaleString() : ''}. Staff see their shifts; the roster is frozen.` : 'Publishing freezes the roster on this run and e-mails every person on it their own shifts.'} testID="publish-panel">
+          <Panel title={roster.status === 'published' ? `Published: ${runName(r).toLowerCase()}` : `Publish ${runName(r).toLowerCase()}`} lead={roster.status === 'published' ? `Published ${roster.publishedAt ? new Date(roster.publishedAt).toLocaleString() : ''}. Staff see their shifts; the roster is frozen.` : 'Publishing freezes the roster on this run and e-mails every person on it their own shifts.'} testID="publish-panel">
             <Body>{`${points(r.score)} points. ${r.parameters.manual ? 'Edited by hand.' : gapWords(r.score, r.bound, r.gap, r.result?.optimal)}`}</Body>
             {r.result && r.result.openSeats > 0 ? <Notice kind="caution">{`${r.result.openSeats} seat${r.result.openSeats === 1 ? '' : 's'} stay open in this roster.`}</Notice> : null}
             <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>

@@ -12,7 +12,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel, Pill } from './parts';
-import { gapWords, longDayWords, points, timeOf } from './format';
+import { gapWords, longDayWords, points, runName, timeOf } from './format';
 import { useRosterView, type SeatView } from './use-roster-view';
 import { SeatPanel } from './seat-panel';
 import { RosterGrid } from './grid/roster-grid';
@@ -23,7 +23,7 @@ export function ResultSection({ roster, runId, runs, onPickRun }: { roster: Rost
   return (
     <View style={{ gap: space.lg }}>
       {finished.length > 1 ? (
-        <Choices label="Run shown" options={finished.map((r) => ({ value: String(r.id), label: `Run ${r.id}${r.parameters.manual ? ' (edited)' : ''}${roster.publishedRunId === r.id ? ' · published' : ''}` }))} value={[String(runId)]} onChange={(v) => onPickRun(Number(v[0]))} />
+        <Choices label="Run shown" options={finished.map((r) => ({ value: String(r.id), label: `${runName(r)}${r.parameters.manual ? ' (edited)' : ''}${roster.publishedRunId === r.id ? ' · published' : ''}` }))} value={[String(runId)]} onChange={(v) => onPickRun(Number(v[0]))} />
       ) : null}
       <RunResult roster={roster} runId={runId} onPickRun={onPickRun} />
     </View>
@@ -46,10 +46,13 @@ function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDet
   const [day, setDay] = useState<string>(roster.periodStart);
   const [seat, setSeat] = useState<number | null>(null);
   const result = run.result!;
-  const stale = run.rosterVersion !== roster.version;
+  // Publishing (and reopening) moves the roster's version on without changing what was solved, so a
+  // published roster never reads as changed; it is frozen and cannot be solved again until reopened.
+  const published = roster.status === 'published';
+  const stale = !published && run.rosterVersion !== roster.version;
   return (
     <View style={{ gap: space.lg }}>
-      <Panel title={run.parameters.manual ? `Run ${run.id} (hand-edited)` : `Run ${run.id}`} testID="result-summary">
+      <Panel title={run.parameters.manual ? `${runName(run)} (hand-edited)` : runName(run)} testID="result-summary">
         <View style={styles.figures}>
           <Figure label="Score" value={`${points(run.score)} points`} />
           <Figure label="Open seats" value={String(result.openSeats)} />
@@ -57,6 +60,7 @@ function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDet
         </View>
         <Body testID="result-gap-words">{run.parameters.manual ? 'Edited by hand: scored by the independent scorer, no bound.' : gapWords(run.score, run.bound, run.gap, result.optimal, result.ideal)}</Body>
         {stale ? <Notice kind="caution">The roster changed after this run (shifts, wishes, rules or pins). Solve again to include the changes.</Notice> : null}
+        {published && roster.publishedRunId !== run.id ? <Notice kind="info">{`This is not the published run. The roster is published and frozen: reopen it (Publish) to solve again or publish another run.`}</Notice> : null}
       </Panel>
       {error ? <Notice>{`The roster could not be loaded: ${error.message}`}</Notice> : null}
       <Choices label="Show the roster as" options={[{ value: 'grid', label: 'Grid' }, { value: 'days', label: 'Month and days' }]} value={[shape]} onChange={(v) => setShape(v[0] as 'grid' | 'days')} testID="result-shape" />
@@ -86,7 +90,7 @@ function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDet
                 <Body bold>{`${shift.label} · ${timeOf(shift.startsLocal)}–${timeOf(shift.endsLocal)}`}</Body>
                 <View style={styles.seats}>
                   {view.seatsOf(shift.id).map((s) => (
-                    <SeatChip key={s.seatId} seat={s} name={view.personName(s.personId)} on={seat === s.seatId} onPress={() => setSeat(seat === s.seatId ? null : s.seatId)} />
+                    <SeatChip key={s.seatId} seat={s} name={view.personName(s.personId)} pinnedName={s.pinned ? view.personName(s.pinned.personId) : null} on={seat === s.seatId} onPress={() => setSeat(seat === s.seatId ? null : s.seatId)} />
                   ))}
                 </View>
                 {view.seatsOf(shift.id).some((s) => s.seatId === seat) && seat !== null ? <SeatPanel roster={roster} runId={run.id} seatId={seat} /> : null}
@@ -114,18 +118,20 @@ function markDays(byDay: Map<string, Array<{ id: number }>>, seats: SeatView[], 
   return marked;
 }
 
-function SeatChip({ seat, name, on, onPress }: { seat: SeatView; name: string; on: boolean; onPress: () => void }) {
+function SeatChip({ seat, name, pinnedName, on, onPress }: { seat: SeatView; name: string; pinnedName: string | null; on: boolean; onPress: () => void }) {
   const open = seat.personId === null;
+  // A pin to someone else takes effect at the next run: say who holds the seat now and who it is pinned to.
+  const pinWords = !seat.pinned ? '' : seat.pinned.personId === seat.personId ? ' · pinned' : ` · pinned to ${pinnedName} from the next run`;
   return (
     <Pressable
       role="button"
       aria-expanded={on}
-      accessibilityLabel={`Seat for ${seat.skillName} on the ${seat.shift.label} shift: ${name}${seat.pinned ? ', pinned' : ''}`}
+      accessibilityLabel={`Seat for ${seat.skillName} on the ${seat.shift.label} shift: ${name}${pinWords.replace(' · ', ', ')}`}
       onPress={onPress}
       style={[styles.chip, open && styles.chipOpen, on && styles.chipOn]}
       testID={`seat-${seat.seatId}`}
     >
-      <Body style={[styles.chipText, on && { color: colors.white }]}>{`${seat.pinned ? 'Pinned: ' : ''}${name}`}</Body>
+      <Body style={[styles.chipText, on && { color: colors.white }]}>{`${name}${pinWords}`}</Body>
       <Body style={[styles.chipSkill, on && { color: colors.loomSoft }]}>{seat.skillName}</Body>
     </Pressable>
   );
@@ -167,7 +173,7 @@ function Concessions({ run }: { run: RunDetail }) {
                 </View>
               ))}
               {price.error ? <Notice>{price.error.message}</Notice> : null}
-              {items.length > shown ? <Button kind="quiet" label={`Show ${Math.min(20, items.length - shown)} more of ${items.length - shown}`} onPress={() => setShown(shown + 20)} /> : null}
+              {items.length > shown ? <Button kind="quiet" label={items.length - shown <= 20 ? `Show the other ${items.length - shown}` : `Show 20 more (${items.length - shown} not shown)`} onPress={() => setShown(shown + 20)} /> : null}
             </View>
           )
         }

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { Link, useLocalSearchParams } from 'expo-router';
-import { Pressable, ScrollView, StyleSheet, Text, View } from 'react-native';
+import { Pressable, StyleSheet, Text, View } from 'react-native';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { useRoster } from '@/hooks/api/get-roster';
 import { useRuns } from '@/hooks/api/get-runs';
@@ -55,13 +55,14 @@ export function RosterScreen() {
             <Pill tone={r.status === 'published' ? 'good' : r.status === 'solved' ? 'warn' : 'plain'}>{r.status}</Pill>
           </View>
           {r.status === 'published' ? <Notice kind="info">Published and frozen: shifts, rules, pins and runs are locked until you reopen it (Publish).</Notice> : null}
-          <ScrollView horizontal showsHorizontalScrollIndicator={false} contentContainerStyle={styles.tabs} role="tablist" aria-label="Roster sections">
+          {/* Every tab in view: they wrap to a second row on a phone instead of scrolling off the edge. */}
+          <View style={styles.tabs} role="tablist" aria-label="Roster sections" testID="roster-tabs">
             {SECTIONS.map((s) => (
               <Pressable key={s.key} role="tab" aria-selected={section === s.key} onPress={() => setSection(s.key)} style={[styles.tab, section === s.key && styles.tabOn]} testID={`section-${s.key}`}>
                 <Text style={[styles.tabText, section === s.key && styles.tabTextOn]}>{s.label}</Text>
               </Pressable>
             ))}
-          </ScrollView>
+          </View>
           <View role="tabpanel">
             {section === 'setup' ? <SetupSection roster={r} /> : null}
             {section === 'rules' ? <RulesSection roster={r} /> : null}
@@ -82,8 +83,8 @@ const styles = StyleSheet.create({
   back: { color: colors.loom, fontFamily: fonts.bodyBold, fontSize: 15 },
   head: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },
   title: { fontSize: 28, lineHeight: 34 },
-  tabs: { gap: space.xs, paddingVertical: 2 },
-  tab: { minHeight: 44, paddingHorizontal: space.lg, borderRadius: radius.md, alignItems: 'center', justifyContent: 'center', backgroundColor: colors.card, borderWidth: 1, borderColor: colors.line },
+  tabs: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, paddingVertical: 2 },
+  tab: { flexGrow: 1, flexBasis: 100, minHeight: 44, paddingHorizontal: space.lg, borderRadius: radius.md, alignItems: 'center', justifyContent: 'center', backgroundColor: colors.card, borderWidth: 1, borderColor: colors.line },
   tabOn: { backgroundColor: colors.loom, borderColor: colors.loom },
   tabText: { fontFamily: fonts.body, fontSize: 15, color: colors.ink },
   tabTextOn: { color: colors.white, fontFamily: fonts.bodyBold },

@@ -14,7 +14,7 @@ import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-lim
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel, Pill } from './parts';
-import { gapWords, points } from './format';
+import { gapWords, points, runName } from './format';
 
 const LIMITS = [
   { value: '5', label: '5 s' },
@@ -72,8 +72,8 @@ function RunLine({ run, onPress }: { run: RunDto; onPress: () => void }) {
   const tone = run.status === 'done' ? 'good' : run.status === 'failed' ? 'bad' : 'warn';
   const what = run.parameters.manual ? 'hand-edited' : `${run.parameters.timeLimitSeconds} s`;
   return (
-    <Pressable role="button" onPress={onPress} accessibilityLabel={`Run ${run.id}, ${run.status}`} style={styles.runLine}>
-      <Body style={{ flex: 1 }}>{`Run ${run.id} · ${what} · ${new Date(run.createdAt).toLocaleString()}`}</Body>
+    <Pressable role="button" onPress={onPress} accessibilityLabel={`${runName(run)}, ${run.status}`} style={styles.runLine}>
+      <Body style={{ flex: 1 }}>{`${runName(run)} · ${what} · ${new Date(run.createdAt).toLocaleString()}`}</Body>
       <Body muted>{run.score !== null ? `${points(run.score)} points` : ''}</Body>
       <Pill tone={tone}>{run.status}</Pill>
     </Pressable>
@@ -96,6 +96,7 @@ function RunProgress({ runId, onFinished, onShowResult }: { runId: number; onFin
   return (
     <Loadable query={run} label="The run">
       {(r) => {
+        // One time on the card: the search's own clock (the run's wall time also counts queueing and checks).
         const elapsed = r.progress?.elapsedMs ?? (r.timeMs ?? 0);
         const limitMs = r.parameters.timeLimitSeconds * 1000;
         const fraction = r.status === 'running' ? Math.min(1, elapsed / Math.max(1, limitMs)) : r.status === 'queued' ? 0 : 1;
@@ -103,7 +104,7 @@ function RunProgress({ runId, onFinished, onShowResult }: { runId: number; onFin
         const bound = r.bound ?? r.progress?.bound ?? null;
         const gap = r.gap ?? r.progress?.gap ?? null;
         return (
-          <Panel title={`Run ${r.id}`} lead={statusWords(r)} testID="run-progress">
+          <Panel title={runName(r)} lead={statusWords(r)} testID="run-progress">
             <View
               role="progressbar"
               aria-label="Time used of the limit"
@@ -114,12 +115,16 @@ function RunProgress({ runId, onFinished, onShowResult }: { runId: number; onFin
             >
               <View style={[styles.barFill, { width: `${Math.round(fraction * 100)}%` }, r.status === 'failed' && { backgroundColor: colors.danger }]} />
             </View>
+            {r.status === 'queued' ? (
+              <Body testID="run-queued">Queued: no solver is free yet. The run starts on its own as soon as one is; nothing is lost if you leave this page.</Body>
+            ) : (
             <View style={styles.figures}>
               <Figure label="Score" value={points(score)} testID="run-score" />
               <Figure label="Bound" value={points(bound)} />
               <Figure label="Gap" value={gap === null ? '—' : `${(gap * 100).toFixed(gap < 0.1 ? 1 : 0)}%`} />
-              <Figure label="Time" value={`${(elapsed / 1000).toFixed(1)} s of ${r.parameters.timeLimitSeconds} s`} />
+              <Figure label={r.status === 'running' ? 'Time so far' : 'Search time'} value={`${(elapsed / 1000).toFixed(1)} s (limit ${r.parameters.timeLimitSeconds} s)`} testID="run-time" />
             </View>
+            )}
             {score !== null ? <Body testID="run-gap-words">{gapWords(score, bound, gap, r.result?.optimal)}</Body> : null}
             {r.status === 'failed' && r.error ? <Notice>{r.error}</Notice> : null}
             {r.status === 'cancelled' && r.error ? <Notice kind="caution">{r.error}</Notice> : null}
@@ -138,11 +143,11 @@ function RunProgress({ runId, onFinished, onShowResult }: { runId: number; onFin
 function statusWords(r: RunDto): string {
   switch (r.status) {
     case 'queued':
-      return 'Waiting for a solver to pick it up…';
+      return 'Queued: waiting for a solver to pick it up.';
     case 'running':
       return 'Solving: the score rises as better rosters are found; the bound falls as the search proves there is nothing better.';
     case 'done':
-      return `Finished in ${((r.timeMs ?? 0) / 1000).toFixed(1)} s.`;
+      return 'Finished.';
     case 'cancelled':
       return 'Cancelled.';
     default:

@@ -46,6 +46,8 @@ export interface PersonTotals {
 
 export interface RunDto {
   id: number;
+  /** 1, 2, 3 … within the roster (server/runs/numbering.ts); the id is the database's. */
+  number?: number;
   rosterId: number;
   status: 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
   parameters: { timeLimitSeconds: number; seed: number; manual?: boolean; basedOnRunId?: number | null };

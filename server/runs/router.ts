@@ -13,12 +13,14 @@ import { requireRunsAllowed } from '../billing/limits';
 import { refuseWhenPublished } from '../rosters/publish';
 import { findRoster } from '../rosters/repository';
 import { cachedRun, FINAL_STATUSES, rememberRun } from './result-cache';
+import { runNumber, runNumbers } from './numbering';
 import { enqueueRun, queues, requireQueue, runJobId } from '../queue/queues';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
-const toRunDto = (r: RunRow) => ({
+const toRunDto = (r: RunRow, number: number) => ({
   id: r.id,
+  number,
   rosterId: r.rosterId,
   status: r.status,
   parameters: r.parameters,
@@ -76,12 +78,14 @@ type ParsedRoster = Awaited<ReturnType<typeof solvableRoster>>['roster'];
 export function runsRouter() {
   const routes = new ApiRoutes('/rosters');
   routes.post('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: startRunBody }), requireRunsAllowed, refuseWhenPublished, async (req, res) => {
-    res.status(202).json(toRunDto((await queueRun(ws(req), Number(req.params.rosterId), req.body))!));
+    const run = (await queueRun(ws(req), Number(req.params.rosterId), req.body))!;
+    res.status(202).json(toRunDto(run, await runNumber(run)));
   });
   routes.get('/:rosterId/runs', COORDINATOR_UP, validate({ params: rosterIdParams }), async (req, res) => {
     await findRoster(ws(req), Number(req.params.rosterId)); // another workspace's roster is a 404, not an empty list
     const rows = await RunRow.findAll({ where: { workspaceId: ws(req), rosterId: Number(req.params.rosterId) }, order: [['id', 'DESC']], limit: 50, attributes: { exclude: ['result'] } });
-    res.json({ items: rows.map(toRunDto) });
+    const numbers = await runNumbers(ws(req), Number(req.params.rosterId));
+    res.json({ items: rows.map((r) => toRunDto(r, numbers.get(r.id) ?? 0)) });
   });
   routes.post('/:rosterId/score', COORDINATOR_UP, validate({ params: rosterIdParams, body: scoreBody }), async (req, res) => {
     const { roster } = await solvableRoster(ws(req), Number(req.params.rosterId));
@@ -110,7 +114,7 @@ export function runsRouter() {
     const run = await RunRow.findOne({ where: { id: Number(req.params.id), workspaceId: ws(req) } });
     if (!run) throw notFound('Run');
     const assignments = run.status === 'done' || run.status === 'cancelled' ? await AssignmentRow.findAll({ where: { runId: run.id }, order: [['seatId', 'ASC']], raw: true }) : [];
-    const body = { ...toRunDto(run), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: Boolean(a.pinned) })) };
+    const body = { ...toRunDto(run, await runNumber(run)), result: run.result ?? null, assignments: assignments.map((a) => ({ seatId: a.seatId, personId: a.personId ?? null, pinned: Boolean(a.pinned) })) };
     if (FINAL_STATUSES.has(run.status)) {
       const entry = rememberRun(run.id, run.workspaceId, body);
       return void res.type('json').set('ETag', entry.etag).send(entry.json);
@@ -134,7 +138,7 @@ export function runsRouter() {
     if (!changed) await RunRow.update({ cancelRequested: true }, { where: { ...where, status: { [Op.in]: ['queued', 'running'] } } });
     const now = (await RunRow.findOne({ where }))!;
     if (!now.cancelRequested) throw new HttpError(409, 'conflict', 'This run finished just before it could be cancelled');
-    res.status(202).json(toRunDto(now));
+    res.status(202).json(toRunDto(now, await runNumber(now)));
   });
   return [routes.router, runs.router] as const;
 }

@@ -111,6 +111,7 @@ export interface GridModel {
   dayBreaches: Map<string, GridViolation[]>;
 }
 
+const PERIOD_TERMS = new Set(['contractedHours', 'fairNights', 'fairWeekends']);
 const dbId = (prefixed: string) => Number(prefixed.replace(/^[a-z]+/, ''));
 export const isWeekend = (day: string) => isoWeekday(day) >= 6;
 const hoursOf = (s: GridShift) => {
@@ -197,7 +198,9 @@ export function buildGrid(input: GridInput): GridModel {
   for (const v of input.violations ?? []) {
     const people = v.people.map(dbId).filter((id) => rows.has(id));
     const seatDays = v.seats.map((s) => ({ seat: dbId(s), shift: shiftOfSeat.get(dbId(s)) })).filter((x) => x.shift);
-    if (seatDays.length === 0) {
+    // Period-wide rules (hours against contract, fair shares) name every seat of the person; marking
+    // each of those cells would hide the local breaches, so they go to the row's end instead.
+    if (seatDays.length === 0 || (people.length > 0 && (PERIOD_TERMS.has(v.term) || seatDays.length > 8))) {
       for (const id of people) rows.get(id)!.rowBreaches.push(v);
       continue;
     }

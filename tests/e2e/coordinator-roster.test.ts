@@ -69,6 +69,8 @@ describe.each([
 
     await solve(page, `coordinator-roster-${label}-04-solve`);
     expect(await page.getByTestId('result-gap-words').textContent()).toMatch(/best possible roster/);
+    // The result opens on the grid; the month and day list is the other view.
+    await page.getByRole('radio', { name: 'Show the roster as: Month and days' }).click();
     await page.getByTestId('day-list').waitFor();
     await shot('05-result');
 

@@ -42,6 +42,8 @@ describe.each([
     await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
     await page.getByTestId('run-show-result').click();
     await page.getByTestId('result-summary').waitFor();
+    // The result opens on the grid; the month and day list is the other view.
+    await page.getByRole('radio', { name: 'Show the roster as: Month and days' }).click();
     await page.getByTestId('day-list').waitFor();
 
     // The first filled seat of the first day that is not pinned.
@@ -50,7 +52,7 @@ describe.each([
     let chosen = -1;
     for (let i = 0; i < (await chips.count()); i++) {
       const text = (await chips.nth(i).textContent()) ?? '';
-      if (!text.startsWith('Pinned') && !text.startsWith('Open')) {
+      if (!text.includes('pinned') && !text.startsWith('Open')) {
         chosen = i;
         break;
       }

@@ -6,7 +6,7 @@ import type { RosterDto, RunDetail } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { DownloadLink } from '../download-link';
 import { Choices } from '../parts';
-import { periodWords } from '../format';
+import { periodWords, runName } from '../format';
 import type { GridModel } from '@/shared/roster/grid-model';
 import { GridTable, PRINT_SIZES } from './grid-table';
 import { GridLegend } from './grid-legend';
@@ -78,7 +78,7 @@ export function PrintSheet({ roster, run, model, skillName, span }: { roster: Ro
           {/* react-native-web has no className prop; PageClass sets the page-break class through a ref. */}
           <PageClass />
           <Text style={styles.title}>{`${roster.name} · ${periodWords(days[0], days[days.length - 1])}`}</Text>
-          <Text style={styles.sub}>{`Run ${run.id}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
+          <Text style={styles.sub}>{`${runName(run)}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
           <GridTable model={model} days={days} rows={rows} sizes={sizes} skillName={skillName} print />
           <GridLegend compact />
           <Text style={styles.caution}>{WORKING_TIME_CAUTION}</Text>

@@ -136,5 +136,6 @@ export function RosterGrid({ roster, run, onSaved }: { roster: RosterDto; run: R
 const styles = StyleSheet.create({
   controls: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
   weekNav: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
-  hover: { minHeight: 40, fontSize: 14 },
+  // A fixed height: the words change as the pointer moves, and the grid below must not jump.
+  hover: { height: 60, fontSize: 14, lineHeight: 20, overflow: 'hidden' },
 });

@@ -61,7 +61,7 @@ describe('buildGrid', () => {
       violations: [
         { term: 'minRest', hard: false, points: -4, message: 'Ada rests 9 h', people: ['p5'], seats: ['st11', 'st31'] },
         { term: 'coverage', hard: false, points: -10, message: 'open seat', people: [], seats: ['st41'] },
-        { term: 'contractedHours', hard: false, points: -2, message: 'Ada 4 h under', people: ['p5'], seats: [] },
+        { term: 'contractedHours', hard: false, points: -2, message: 'Ada 4 h under', people: ['p5'], seats: ['st11', 'st31'] },
       ],
     });
     const ada = g.rows.find((r) => r.person.id === 5)!;
