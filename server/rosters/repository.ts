@@ -1,4 +1,5 @@
-import { Op, type Transaction } from 'sequelize';
+import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
+import { transactionWithRetry } from '../db/sequelize';
 import { Person, Skill } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import { updateVersioned } from '../http/versioned';
@@ -72,6 +73,23 @@ export async function updateRoster(workspaceId: number, id: number, body: Record
 export async function deleteRoster(workspaceId: number, id: number): Promise<void> {
   const count = await Roster.destroy({ where: { id, workspaceId } });
   if (count === 0) throw notFound('Roster');
+}
+
+/**
+ * Every transaction that changes a roster's content takes the roster row's lock first. Child
+ * inserts check their foreign key with a shared lock on the roster row, and touchRoster then
+ * wants it exclusively: two such transactions deadlocked (8 simultaneous shift creates gave 6
+ * × 500). Taking the exclusive lock first, always roster before children, orders them instead.
+ */
+export async function lockRoster(workspaceId: number, id: number, transaction: Transaction): Promise<Roster> {
+  const r = await Roster.findOne({ where: { id, workspaceId }, transaction, lock: transaction.LOCK.UPDATE });
+  if (!r) throw notFound('Roster');
+  return r;
+}
+
+/** A content change of one roster: its row locked first, the whole transaction retried on a deadlock. */
+export function changeRoster<T>(workspaceId: number, rosterId: number, fn: (t: Transaction, roster: Roster) => Promise<T>): Promise<T> {
+  return transactionWithRetry(Roster.sequelize!, async (t) => fn(t, await lockRoster(workspaceId, rosterId, t)));
 }
 
 /** A roster's content changed (shifts, wishes, rules…): bump its version so a stale run or save is noticed. */
@@ -172,14 +190,17 @@ async function insertShifts(
 export async function createPattern(workspaceId: number, rosterId: number, body: PatternBody) {
   const roster = await findRoster(workspaceId, rosterId);
   await checkSkills(workspaceId, body.seats.map((s) => s.skillId), (i) => `body.seats.${i}.skillId`);
-  const sequelize = Roster.sequelize!;
-  return sequelize.transaction(async (transaction) => {
+  const labelTaken = () => new HttpError(409, 'conflict', `This roster already has a pattern called "${body.label}"`, [{ path: 'body.label', message: 'already used' }]);
+  return changeRoster(workspaceId, rosterId, async (transaction) => {
     const taken = await ShiftPatternRow.findOne({ where: { workspaceId, rosterId, label: body.label }, transaction });
-    if (taken) throw new HttpError(409, 'conflict', `This roster already has a pattern called "${body.label}"`, [{ path: 'body.label', message: 'already used' }]);
+    if (taken) throw labelTaken();
+    // The unique index (roster_id, label) is the last word should anything get past the lock.
     const pattern = await ShiftPatternRow.create(
       { workspaceId, rosterId, label: body.label, weekdays: body.weekdays, startTime: body.startTime, endTime: body.endTime, seats: body.seats, night: body.night ?? null },
       { transaction },
-    );
+    ).catch((err: unknown) => {
+      throw err instanceof UniqueConstraintError ? labelTaken() : err;
+    });
     const ids = await insertShifts(workspaceId, rosterId, pattern.id, expandPattern(roster, body), transaction);
     await touchRoster(workspaceId, rosterId, transaction);
     return { id: pattern.id, ...body, shiftsCreated: ids.length };
@@ -193,8 +214,7 @@ export async function listPatterns(workspaceId: number, rosterId: number) {
 }
 
 export async function deletePattern(workspaceId: number, rosterId: number, id: number): Promise<void> {
-  await findRoster(workspaceId, rosterId);
-  await Roster.sequelize!.transaction(async (transaction) => {
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
     const pattern = await ShiftPatternRow.findOne({ where: { id, workspaceId, rosterId }, transaction });
     if (!pattern) throw notFound('Shift pattern');
     await ShiftRow.destroy({ where: { workspaceId, rosterId, patternId: id }, transaction });
@@ -207,7 +227,7 @@ export async function createShift(workspaceId: number, rosterId: number, body: {
   const roster = await findRoster(workspaceId, rosterId);
   checkInPeriod(roster, body.startsLocal);
   await checkSkills(workspaceId, body.seats.map((s) => s.skillId), (i) => `body.seats.${i}.skillId`);
-  const [id] = await Roster.sequelize!.transaction(async (transaction) => {
+  const [id] = await changeRoster(workspaceId, rosterId, async (transaction) => {
     const ids = await insertShifts(workspaceId, rosterId, null, [{ ...body, night: body.night ?? null }], transaction);
     await touchRoster(workspaceId, rosterId, transaction);
     return ids;
@@ -238,7 +258,7 @@ export async function updateShift(
   if (ends <= starts) throw new HttpError(400, 'validation_failed', 'The shift ends before it starts', [{ path: 'body.endsLocal', message: 'before the start' }]);
   checkInPeriod(roster, starts);
   if (body.seats) await checkSkills(workspaceId, body.seats.map((s) => s.skillId), (i) => `body.seats.${i}.skillId`);
-  await Roster.sequelize!.transaction(async (transaction) => {
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
     const { version, seats, ...rest } = body;
     const [count] = await ShiftRow.update({ ...rest, version: version + 1 }, { where: { id, workspaceId, version }, transaction });
     if (count === 0) throw new HttpError(409, 'conflict', 'Someone else changed this shift while you were editing it. Reload to see their changes.', [{ path: 'body.version', message: `current version is ${shift.version}` }]);
@@ -252,10 +272,11 @@ export async function updateShift(
 }
 
 export async function deleteShift(workspaceId: number, rosterId: number, id: number): Promise<void> {
-  await findRoster(workspaceId, rosterId);
-  const count = await ShiftRow.destroy({ where: { id, workspaceId, rosterId } });
-  if (count === 0) throw notFound('Shift');
-  await touchRoster(workspaceId, rosterId);
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
+    const count = await ShiftRow.destroy({ where: { id, workspaceId, rosterId }, transaction });
+    if (count === 0) throw notFound('Shift');
+    await touchRoster(workspaceId, rosterId, transaction);
+  });
 }
 
 // ---- wishes ----
@@ -311,16 +332,22 @@ export async function putPin(workspaceId: number, rosterId: number, body: { seat
       throw new HttpError(422, 'unprocessable', `${person.name} lacks the skill this seat needs`, [{ path: 'body.personId', message: 'lacks the seat’s skill' }]);
     }
   }
-  await PinRow.destroy({ where: { workspaceId, seatId: body.seatId } });
-  await PinRow.create({ workspaceId, rosterId, seatId: body.seatId, personId: body.personId });
-  await touchRoster(workspaceId, rosterId);
+  // Replace-or-create under the roster's lock: ten identical PUTs at once all answer 200 with one pin
+  // (they gave 8 × 500 on the unique seat index when each deleted and inserted on its own).
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
+    await PinRow.destroy({ where: { workspaceId, seatId: body.seatId }, transaction });
+    await PinRow.create({ workspaceId, rosterId, seatId: body.seatId, personId: body.personId }, { transaction });
+    await touchRoster(workspaceId, rosterId, transaction);
+  });
   return body;
 }
 
 export async function deletePin(workspaceId: number, rosterId: number, seatId: number): Promise<void> {
-  const count = await PinRow.destroy({ where: { workspaceId, rosterId, seatId } });
-  if (count === 0) throw notFound('Pin');
-  await touchRoster(workspaceId, rosterId);
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
+    const count = await PinRow.destroy({ where: { workspaceId, rosterId, seatId }, transaction });
+    if (count === 0) throw notFound('Pin');
+    await touchRoster(workspaceId, rosterId, transaction);
+  });
 }
 
 // ---- pairings (workspace-wide) ----
@@ -347,10 +374,12 @@ export async function createPairing(workspaceId: number, body: { personAId: numb
   for (const [field, id] of [['personAId', body.personAId], ['personBId', body.personBId]] as const) {
     if (!found.some((p) => p.id === id)) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: `body.${field}`, message: 'unknown person' }]);
   }
-  if (await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b } })) {
-    throw new HttpError(409, 'conflict', 'These two people already have a pairing; edit it instead', [{ path: 'body.personBId', message: 'pairing exists' }]);
-  }
-  const row = await PairingRow.create({ workspaceId, personAId: a, personBId: b, score: body.score, neverTogether: body.neverTogether, reason: body.reason ?? null });
+  const exists = () => new HttpError(409, 'conflict', 'These two people already have a pairing; edit it instead', [{ path: 'body.personBId', message: 'pairing exists' }]);
+  if (await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b } })) throw exists();
+  // Two creates at once both pass the check; the unique index (workspace, a, b) decides, and the loser hears 409.
+  const row = await PairingRow.create({ workspaceId, personAId: a, personBId: b, score: body.score, neverTogether: body.neverTogether, reason: body.reason ?? null }).catch((err: unknown) => {
+    throw err instanceof UniqueConstraintError ? exists() : err;
+  });
   return toPairingDto(row);
 }
 

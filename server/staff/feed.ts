@@ -1,5 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { Person, Workspace } from '../db/models';
+import { transactionWithRetry } from '../db/sequelize';
 import { ShiftRow } from '../rosters/models';
 import type { MyFeedAnswer } from '../../shared/api/staff';
 import { buildCalendar, type FeedEvent } from './ical';
@@ -22,8 +23,13 @@ export async function feedStatus(workspaceId: number, personId: number): Promise
 export async function resetFeed(workspaceId: number, personId: number, publicUrl: string): Promise<MyFeedAnswer> {
   const token = randomBytes(32).toString('base64url');
   const tokenHash = hashToken(token);
-  const existing = await CalendarFeedRow.findOne({ where: { workspaceId, personId } });
-  const row = existing ? await existing.update({ tokenHash, updatedAt: new Date() }) : await CalendarFeedRow.create({ workspaceId, personId, tokenHash });
+  // The person's row is locked first, so simultaneous resets run one after the other (each
+  // replacing the last) instead of two creates meeting on the unique (workspace, person) index.
+  const row = await transactionWithRetry(CalendarFeedRow.sequelize!, async (transaction) => {
+    await Person.findOne({ where: { id: personId, workspaceId }, transaction, lock: transaction.LOCK.UPDATE });
+    const existing = await CalendarFeedRow.findOne({ where: { workspaceId, personId }, transaction });
+    return existing ? existing.update({ tokenHash, updatedAt: new Date() }, { transaction }) : CalendarFeedRow.create({ workspaceId, personId, tokenHash }, { transaction });
+  });
   return { active: true, createdAt: new Date(row.updatedAt).toISOString(), url: feedUrl(publicUrl, token) };
 }
 

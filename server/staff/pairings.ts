@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, UniqueConstraintError } from 'sequelize';
 import { Person } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import type { MyPairingRequest } from '../../shared/api/staff';
@@ -48,6 +48,7 @@ export async function requestPairing(workspaceId: number, personId: number, body
       [{ path: 'body.colleagueId', message: mine ? 'already requested' : 'already on record' }],
     );
   }
+  // Simultaneous requests both pass the check above; the unique index (workspace, a, b) lets one in.
   const row = await PairingRow.create({
     workspaceId,
     personAId: a,
@@ -57,6 +58,9 @@ export async function requestPairing(workspaceId: number, personId: number, body
     status: 'requested',
     reason: body.reason,
     requestedByPersonId: personId,
+  }).catch((err: unknown) => {
+    if (!(err instanceof UniqueConstraintError)) throw err;
+    throw new HttpError(409, 'conflict', `You have already asked about working with ${colleague.name}; withdraw that request first to ask again.`, [{ path: 'body.colleagueId', message: 'already requested' }]);
   });
   return { id: row.id, colleague: { id: colleague.id, name: colleague.name }, together: body.together, status: 'requested', createdAt: new Date(row.createdAt).toISOString() };
 }

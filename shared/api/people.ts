@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { listQuerySchema, versionField } from './paging';
+import { CONTROL_MESSAGE, lineText, noControl } from './text';
 
 export const skillBody = z.object({
   name: z
@@ -7,12 +8,13 @@ export const skillBody = z.object({
     .trim()
     .min(1, 'Enter a name')
     .max(80, 'At most 80 characters')
+    .refine(noControl, CONTROL_MESSAGE)
     // CSV files list a person's skills separated by ';' (server/people/import.ts).
     .refine((n) => !n.includes(';'), "A skill name cannot contain ';' (CSV files use it between skills)"),
 });
 
 const personFields = {
-  name: z.string().trim().min(1, 'Enter a name').max(120, 'At most 120 characters'),
+  name: lineText(120),
   email: z.string().trim().max(254).email('This is not an e-mail address').nullable().optional(),
   contractedHours: z.number({ error: 'Enter the hours as a number' }).min(0, 'Hours cannot be negative').max(168, 'A week has 168 hours'),
   skillIds: z.array(z.number().int().min(1)).max(200).default([]),

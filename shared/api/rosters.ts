@@ -2,18 +2,22 @@ import { z } from 'zod';
 import { localDateSchema, localDateTimeSchema, localTimeSchema, ruleSetSchema, timeZoneSchema, weekdaySchema, rosterAssignmentSchema } from '../roster/schema';
 import { daysBetween } from '../roster/time';
 import { listQuerySchema, versionField } from './paging';
+import { lineText, noteText } from './text';
 
 const MAX_DAYS = 366;
 
 const periodRefine = <T extends { periodStart?: string; periodEnd?: string }>(v: T, ctx: z.core.$RefinementCtx<T>) => {
   if (!v.periodStart || !v.periodEnd) return;
+  // Zod runs object refinements even when a field failed; a date that is not a calendar date
+  // ("2031-02-30", "abc") already has its own issue and must not reach daysBetween (it throws).
+  if (!localDateSchema.safeParse(v.periodStart).success || !localDateSchema.safeParse(v.periodEnd).success) return;
   const days = daysBetween(v.periodStart, v.periodEnd) + 1;
   if (days < 1) ctx.addIssue({ code: 'custom', path: ['periodEnd'], message: 'The period ends before it starts' });
   else if (days > MAX_DAYS) ctx.addIssue({ code: 'custom', path: ['periodEnd'], message: `The period is ${days} days; at most ${MAX_DAYS}` });
 };
 
 const rosterFields = {
-  name: z.string().trim().min(1, 'Enter a name').max(120),
+  name: lineText(120),
   periodStart: localDateSchema,
   periodEnd: localDateSchema,
   timeZone: timeZoneSchema,
@@ -33,7 +37,7 @@ export const rosterChildParams = z.object({ rosterId: z.coerce.number().int().mi
 
 const seatSpec = z.object({ skillId: z.number().int().min(1).nullable().default(null), count: z.number().int().min(1).max(100) });
 export const patternBody = z.object({
-  label: z.string().trim().min(1, 'Enter a label').max(60),
+  label: lineText(60, 'Enter a label'),
   weekdays: z.array(weekdaySchema).min(1, 'Pick at least one weekday').max(7),
   startTime: localTimeSchema,
   endTime: localTimeSchema,
@@ -43,7 +47,7 @@ export const patternBody = z.object({
 
 export const shiftBody = z
   .object({
-    label: z.string().trim().min(1).max(60),
+    label: lineText(60, 'Enter a label'),
     startsLocal: localDateTimeSchema,
     endsLocal: localDateTimeSchema,
     night: z.boolean().nullable().optional(),
@@ -54,7 +58,7 @@ export const shiftBody = z
   });
 export const updateShiftBody = z
   .object({
-    label: z.string().trim().min(1).max(60).optional(),
+    label: lineText(60, 'Enter a label').optional(),
     startsLocal: localDateTimeSchema.optional(),
     endsLocal: localDateTimeSchema.optional(),
     night: z.boolean().nullable().optional(),
@@ -69,7 +73,7 @@ export const wishBody = z
     shiftId: z.number().int().min(1).optional(),
     kind: z.enum(['prefer', 'avoid', 'cannot']),
     strength: z.number().min(0).max(1000).default(5),
-    note: z.string().max(500).nullable().optional(),
+    note: noteText(500).nullable().optional(),
   })
   .superRefine((v, ctx) => {
     if ((v.date === undefined) === (v.shiftId === undefined)) ctx.addIssue({ code: 'custom', path: ['date'], message: 'Give either a date or a shift' });
@@ -80,7 +84,7 @@ export const updateWishBody = z
   .object({
     kind: z.enum(['prefer', 'avoid', 'cannot']).optional(),
     strength: z.number().min(0).max(1000).optional(),
-    note: z.string().max(500).nullable().optional(),
+    note: noteText(500).nullable().optional(),
   })
   .refine((v) => v.kind !== undefined || v.strength !== undefined || v.note !== undefined, { message: 'Nothing to change', path: ['kind'] });
 
@@ -110,7 +114,7 @@ export const pairingBody = z
     personBId: z.number().int().min(1),
     score: z.number().min(-1000).max(1000).default(0),
     neverTogether: z.boolean().default(false),
-    reason: z.string().max(500).nullable().optional(),
+    reason: noteText(500).nullable().optional(),
   })
   .superRefine((v, ctx) => {
     if (v.personAId === v.personBId) ctx.addIssue({ code: 'custom', path: ['personBId'], message: 'A person cannot be paired with themself' });

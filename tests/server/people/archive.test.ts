@@ -13,7 +13,7 @@ type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
 /** A finished, feasible run with the given seats filled, as the worker would leave it. */
 async function finishedRun(workspaceId: number, rosterId: number, fill: Array<{ seatId: number; personId: number }>) {
   const roster = (await Roster.findByPk(rosterId))!;
-  const run = await RunRow.create({ workspaceId, rosterId, status: 'done', parameters: { timeLimitSeconds: 1, seed: 1 }, rosterVersion: roster.version, startedAt: new Date(), finishedAt: new Date(), result: { feasible: true } });
+  const run = await RunRow.create({ workspaceId, rosterId, status: 'done', parameters: { timeLimitSeconds: 1, seed: 1 }, rosterVersion: roster.version, startedAt: new Date(), finishedAt: new Date(), result: { feasible: true } as object });
   await AssignmentRow.bulkCreate(fill.map((f) => ({ workspaceId, runId: run.id, seatId: f.seatId, personId: f.personId, pinned: false })));
   return run.id;
 }
