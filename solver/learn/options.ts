@@ -1,0 +1,49 @@
+/** Options of the weight learner (learn-weights.ts), with their defaults in one place. */
+export interface LearnOptions {
+  /**
+   * λ of the prior λ/2·‖w − w0‖²: how strongly the suggestion stays at the current weights.
+   * In points² per (point per unit)²; larger = fewer, smaller changes.
+   */
+  priorStrength: number;
+  /** Margin asked of each kept roster over a rival, per seat where they differ (points): Δ of margin rescaling. */
+  marginPerSeat: number;
+  /** Cutting-plane rounds: each asks the solver once per edit for its most violating roster. 0 = only the proposed rosters. */
+  rounds: number;
+  /** Time limit of one oracle call (solveRoster on the seats the coordinator changed). */
+  oracleTimeLimitMs: number;
+  /** Wall-clock budget of the whole learning call; the oracle rounds stop when it is spent. */
+  timeLimitMs: number;
+  /** Most sweeps of dual coordinate ascent per solve of the working-set problem (it stops earlier once α settles). */
+  dualSweeps: number;
+  /** A rival joins the working set when it violates its margin by more than this (points). */
+  violationTolerance: number;
+  /** Weights below this are reported as 0 (a rule the edits say not to weigh at all). */
+  zeroBelow: number;
+  seed: number;
+  /** Millisecond clock behind every time limit (tests inject one). */
+  clock?: () => number;
+}
+
+export const DEFAULT_LEARN_OPTIONS: Readonly<LearnOptions> = Object.freeze({
+  priorStrength: 0.02,
+  marginPerSeat: 1,
+  rounds: 3,
+  oracleTimeLimitMs: 250,
+  timeLimitMs: 20_000,
+  dualSweeps: 2000,
+  violationTolerance: 1e-3,
+  zeroBelow: 1e-3,
+  seed: 1,
+} satisfies LearnOptions);
+
+/** Named presets: `interactive` for a suggestion computed while the coordinator waits. */
+export const LEARN_PRESETS = {
+  interactive: { timeLimitMs: 8_000, oracleTimeLimitMs: 150, rounds: 2 },
+  thorough: { timeLimitMs: 120_000, oracleTimeLimitMs: 1_000, rounds: 6 },
+} satisfies Record<string, Partial<LearnOptions>>;
+
+export function resolveLearnOptions(opts?: Partial<LearnOptions>): LearnOptions {
+  const out: LearnOptions = { ...DEFAULT_LEARN_OPTIONS };
+  if (opts) for (const [k, v] of Object.entries(opts)) if (v !== undefined) (out as unknown as Record<string, unknown>)[k] = v;
+  return out;
+}

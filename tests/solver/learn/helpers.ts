@@ -1,0 +1,93 @@
+/**
+ * A synthetic coordinator with hidden weights, and Kendall's τ written out here, independently of
+ * the learner: τ-b = (C − D) / √((n0 − t_x)(n0 − t_y)) over all pairs (Kendall 1945, "The treatment
+ * of ties in ranking problems"), O(n²), which is plenty for a dozen weights.
+ */
+import type { Roster, RosterAssignment, RuleSet } from '../../../shared/roster/schema';
+import { seededRandom } from '../../../shared/demo/make-roster';
+import { makeRosterScorer } from '../../../solver/roster/score-roster';
+import { solveRoster } from '../../../solver/roster/solve-roster';
+
+export function kendallTauB(x: readonly number[], y: readonly number[]): number {
+  let concordant = 0;
+  let discordant = 0;
+  let tiesX = 0;
+  let tiesY = 0;
+  let pairs = 0;
+  for (let i = 0; i < x.length; i++)
+    for (let j = i + 1; j < x.length; j++) {
+      pairs++;
+      const a = Math.sign(x[i] - x[j]);
+      const b = Math.sign(y[i] - y[j]);
+      if (a === 0) tiesX++;
+      if (b === 0) tiesY++;
+      if (a * b > 0) concordant++;
+      else if (a * b < 0) discordant++;
+    }
+  const denom = Math.sqrt((pairs - tiesX) * (pairs - tiesY));
+  return denom === 0 ? 0 : (concordant - discordant) / denom;
+}
+
+/** The roster's rule set with the given soft weights (what the coordinator privately goes by). */
+export function rulesWith(rules: RuleSet, weights: Partial<Record<keyof RuleSet, number>>): RuleSet {
+  const out = { ...rules } as Record<string, unknown>;
+  for (const [k, w] of Object.entries(weights)) out[k] = { ...(rules as Record<string, object>)[k], weight: w };
+  return out as RuleSet;
+}
+
+export type SyntheticEdit = { roster: Roster; kept: RosterAssignment; proposed: RosterAssignment; gain: number };
+
+const DAY_MS = 86_400_000;
+
+/**
+ * The solver's roster under the roster's own (current) weights, then a session of edits by a
+ * coordinator who goes by `hidden`. Each edit takes the first seat (in a seeded random order) where
+ * some change raises the hidden-weight score and makes the best such change there: someone else in
+ * the seat, or its holder swapped with a seat within two days, every candidate tried by brute force
+ * with scoreRoster (not the solver). Each edit is saved, so the next starts from it: its proposed
+ * roster is the previous kept one, as with manual saves based on the last run. Every edit strictly
+ * raises the hidden-weight score.
+ */
+export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000): Promise<SyntheticEdit[]> {
+  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0 });
+  if (solved.status !== 'solved') throw new Error('fixture roster is infeasible');
+  const score = makeRosterScorer({ ...roster, rules: hidden });
+  const rnd = seededRandom(seed * 7919);
+  const seats = roster.seats.map((s) => s.id);
+  const skillOf = new Map(roster.seats.map((s) => [s.id, s.skill]));
+  const startOf = new Map(roster.shifts.map((s) => [s.id, Date.parse(`${s.start}Z`)]));
+  const seatStart = new Map(roster.seats.map((s) => [s.id, startOf.get(s.shift)!]));
+  const edits: SyntheticEdit[] = [];
+  let current = solved.decoded.assignment;
+  let currentScore = score(current).total;
+  while (edits.length < count) {
+    const order = [...seats].sort(() => rnd() - 0.5);
+    let found: { kept: RosterAssignment; s: number } | null = null;
+    for (const seat of order) {
+      let best: RosterAssignment | null = null;
+      let bestScore = currentScore + 1e-6;
+      const consider = (trial: RosterAssignment) => {
+        const s = score(trial).total;
+        if (s > bestScore) {
+          bestScore = s;
+          best = trial;
+        }
+      };
+      const need = skillOf.get(seat);
+      const here = current[seat] ?? null;
+      for (const person of [null, ...roster.people.filter((p) => need === null || p.skills.includes(need!)).map((p) => p.id)])
+        if (here !== person) consider({ ...current, [seat]: person });
+      for (const other of seats)
+        if ((current[other] ?? null) !== here && Math.abs(seatStart.get(other)! - seatStart.get(seat)!) <= 2 * DAY_MS) consider({ ...current, [seat]: current[other] ?? null, [other]: here });
+      if (best) {
+        found = { kept: best, s: bestScore };
+        break;
+      }
+    }
+    if (!found) break; // a local optimum under the hidden weights: this coordinator would edit no more
+    edits.push({ roster, kept: found.kept, proposed: current, gain: found.s - currentScore });
+    current = found.kept;
+    currentScore = found.s;
+  }
+  return edits;
+}
