@@ -8,7 +8,7 @@ import { createRosterBody, patternBody, shiftBody, wishBody, pairingBody, update
  * validation, naming the field. Notes may keep line feeds (iCalendar escapes them as \n).
  */
 describe('control characters are refused in names, labels and notes', () => {
-  const bad = ['a\rb', 'a\u0000b', 'a\nb', 'tab\there', 'bell\u0007', 'del\u007f', 'c1\u0085', 'sep\u2028'];
+  const bad = ['a\rb', 'a\u0000b', 'a\nb', 'tab\there', 'bell\u0007', 'del\u007f', 'c1\u0085', 'line\u2028sep'];
   const roster = { name: 'R', periodStart: '2027-03-01', periodEnd: '2027-03-07', timeZone: 'Europe/London' };
   const pattern = { label: 'early', weekdays: ['mon'], startTime: '07:00', endTime: '15:00', seats: [{ skillId: null, count: 1 }] };
   const shift = { label: 'early', startsLocal: '2027-03-01T07:00', endsLocal: '2027-03-01T15:00', seats: [{ skillId: null }] };
