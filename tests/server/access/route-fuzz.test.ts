@@ -23,6 +23,7 @@ const SEED = Number(process.env.ROTALOOM_FUZZ_SEED ?? 20270301);
 /** Cases per route for an identity the route admits; the guard answers the others, so a few suffice. */
 const RUNS_ADMITTED = Number(process.env.ROTALOOM_FUZZ_RUNS ?? 16);
 const RUNS_REFUSED = 2;
+const ANSWER_WITHIN_MS = 10_000;
 
 /**
  * Deliberate non-JSON error answers: the private calendar feed answers an empty 404 for any
@@ -202,8 +203,16 @@ describe('route fuzz: no 5xx and only the JSON error shape, for every route, rol
               else if (r.asForm && json && typeof json === 'object' && !Array.isArray(json)) req = req.type('form').send(JSON.parse(JSON.stringify(json)));
               else req = req.set('Content-Type', 'application/json').send(JSON.stringify(json ?? null));
             }
-            const res = await req.ok(() => true);
+            // A request that never answers is a finding too (a dependency that stalls must time out), not a hung test.
+            const res = await req.ok(() => true).timeout(ANSWER_WITHIN_MS).catch((err: { timeout?: number }) => {
+              if (err?.timeout === undefined) throw err;
+              return null;
+            });
             requests++;
+            if (res === null) {
+              findings.push(`${route.method.toUpperCase()} ${r.url} as ${who}: no answer within ${ANSWER_WITHIN_MS} ms`);
+              return true;
+            }
             const where = `${route.method.toUpperCase()} ${r.url}${Object.keys(r.query).length ? `?${new URLSearchParams(r.query as Record<string, string>)}` : ''} as ${who}`;
             // A 503 says a dependency is down (the solve queue, when no Redis runs here), in the error shape, with Retry-After.
             const unavailable = res.status === 503 && errorShapeProblem(res.body) === null && res.headers['retry-after'] !== undefined;
