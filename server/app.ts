@@ -29,6 +29,7 @@ import { publishPreviewRouter } from './rosters/mail-preview';
 import { absenceCoverRouter, absencesRouter } from './absences/router';
 import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
+import { suggestionRouter } from './learning/router';
 
 export interface AppDeps {
   env: Env;
@@ -79,7 +80,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/people', peopleRouter(), termsRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
   const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter());
+  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter(), suggestionRouter());
   api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter());

@@ -4,6 +4,7 @@ import { initStaffModels } from '../staff/models';
 import { initAbsenceModels } from '../absences/models';
 import { initTermModels } from '../terms/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
+import { initLearningModels } from '../learning/models';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
 
@@ -124,4 +125,5 @@ export function initModels(sequelize: Sequelize): void {
   initStaffModels(sequelize);
   initAbsenceModels(sequelize);
   initTermModels(sequelize);
+  initLearningModels(sequelize);
 }

@@ -10,6 +10,7 @@ import { RunRow } from '../rosters/models';
 import { computeOnWorker } from '../queue/queues';
 import { findRun } from './run-view';
 import { requireRunsAllowed } from '../billing/limits';
+import { recordManualPreferenceQuietly } from '../learning/service';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -36,7 +37,9 @@ export function runWorkflowRouters() {
 
   const rosters = new ApiRoutes('/rosters');
   rosters.post('/:rosterId/manual-runs', COORDINATOR_UP, validate({ params: rosterIdParams, body: manualRunBody }), refuseWhenPublished, async (req, res) => {
-    res.status(201).json(await saveManualRun(ws(req), Number(req.params.rosterId), req.body));
+    const saved = await saveManualRun(ws(req), Number(req.params.rosterId), req.body);
+    await recordManualPreferenceQuietly(ws(req), Number(req.params.rosterId), req.auth!.userId, saved.runId, req.body.basedOnRunId); // the edit as a preference (server/learning)
+    res.status(201).json(saved);
   });
   return [rosters.router, runs.router] as const;
 }

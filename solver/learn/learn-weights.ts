@@ -8,7 +8,7 @@
  * A roster's score is w·φ(y) + c(y) (features.ts: φ in violation units of the learned rules, c the
  * wishes and pairings as entered). The problem, over the working sets Cᵢ of rival rosters:
  *
- *   min_{w ≥ 0, ξ ≥ 0}  λ/2 ‖w − w0‖² + (1/n) Σᵢ ξᵢ
+ *   min_{w ≥ 0, ξ ≥ 0}  λ/2 ‖S⁻¹(w − w0)‖² + (1/n) Σᵢ ξᵢ
  *   s.t.  w·(φ(y⁺ᵢ) − φ(y)) + c(y⁺ᵢ) − c(y) ≥ Δ(y⁺ᵢ, y) − ξᵢ   for every y in Cᵢ,
  *
  * Δ = marginPerSeat × seats where y differs from y⁺ᵢ. Cᵢ starts as {y⁻ᵢ}. Each round the oracle
@@ -25,10 +25,11 @@
  * The working-set problem is solved in its dual by coordinate ascent. With αᵢy ≥ 0,
  * Σ_y αᵢy ≤ 1/n and dᵢy = φ(y⁺ᵢ) − φ(y), the weights for given α are
  *
- *   w(α) = max(0, w0 + (1/λ) Σᵢy αᵢy dᵢy)        (componentwise: the non-negativity),
+ *   w(α) = max(0, w0 + (1/λ) S² Σᵢy αᵢy dᵢy)        (componentwise: the non-negativity),
  *
  * and each step moves one αᵢy by its dual gradient Δᵢy − (c(y⁺ᵢ) − c(y)) − w(α)·dᵢy over the
- * curvature bound ‖dᵢy‖²/λ, clipped to its box. Preconditions: every preference's rosters belong
+ * curvature bound ‖S dᵢy‖²/λ, clipped to its box. S = diag(s) scales the prior (options.priorScale:
+ * the regulariser is ‖S⁻¹(w − w0)‖²; S = I gives the plain ‖w − w0‖²). Preconditions: every preference's rosters belong
  * to its roster (seat and person ids), and the rule set is the one being tuned.
  */
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
@@ -98,13 +99,15 @@ function solveWorkingSet(examples: Example[], w0: readonly number[], o: LearnOpt
   const n = examples.length;
   const lambda = o.priorStrength;
   const K = w0.length;
+  // s²: the prior's scale per weight (options.priorScale)
+  const s2 = w0.map((x) => (o.priorScale === 'relative' ? Math.max(x, 1) ** 2 : 1));
   const v = new Array<number>(K).fill(0); // Σ α d
   for (const ex of examples) for (const r of ex.rivals) r.d.forEach((x, k) => (v[k] += r.alpha * x));
-  const wOf = () => w0.map((x, k) => Math.max(0, x + v[k] / lambda));
+  const wOf = () => w0.map((x, k) => Math.max(0, x + (s2[k] * v[k]) / lambda));
   const primal = (w: number[]) => {
     let data = 0;
     for (const ex of examples) data += Math.max(0, ...ex.rivals.map((r) => r.loss - r.e - dot(w, r.d)));
-    return (lambda / 2) * w.reduce((m, x, k) => m + (x - w0[k]) ** 2, 0) + data / n;
+    return (lambda / 2) * w.reduce((m, x, k) => m + (x - w0[k]) ** 2 / s2[k], 0) + data / n;
   };
   let w = wOf();
   for (let sweep = 0; sweep < o.dualSweeps; sweep++) {
@@ -112,7 +115,7 @@ function solveWorkingSet(examples: Example[], w0: readonly number[], o: LearnOpt
     for (const ex of examples) {
       let used = ex.rivals.reduce((m, r) => m + r.alpha, 0);
       for (const r of ex.rivals) {
-        const norm = dot(r.d, r.d);
+        const norm = r.d.reduce((m, x, k) => m + s2[k] * x * x, 0);
         if (norm === 0) continue;
         const grad = r.loss - r.e - dot(w, r.d);
         const next = Math.min(Math.max(0, r.alpha + (grad * lambda) / norm), 1 / n - (used - r.alpha));

@@ -5,6 +5,12 @@ export interface LearnOptions {
    * In points² per (point per unit)²; larger = fewer, smaller changes.
    */
   priorStrength: number;
+  /**
+   * 'relative': the prior is Σ ((w_k − w0_k) / s_k)² with s_k = max(w0_k, 1), so a weight of 100
+   * may move by 10 as cheaply as a weight of 1 by 0.1 (weights of different rules live on very
+   * different scales); 'absolute': the plain ‖w − w0‖².
+   */
+  priorScale: 'relative' | 'absolute';
   /** Margin asked of each kept roster over a rival, per seat where they differ (points): Δ of margin rescaling. */
   marginPerSeat: number;
   /** Cutting-plane rounds: each asks the solver once per edit for its most violating roster. 0 = only the proposed rosters. */
@@ -25,7 +31,8 @@ export interface LearnOptions {
 }
 
 export const DEFAULT_LEARN_OPTIONS: Readonly<LearnOptions> = Object.freeze({
-  priorStrength: 0.02,
+  priorStrength: 1,
+  priorScale: 'relative',
   marginPerSeat: 1,
   rounds: 3,
   oracleTimeLimitMs: 250,

@@ -7,6 +7,7 @@ import * as m0005 from './0005-staff-feeds';
 import * as m0006 from './0006-run-contest';
 import * as m0007 from './0007-absences-terms';
 import * as m0008 from './0008-nothing-lost';
+import * as m0010 from './0010-preferences';
 
 export interface Migration {
   name: string;
@@ -24,4 +25,6 @@ export const migrations: Migration[] = [
   { name: '0006-run-contest', ...m0006 },
   { name: '0007-absences-terms', ...m0007 },
   { name: '0008-nothing-lost', ...m0008 },
+  // kept last: migrations others add (0009…) go before it
+  { name: '0010-preferences', ...m0010 },
 ];
