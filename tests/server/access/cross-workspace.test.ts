@@ -32,6 +32,8 @@ const bodies: Record<string, unknown> = {
   'post /api/runs/:id/concession-price': { index: 0 },
   'post /api/me/rosters/:rosterId/wishes': { date: '2027-01-04', kind: 'avoid' },
   'post /api/me/rosters/:rosterId/wishes/weekly': { weekday: 'tue', kind: 'cannot' },
+  'patch /api/absences/:id': { note: 'Moved', version: 1 },
+  'post /api/absences/:id/decision': { decision: 'approve', version: 1 },
 };
 
 /**
