@@ -9,7 +9,8 @@ import { useCreateTerm } from '@/hooks/api/create-term';
 import { useUpdateTerm } from '@/hooks/api/update-term';
 import { useDeleteTerm } from '@/hooks/api/delete-term';
 import { useRosters } from '@/hooks/api/get-rosters';
-import { usePatterns } from '@/hooks/api/get-patterns';
+import { useQuery } from '@tanstack/react-query';
+import { patternsQueryOptions } from '@/hooks/api/get-patterns';
 import { Button } from '@/components/ui/button';
 import { DateField } from '@/components/ui/date-field';
 import { Notice } from '@/components/ui/notice';
@@ -189,7 +190,8 @@ function TermLine({ personId, term, onEdit }: { personId: number; term: TermDto;
 function usePatternLabels(): string[] {
   const rosters = useRosters();
   const newest = rosters.data?.items[0]?.id ?? 0;
-  const patterns = usePatterns(newest);
+  // No roster yet: nothing to ask for.
+  const patterns = useQuery({ ...patternsQueryOptions(newest), enabled: newest > 0 });
   return newest ? [...new Set((patterns.data ?? []).map((p) => p.label))] : [];
 }
 

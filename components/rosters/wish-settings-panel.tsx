@@ -62,7 +62,9 @@ export function WishSettingsPanel({ roster }: { roster: RosterDto }) {
       <Body muted>{roster.wishDeadline ? `Now: wishes close ${format(inZone(roster.wishDeadline, roster.timeZone), "EEEE d MMMM 'at' HH:mm")}.` : 'Now: no deadline.'} {roster.maxCannotDays === null ? 'No limit on “cannot” days.' : `At most ${roster.maxCannotDays} “cannot” day${roster.maxCannotDays === 1 ? '' : 's'} each.`}</Body>
       {conflict ? <Notice kind="caution">{`${update.error!.message} The roster changed since this page loaded; your values are still here, save again to use them.`}</Notice> : update.error && !server?.fieldMessage('wishDeadline') && !server?.fieldMessage('maxCannotDays') ? <Notice>{update.error.message}</Notice> : null}
       {update.isSuccess ? <Notice kind="info">Wish settings saved; staff see them on their Wishes screen.</Notice> : null}
-      <Button label="Save wish settings" onPress={save} busy={update.isPending} testID="wish-settings-save" />
+      <View style={styles.save}>
+        <Button label="Save wish settings" onPress={save} busy={update.isPending} testID="wish-settings-save" />
+      </View>
     </Panel>
   );
 }
@@ -71,4 +73,5 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-start' },
   time: { width: 170 },
   limit: { maxWidth: 420 },
+  save: { alignSelf: 'flex-start' },
 });

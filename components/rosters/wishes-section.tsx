@@ -19,11 +19,13 @@ import { datesBetween } from '@/components/staff/format';
 import { Loadable, Panel } from './parts';
 import { dayWords, timeOf } from './format';
 import { WishSettingsPanel } from './wish-settings-panel';
+import { PersonOutcome } from './person-outcome';
 
 type Kind = RosterWish['kind'];
 const KINDS: Kind[] = ['prefer', 'avoid', 'cannot'];
-const NAME_W = 112;
-const CELL = 38;
+const NAME_W = { phone: 92, wide: 150 };
+/** Cells shrink to fit a phone's week or a wide screen's whole period, within thumb-friendly bounds. */
+const cellSize = (width: number, nameW: number, days: number) => Math.max(26, Math.min(40, Math.floor((width - nameW) / Math.max(1, days))));
 
 /** Monday-started weeks of the period, so a phone shows one at a time. */
 function weeksOf(days: string[]): string[][] {
@@ -54,7 +56,6 @@ export function WishesSection({ roster }: { roster: RosterDto }) {
   const shifts = useShifts(roster.id);
   return (
     <View style={{ gap: space.lg }}>
-      <WishSettingsPanel roster={roster} />
       <Loadable query={wishes} label="Wishes">
         {(w) => (
           <Loadable query={people} label="People">
@@ -66,6 +67,7 @@ export function WishesSection({ roster }: { roster: RosterDto }) {
           </Loadable>
         )}
       </Loadable>
+      <WishSettingsPanel roster={roster} />
     </View>
   );
 }
@@ -82,7 +84,11 @@ function WishesGrid({ roster, wishes, silent, people, shifts }: { roster: Roster
   const [week, setWeek] = useState(0);
   const [picked, setPicked] = useState<Picked | null>(null);
   const [hover, setHover] = useState<string | null>(null);
+  const [width, setWidth] = useState(wide ? 900 : 320);
   const shown = wide ? days : (weeks[Math.min(week, weeks.length - 1)] ?? []);
+  const nameW = wide ? NAME_W.wide : NAME_W.phone;
+  const cell = cellSize(width, nameW, wide ? shown.length : 7);
+  const box = { width: cell - 4, height: cell - 4 };
   const shiftDay = useMemo(() => new Map(shifts.map((s) => [s.id, s.startsLocal.slice(0, 10)])), [shifts]);
   const { byDay, byShiftDay, cannotDays } = useMemo(() => {
     const byDay = new Map<string, RosterWish>();
@@ -120,14 +126,15 @@ function WishesGrid({ roster, wishes, silent, people, shifts }: { roster: Roster
         </View>
       ) : null}
       <Body muted style={styles.hint} testID="wishes-hint">{hover ?? (wide ? 'Point at a day to see who entered its wish and when.' : 'Tap a day to see its wish, who entered it and when.')}</Body>
+      <View onLayout={(e) => setWidth(e.nativeEvent.layout.width)} />
       <ScrollView horizontal showsHorizontalScrollIndicator>
         <View role="table" aria-label={`Wishes, ${dayWords(shown[0] ?? roster.periodStart)} to ${dayWords(shown[shown.length - 1] ?? roster.periodEnd)}`}>
           <View role="row" style={styles.tr}>
-            <View style={styles.nameCell} />
+            <View style={[styles.nameCell, { width: nameW }]} />
             {shown.map((d) => {
               const weekend = [0, 6].includes(new Date(`${d}T12:00:00Z`).getUTCDay());
               return (
-                <View key={d} role="columnheader" style={[styles.headCell, weekend && styles.weekend]}>
+                <View key={d} role="columnheader" style={[styles.headCell, { width: cell }, weekend && styles.weekend]}>
                   <Text style={styles.headDay}>{format(new Date(`${d}T12:00:00Z`), 'EEEEE')}</Text>
                   <Text style={styles.headNum}>{d.slice(8, 10).replace(/^0/, '')}</Text>
                 </View>
@@ -139,7 +146,7 @@ function WishesGrid({ roster, wishes, silent, people, shifts }: { roster: Roster
             const over = roster.maxCannotDays !== null && used > roster.maxCannotDays;
             return (
               <View key={p.id} role="row" style={styles.tr}>
-                <View role="rowheader" style={styles.nameCell}>
+                <View role="rowheader" style={[styles.nameCell, { width: nameW, minHeight: cell }]}>
                   <Text style={styles.name} numberOfLines={1}>{p.name}</Text>
                   {used > 0 ? <Text style={[styles.sub, over && styles.subOver]}>{`${used}${roster.maxCannotDays !== null ? `/${roster.maxCannotDays}` : ''} cannot`}</Text> : p.userId === null ? <Text style={styles.sub}>no login</Text> : null}
                 </View>
@@ -160,7 +167,7 @@ function WishesGrid({ roster, wishes, silent, people, shifts }: { roster: Roster
                       onPress={() => { setPicked(on ? null : { personId: p.id, date: d }); setHover(label); }}
                       onHoverIn={() => setHover(label)}
                       onHoverOut={() => setHover(null)}
-                      style={[styles.cell, m && { backgroundColor: m.fill, borderColor: m.border }, mark?.kind === 'cannot' && styles.cannotCell, on && styles.cellOn]}
+                      style={[styles.cell, box, m && { backgroundColor: m.fill, borderColor: m.border }, mark?.kind === 'cannot' && styles.cannotCell, on && styles.cellOn]}
                       testID={`wish-cell-${p.id}-${d}`}
                     >
                       {m ? <Text style={[styles.glyph, { color: m.ink }, !day && styles.shiftGlyph]}>{m.glyph}</Text> : null}
@@ -186,6 +193,7 @@ function WishesGrid({ roster, wishes, silent, people, shifts }: { roster: Roster
           onClose={() => setPicked(null)}
         />
       ) : null}
+      {picked ? <PersonOutcome roster={roster} personId={picked.personId} personName={nameOf(picked.personId)} wishes={wishes} shifts={shifts} /> : null}
       <View style={styles.silent} testID="wishes-silent">
         <Body bold>{quiet.length === 0 ? 'Everyone has stated a wish.' : `Not stated yet (${quiet.length})`}</Body>
         {quiet.length > 0 ? (
@@ -313,15 +321,15 @@ const styles = StyleSheet.create({
   weekNav: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   hint: { minHeight: 46, fontSize: 14 },
   tr: { flexDirection: 'row', alignItems: 'center' },
-  nameCell: { width: NAME_W, paddingRight: space.xs, justifyContent: 'center', minHeight: CELL },
+  nameCell: { paddingRight: space.xs, justifyContent: 'center' },
   name: { fontFamily: fonts.body, fontSize: 14, color: colors.ink },
   sub: { fontFamily: fonts.body, fontSize: 11, color: colors.inkSoft },
   subOver: { color: colors.danger, fontFamily: fonts.bodyBold },
-  headCell: { width: CELL, alignItems: 'center', paddingVertical: 2, borderRadius: radius.sm },
+  headCell: { alignItems: 'center', paddingVertical: 2, borderRadius: radius.sm },
   weekend: { backgroundColor: colors.loomSoft },
   headDay: { fontFamily: fonts.bodyBold, fontSize: 12, color: colors.inkSoft },
   headNum: { fontFamily: fonts.bodyBold, fontSize: 14, color: colors.ink },
-  cell: { width: CELL - 4, height: CELL - 4, margin: 2, borderRadius: radius.sm, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.white, alignItems: 'center', justifyContent: 'center' },
+  cell: { width: 34, height: 34, margin: 2, borderRadius: radius.sm, borderWidth: 1, borderColor: colors.line, backgroundColor: colors.white, alignItems: 'center', justifyContent: 'center' },
   cannotCell: { borderWidth: 2 },
   cellOn: { borderColor: colors.thread, borderWidth: 3 },
   glyph: { fontFamily: fonts.bodyBold, fontSize: 18, lineHeight: 20 },
