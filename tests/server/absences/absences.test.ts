@@ -252,8 +252,9 @@ describe('absences API: entry, credit, decisions, staff requests, bad input', ()
         staff.get('/api/absences/conflicts'),
         staff.post('/api/rosters/1/absence-cover').send({}),
       ];
-      for (const res of await Promise.all(calls)) {
-        expect(res.status, `${res.req.method} ${res.req.path}`).toBe(403);
+      const labels = ['GET list', 'POST create', 'PATCH', 'POST decision', 'DELETE', 'GET settings', 'PUT settings', 'POST import', 'GET conflicts', 'POST absence-cover'];
+      for (const [i, res] of (await Promise.all(calls)).entries()) {
+        expect(res.status, labels[i]).toBe(403);
         expect(res.body.error.code).toBe('forbidden');
       }
       expect(await AbsenceRow.count({ where: { id: any.id } })).toBe(1);
