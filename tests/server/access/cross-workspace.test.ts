@@ -34,6 +34,17 @@ const bodies: Record<string, unknown> = {
   'post /api/me/rosters/:rosterId/wishes/weekly': { weekday: 'tue', kind: 'cannot' },
   'patch /api/absences/:id': { note: 'Moved', version: 1 },
   'post /api/absences/:id/decision': { decision: 'approve', version: 1 },
+  'post /api/people/:id/restore': { version: 1 },
+  'post /api/people/:id/terms': { term: { kind: 'noNights' }, effectiveFrom: '2027-01-01' },
+  'patch /api/people/:id/terms/:termId': { effectiveFrom: '2027-01-02', version: 1 },
+  'patch /api/rosters/:rosterId/wishes/:id': { kind: 'avoid' },
+  'post /api/rosters/:rosterId/suggestion/adopt': { suggestionId: 1 },
+  'post /api/rosters/:rosterId/suggestion/dismiss': { suggestionId: 1 },
+};
+
+/** Queries a GET route validates before it looks up the roster (a valid one, so the scope is what answers). */
+const queries: Record<string, string> = {
+  'get /api/rosters/:rosterId/publish-preview': 'runId=1',
 };
 
 /**
@@ -110,7 +121,7 @@ describe('cross-workspace: ids of another workspace are 404 on every route', () 
       }
       const agent = await agentFor(role);
       const key = `${route.method} ${route.path}`;
-      const req = agent[route.method](url);
+      const req = agent[route.method](queries[key] ? `${url}?${queries[key]}` : url);
       const res = route.method === 'get' || route.method === 'delete' ? await req : await req.send((bodies[key] as object) ?? {});
       const text = JSON.stringify(res.body ?? '') + (res.text ?? '');
       const leaked = maker.markers.find((m) => text.includes(m));
