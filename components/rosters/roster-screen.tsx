@@ -10,6 +10,7 @@ import { Loadable, Pill } from './parts';
 import { periodWords } from './format';
 import { SetupSection } from './setup-section';
 import { RulesSection } from './rules-section';
+import { SuggestionSection } from './suggestion-section';
 import { WishesSection } from './wishes-section';
 import { SolveSection } from './solve-section';
 import { ResultSection } from './result-section';
@@ -66,6 +67,7 @@ export function RosterScreen() {
           <View role="tabpanel">
             {section === 'setup' ? <SetupSection roster={r} /> : null}
             {section === 'rules' ? <RulesSection roster={r} /> : null}
+            {section === 'rules' ? <SuggestionSection roster={r} /> : null}
             {section === 'wishes' ? <WishesSection roster={r} /> : null}
             {section === 'solve' ? <SolveSection roster={r} onFinished={(id) => { setChosenRun(id); }} onShowResult={(id) => { setChosenRun(id); setSection('result'); }} /> : null}
             {section === 'result' ? <ResultSection roster={r} runId={runId} runs={runs.data ?? []} onPickRun={setChosenRun} /> : null}

@@ -36,18 +36,28 @@ export async function computeSuggestion(rules: RuleSet, allEdits: StoredEdit[], 
   let edits = allEdits;
   let prefs = toPrefs(edits);
   let result = await learnWeights(rules, prefs, options.learn, signal);
-  // Two edits that undo each other say nothing together: both are left out, and the report says so.
+  // Edits that undo each other cannot all be agreed with: the one that undoes the most others is
+  // left out first (the majority stands), the older one on a tie (the newer says what is wanted now).
   const reversed: string[] = [];
   if (result.contradictions.length > 0) {
     const words = (i: number) => `edit ${edits[i].id} on ${edits[i].rosterName}`;
-    for (const [a, b] of result.contradictions) reversed.push(`${words(b)} undoes ${words(a)}`);
-    const out = new Set(result.contradictions.flat());
+    let pairs = result.contradictions.slice();
+    const out = new Set<number>();
+    while (pairs.length) {
+      const degree = new Map<number, number>();
+      for (const [a, b] of pairs) for (const x of [a, b]) degree.set(x, (degree.get(x) ?? 0) + 1);
+      const worst = [...degree.entries()].sort((x, y) => y[1] - x[1] || x[0] - y[0])[0][0];
+      out.add(worst);
+      const undone = pairs.filter((p) => p.includes(worst)).map(([a, b]) => (a === worst ? b : a));
+      reversed.push(`${words(worst)} is left out: it undoes ${undone.map(words).join(', ')}`);
+      pairs = pairs.filter((p) => !p.includes(worst));
+    }
     const kept = edits.filter((_, i) => !out.has(i));
     if (kept.length < MIN_EDITS_FOR_SUGGESTION) {
       return {
         ok: false,
         reason: 'contradictory',
-        message: `These edits contradict each other: ${reversed.join('; ')}. No weights can agree with both of a pair, so they are left out, and ${kept.length === 1 ? '1 edit is' : `${kept.length} edits are`} left; a suggestion needs at least ${MIN_EDITS_FOR_SUGGESTION}.`,
+        message: `These edits contradict each other: ${reversed.join('; ')}. No weights can agree with both of such a pair, and ${kept.length === 1 ? '1 edit is' : `${kept.length} edits are`} left; a suggestion needs at least ${MIN_EDITS_FOR_SUGGESTION}.`,
         pairs: result.contradictions.map(([x, y]) => [edits[x].id, edits[y].id]),
       };
     }

@@ -1,0 +1,9 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { apiFetch } from './api-client';
+import type { SuggestionAnswer } from '@/shared/api/suggestion';
+
+export const getSuggestion = (rosterId: number) => apiFetch<SuggestionAnswer>(`/rosters/${rosterId}/suggestion`);
+
+export const suggestionQueryOptions = (rosterId: number) => queryOptions({ queryKey: ['rosters', rosterId, 'suggestion'], queryFn: () => getSuggestion(rosterId) });
+
+export const useSuggestion = (rosterId: number) => useQuery(suggestionQueryOptions(rosterId));

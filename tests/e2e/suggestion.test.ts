@@ -1,0 +1,78 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { launch, openPage, screenshot, WIDE, signIn } from './helpers/browser';
+
+const ROSTER = 'Willowmere House, January 2027';
+
+/**
+ * Weights from a coordinator's edits, end to end: five hand edits saved in the browser (each
+ * leaves a filled seat open), then on the Rules tab the suggestion in words, adopted; the roster's
+ * rules then carry the suggested weights and the suggestion says who adopted it.
+ */
+describe('weight suggestion from real edits', () => {
+  let browser: Browser;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser.close();
+  });
+
+  it('suggests weights after five saved edits, and adopting changes the rules on record', { timeout: 400_000 }, async () => {
+    const { page, problems, close } = await openPage(browser, WIDE);
+    const shot = (name: string) => screenshot(page, `suggestion-${name}`);
+    await signIn(page);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
+    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
+    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    const rosterId = page.url().match(/rosters\/(\d+)/)![1];
+    if (await page.getByText('Published and frozen').isVisible()) {
+      await page.getByTestId('section-publish').click();
+      await page.getByTestId('publish-reopen').click();
+      await page.getByTestId('publish-go').waitFor();
+    }
+    await page.getByTestId('section-solve').click();
+    await page.getByTestId('solve-seconds').fill('3');
+    await page.getByTestId('solve-start').click();
+    await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
+    await page.getByTestId('run-show-result').click();
+    await page.getByTestId('result-summary').waitFor();
+    const before = await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json();
+
+    for (let i = 0; i < 5; i++) {
+      await page.getByTestId('section-edit').click();
+      await page.getByTestId('edit-panel').waitFor();
+      // not Hattie Lowther's seat: another test pins her, and leaving a pinned seat open breaks the pin
+      const seat = page.locator('[data-testid^="edit-seat-"]').filter({ hasNotText: /^open/ }).filter({ hasNotText: 'Hattie Lowther' }).nth(i);
+      await seat.click();
+      await page.getByTestId('edit-people').getByRole('button', { name: 'Leave open' }).click();
+      await page.getByTestId('edit-score').getByText(/1 seat changed/).waitFor({ timeout: 30_000 });
+      await page.getByTestId('edit-save').click();
+      await page.getByTestId('result-summary').getByText(/hand-edited/).waitFor({ timeout: 30_000 });
+    }
+    const recorded = await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json();
+    expect(recorded.edits).toBe(Math.min(60, before.edits + 5));
+
+    await page.getByTestId('section-rules').click();
+    await page.getByTestId('suggestion-section').waitFor();
+    await page.getByTestId('suggestion-create').click();
+    const words = page.getByTestId('suggestion-words');
+    await words.waitFor({ timeout: 120_000 });
+    expect(await words.textContent()).toMatch(/^Your edits suggest: .+ → .+ \(from \d+ edits over \d+ rosters?\)$/);
+    await shot('1-open');
+
+    const open = (await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json()).suggestion;
+    expect(open.status).toBe('open');
+    await page.getByTestId('suggestion-adopt').click();
+    await page.getByTestId('suggestion-decided').getByText(/adopted by/).waitFor({ timeout: 30_000 });
+    await shot('2-adopted');
+
+    const rules = (await (await page.request.get(`/api/rosters/${rosterId}/rules`)).json()).rules;
+    for (const w of open.weights) expect(rules[w.key].weight).toBe(w.to);
+    const after = (await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json()).suggestion;
+    expect(after).toMatchObject({ id: open.id, status: 'adopted', decidedBy: expect.any(String) });
+    expect(after.decidedAt).not.toBeNull();
+    expect(problems).toEqual([]);
+    await close();
+  });
+});
