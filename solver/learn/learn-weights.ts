@@ -59,7 +59,7 @@ export type LearnResult = {
   disagreeAfter: number[];
   /** Pairs of edits that undo each other: no weights can agree with both. */
   contradictions: [number, number][];
-  /** Edits no weights of rules can explain: they change no rule's count and lose wish or pairing points. */
+  /** Edits no non-negative weights can explain: they lower no rule's count and gain no wish or pairing points. */
   unexplainable: number[];
   objective: number;
   rounds: number;
@@ -174,7 +174,8 @@ export async function learnWeights(rules: RuleSetLike, preferences: readonly Pre
   const tiny = (x: number, scale: number) => Math.abs(x) <= 1e-9 * Math.max(1, scale);
   examples.forEach((a, i) => {
     const ra = a.rivals[0];
-    if (ra.d.every((x) => tiny(x, 1)) && ra.e <= 0) unexplainable.push(a.index);
+    // no w ≥ 0 puts the kept roster ahead when it breaks no rule less and gains no wish or pairing points
+    if (ra.d.every((x) => x <= 1e-9) && ra.e <= 0) unexplainable.push(a.index);
     for (let j = i + 1; j < examples.length; j++) {
       const rb = examples[j].rivals[0];
       const scale = ra.d.reduce((m, x) => m + Math.abs(x), Math.abs(ra.e));

@@ -13,10 +13,11 @@ type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
  * preference; fewer than 5 is a 422 naming the field; edits that undo each other are said to;
  * adopting changes the roster's rules and records who and when; staff may not see any of it.
  *
- * The roster: three people, one day shift of two seats Mon–Fri; Cleo has a contract of 16 h a
- * week (target 16 h over the 5 days). The solver shares the seats; the coordinator keeps moving
- * Cleo off, which costs contracted hours and wins nothing else: their edits say the contracted
- * hours rule weighs less for them.
+ * The roster: three people, one day shift of three seats Mon–Fri, so everyone works every day;
+ * Cleo (16 h a week) would rather not work any day (an avoid wish of 7 points each). An open seat
+ * costs 100, so the solver keeps her on; the coordinator keeps leaving her seats open, giving up
+ * a seat for her wish and her contracted hours: their edits say an open seat weighs less, against
+ * contracted hours, than the current weights say.
  */
 describe('weight suggestions API', () => {
   let db: TestDb;
@@ -30,7 +31,7 @@ describe('weight suggestions API', () => {
 
   const solve = async () => {
     const start = await coordinator.post(`/api/rosters/${rosterId}/runs`).send({ timeLimitSeconds: 2, seed: 1 });
-    expect(start.status).toBe(202);
+    expect(start.status, JSON.stringify(start.body)).toBe(202);
     expect(await worker.tick()).toBe(start.body.id);
     return (await coordinator.get(`/api/runs/${start.body.id}`)).body as { id: number; assignments: Array<{ seatId: number; personId: number | null }> };
   };
@@ -59,8 +60,12 @@ describe('weight suggestions API', () => {
     }
     const roster = await coordinator.post('/api/rosters').send({ name: 'Sallowfield, first week', periodStart: '2027-03-01', periodEnd: '2027-03-05', timeZone: 'Europe/London' });
     rosterId = roster.body.id;
-    const pattern = await coordinator.post(`/api/rosters/${rosterId}/patterns`).send({ label: 'day', weekdays: ['mon', 'tue', 'wed', 'thu', 'fri'], startTime: '08:00', endTime: '16:00', seats: [{ skillId: null, count: 2 }] });
+    const pattern = await coordinator.post(`/api/rosters/${rosterId}/patterns`).send({ label: 'day', weekdays: ['mon', 'tue', 'wed', 'thu', 'fri'], startTime: '08:00', endTime: '16:00', seats: [{ skillId: null, count: 3 }] });
     expect(pattern.status).toBe(201);
+    for (const day of ['01', '02', '03', '04', '05']) {
+      const wish = await coordinator.post(`/api/rosters/${rosterId}/wishes`).send({ personId: people[2].id, date: `2027-03-${day}`, kind: 'avoid', strength: 7 });
+      expect(wish.status).toBe(201);
+    }
   });
   afterAll(async () => {
     await worker.stop();
@@ -90,10 +95,10 @@ describe('weight suggestions API', () => {
   it('says so when edits undo each other and too few are left', { timeout: 120_000 }, async () => {
     const run = await solve();
     const seat = run.assignments.find((a) => a.personId === people[2].id)!;
-    const other = [people[0].id, people[1].id].find((p) => !run.assignments.some((a) => a.personId === p && a.seatId !== seat.seatId && sameDay(run, a.seatId, seat.seatId)));
-    const open = await save(run, seat.seatId, other ?? null);
-    await save(open, seat.seatId, people[2].id); // back again
-    for (let i = 0; i < 3; i++) await save(run, seat.seatId, other ?? null);
+    // leave Cleo's seat open, put her back, then open it three more times: the second edit undoes each of the others
+    const open = await save(run, seat.seatId, null);
+    await save(open, seat.seatId, people[2].id);
+    for (let i = 0; i < 3; i++) await save(run, seat.seatId, null);
     const res = await coordinator.post(`/api/rosters/${rosterId}/suggestion`);
     expect(res.status).toBe(422);
     expect(res.body.error.message).toMatch(/contradict each other/);
@@ -115,7 +120,7 @@ describe('weight suggestions API', () => {
     expect(s.report.contradictions.length).toBeGreaterThan(0);
     const cov = s.weights.find((w: { key: string }) => w.key === 'coverage');
     const contracted = s.weights.find((w: { key: string }) => w.key === 'contractedHours');
-    // leaving a seat open to keep Cleo off: coverage down or contracted hours down relative to it
+    // each edit gives up a seat (coverage) for 7 wish points and up to 8 hours nearer Cleo's contract
     expect(cov.to / Math.max(contracted.to, 1e-9)).toBeLessThan(cov.from / contracted.from);
     expect(s.report.agreeAfter).toBeGreaterThan(s.report.agreeBefore);
     expect(s.report.past[0]).toMatchObject({ rosterId, rosterName: 'Sallowfield, first week' });
@@ -147,9 +152,3 @@ describe('weight suggestions API', () => {
     expect((await them.post(`/api/rosters/${rosterId}/suggestion`)).status).toBe(404);
   });
 });
-
-/** Both seats on the same shift day (the seat ids of one shift come from one pattern day). */
-function sameDay(run: { assignments: Array<{ seatId: number }> }, a: number, b: number): boolean {
-  const ids = run.assignments.map((x) => x.seatId).sort((x, y) => x - y);
-  return Math.floor(ids.indexOf(a) / 2) === Math.floor(ids.indexOf(b) / 2);
-}
