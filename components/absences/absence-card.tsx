@@ -23,7 +23,11 @@ export function AbsenceCard({ absence: a, showName = true }: { absence: AbsenceD
       </View>
     );
   }
-  const who = [a.requestedByName ? `asked by ${a.requestedByName}` : null, a.decidedByName ? `${a.status === 'declined' ? 'declined' : 'approved'} by ${a.decidedByName}` : null].filter(Boolean).join(', ');
+  // A coordinator's own entry is asked and approved by the same person: say it once.
+  const who =
+    a.requestedByName && a.requestedByName === a.decidedByName
+      ? `entered by ${a.requestedByName}`
+      : [a.requestedByName ? `asked by ${a.requestedByName}` : null, a.decidedByName ? `${a.status === 'declined' ? 'declined' : 'approved'} by ${a.decidedByName}` : null].filter(Boolean).join(', ');
   return (
     <View style={styles.card} testID={`absence-${a.id}`}>
       <View style={styles.head}>
