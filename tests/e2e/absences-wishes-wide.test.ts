@@ -102,6 +102,8 @@ describe('absences, terms and the wishes view', () => {
     const staff = await openPage(browser, PHONE);
     await signIn(staff.page, 'staff@willowmere.example');
     await staff.page.goto('/wishes');
+    // The rosters load first; with more than one being planned, a picker chooses ours.
+    await staff.page.getByTestId('roster-wishes').waitFor();
     const picker = staff.page.getByTestId('roster-picker');
     if (await picker.count()) await picker.getByRole('radio', { name: ROSTER }).click();
     await staff.page.getByTestId('roster-wishes').getByText(ROSTER).waitFor();
