@@ -62,6 +62,7 @@ describe('weight suggestion from real edits', () => {
     await shot('1-open');
 
     const open = (await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json()).suggestion;
+    const rulesBefore = (await (await page.request.get(`/api/rosters/${rosterId}/rules`)).json()).rules;
     expect(open.status).toBe('open');
     await page.getByTestId('suggestion-adopt').click();
     await page.getByTestId('suggestion-decided').getByText(/adopted by/).waitFor({ timeout: 30_000 });
@@ -73,6 +74,11 @@ describe('weight suggestion from real edits', () => {
     expect(after).toMatchObject({ id: open.id, status: 'adopted', decidedBy: expect.any(String) });
     expect(after.decidedAt).not.toBeNull();
     expect(problems).toEqual([]);
+
+    // The demo roster is shared by the other browser tests, which expect its own weights: put them back.
+    const current = await (await page.request.get(`/api/rosters/${rosterId}/rules`)).json();
+    const restored = await page.request.put(`/api/rosters/${rosterId}/rules`, { data: { rules: rulesBefore, version: current.version }, headers: { 'x-rotaloom-csrf': '1' } });
+    expect(restored.status()).toBe(200);
     await close();
   });
 });
