@@ -6,7 +6,8 @@ import { localDateTimeToInstant } from '../../shared/roster/time';
 import { formatDay } from '../../shared/roster/derive';
 import { AssignmentRow, Roster, RunRow, SeatRow, ShiftRow } from './models';
 import { findRoster, toRosterDto } from './repository';
-import { buildCalendar, buildCsv, type CalendarEvent } from './ical';
+import { buildCalendar, type CalendarEvent } from '../exports/ical';
+import { buildCsv } from './ical';
 
 /** Every shift of a run with who works it, in start order; the data the mails and files are made from. */
 export async function runShifts(workspaceId: number, rosterId: number, runId: number) {
@@ -75,8 +76,9 @@ async function exportView(workspaceId: number, rosterId: number, runId?: number)
     return { rosterId: roster.id, rosterName: snap.rosterName, timeZone: snap.timeZone, workspaceName: snap.workspaceName, stamp: new Date(snap.publishedAt), shifts: snap.shifts };
   }
   const workspace = await Workspace.findByPk(workspaceId);
-  const { shifts } = await runShifts(workspaceId, rosterId, runId);
-  return { rosterId: roster.id, rosterName: roster.name, timeZone: roster.timeZone, workspaceName: workspace?.name ?? null, stamp: undefined, shifts };
+  const { run, shifts } = await runShifts(workspaceId, rosterId, runId);
+  // The run row's last write (its finish), so two downloads of one run give the same bytes.
+  return { rosterId: roster.id, rosterName: roster.name, timeZone: roster.timeZone, workspaceName: workspace?.name ?? null, stamp: new Date(run.updatedAt), shifts };
 }
 
 /** The person a per-person export is for: by the name the file was published with, else as they are now. */
@@ -116,13 +118,14 @@ export async function exportIcs(workspaceId: number, rosterId: number, q: { runI
       uid: person ? `roster${view.rosterId}-shift${s.id}-person${person.id}@rotaloom` : `roster${view.rosterId}-shift${s.id}@rotaloom`,
       start,
       end,
+      stamp: view.stamp,
       summary: person ? `${capital(s.label)} shift` : `${capital(s.label)} shift: ${s.people.map((p) => p.name).join(', ')}`,
       description: `${view.rosterName}\n${capital(s.label)} shift, ${time(s.startsLocal)}–${time(s.endsLocal)} (${view.timeZone})\nOn this shift: ${s.people.map((p) => p.name).join(', ')}`,
       location: view.workspaceName ?? undefined,
     });
   }
   const name = person ? `${person.name} — ${view.rosterName}` : view.rosterName;
-  return { filename: `${slug(view.rosterName)}${person ? `-${slug(person.name)}` : ''}.ics`, body: buildCalendar({ name, events, now: view.stamp }) };
+  return { filename: `${slug(view.rosterName)}${person ? `-${slug(person.name)}` : ''}.ics`, body: buildCalendar({ name, product: 'Published roster', publish: true, events }) };
 }
 
 const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);

@@ -3,7 +3,7 @@ import { Person, Workspace } from '../db/models';
 import { transactionWithRetry } from '../db/sequelize';
 import { ShiftRow } from '../rosters/models';
 import type { MyFeedAnswer } from '../../shared/api/staff';
-import { buildCalendar, type FeedEvent } from './ical';
+import { buildCalendar, type CalendarEvent } from '../exports/ical';
 import { CalendarFeedRow } from './models';
 import { publishedShiftsOf } from './shifts';
 
@@ -49,7 +49,7 @@ export async function calendarForToken(token: string): Promise<string | null> {
   const rosterById = new Map(rosters.map((r) => [r.id, r]));
   const shiftRows = shifts.length ? await ShiftRow.findAll({ where: { workspaceId: feed.workspaceId, id: shifts.map((s) => s.shiftId) }, attributes: ['id', 'version', 'updatedAt'] }) : [];
   const shiftById = new Map(shiftRows.map((s) => [s.id, s]));
-  const events: FeedEvent[] = shifts.map((s) => {
+  const events: CalendarEvent[] = shifts.map((s) => {
     const roster = rosterById.get(s.rosterId)!;
     const row = shiftById.get(s.shiftId);
     const published = new Date(roster.publishedAt ?? roster.updatedAt);
@@ -65,7 +65,17 @@ export async function calendarForToken(token: string): Promise<string | null> {
       lastModified: changed,
       summary: `${s.label} shift · ${workspace?.name ?? 'Rotaloom'}`,
       description: `${s.rosterName}, ${s.startsLocal.slice(11, 16)}–${s.endsLocal.slice(11, 16)} (${s.timeZone}). ${others}`,
+      confirmed: true,
     };
   });
-  return buildCalendar({ name: `${person.name} · ${workspace?.name ?? 'Rotaloom'} shifts`, events });
+  return buildCalendar({
+    name: `${person.name} · ${workspace?.name ?? 'Rotaloom'} shifts`,
+    product: 'Published shifts',
+    events,
+    // Shown in the workspace's zone, so a calendar app displays the shift at the wall-clock time
+    // people were told, and edits to it stay in that zone.
+    timeZone: workspace?.timeZone ?? 'UTC',
+    // Calendar apps that honour it look again every hour, so a re-publish shows up the same day.
+    refreshSeconds: 3600,
+  });
 }

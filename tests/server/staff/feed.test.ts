@@ -1,5 +1,4 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import ICAL from 'ical.js';
 import request from 'supertest';
 import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
@@ -7,6 +6,7 @@ import { agent, makeApp, makeUser, makeWorkspace, PASSWORD, signedIn } from '../
 import { Person, type Workspace } from '../../../server/db/models';
 import { makeApiRoster } from '../rosters/fixtures';
 import { publishDirectly, seatsOf } from './publish-helper';
+import { readCalendar, readEvents, type ReadEvent } from '../helpers/ical-read';
 
 type Agent = ReturnType<typeof agent>;
 
@@ -25,32 +25,12 @@ const EXPECTED = {
   'early 2027-03-30': ['2027-03-30T06:00:00.000Z', '2027-03-30T14:00:00.000Z'], // Tue, BST
 } as const;
 
-interface Parsed {
-  uid: string;
-  start: string;
-  end: string;
-  sequence: number;
-  stamp: string;
-  summary: string;
-  description: string;
-}
+type Parsed = ReadEvent;
 
-/** The feed as ical.js (an independent RFC 5545 parser from npm) reads it. */
+/** The feed as ical.js (an independent RFC 5545 parser from npm) reads it, with the VTIMEZONE the feed carries. */
 function parse(text: string): Parsed[] {
-  const vcal = new ICAL.Component(ICAL.parse(text));
-  expect(vcal.name).toBe('vcalendar');
-  return vcal.getAllSubcomponents('vevent').map((c) => {
-    const e = new ICAL.Event(c);
-    return {
-      uid: e.uid,
-      start: e.startDate.toJSDate().toISOString(),
-      end: e.endDate.toJSDate().toISOString(),
-      sequence: e.sequence,
-      stamp: (c.getFirstPropertyValue('dtstamp') as ICAL.Time).toJSDate().toISOString(),
-      summary: e.summary,
-      description: e.description,
-    };
-  });
+  expect(readCalendar(text).name).toBe('vcalendar');
+  return readEvents(text);
 }
 
 describe('calendar feed: private iCalendar subscription across a daylight-saving change', () => {
@@ -146,6 +126,11 @@ describe('calendar feed: private iCalendar subscription across a daylight-saving
       'early 2027-03-29': EXPECTED['early 2027-03-29'],
     });
     expect(new Set(first.map((e) => e.uid)).size).toBe(5);
+    // Local times in the workspace's zone (RFC 5545 §3.3.5 form #3) with the zone's VTIMEZONE (§3.6.5),
+    // and the instants above are what ical.js makes of them from that VTIMEZONE.
+    expect(workspace.timeZone).toBe('Europe/London');
+    expect(res.text).toContain('BEGIN:VTIMEZONE\r\nTZID:Europe/London\r\n');
+    expect(first.map((e) => e.startZone)).toEqual(Array(5).fill('Europe/London'));
     // Co-workers by name (unfolded intact by the parser); the colleague's own shift on the 31st is not in this feed.
     expect(first.find((e) => e.start === EXPECTED['early 2027-03-26'][0])!.description).toContain(`With ${colleague.name}.`);
     expect(first.some((e) => e.start.startsWith('2027-03-31'))).toBe(false);
