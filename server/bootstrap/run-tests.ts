@@ -48,7 +48,10 @@ function readVitestJson(file: string): Tally | null {
  * stopped again, also when something fails.
  */
 async function main(): Promise<number> {
-  const only = process.argv.slice(2); // e.g. `npm test -- unit` or `npm test -- e2e`
+  // e.g. `npm test -- unit` or `npm test -- e2e`; test file paths after the part run only those files
+  const args = process.argv.slice(2);
+  const files = args.filter((a) => a.includes('/') || a.endsWith('.ts'));
+  const only = args.filter((a) => !files.includes(a));
   // After Ctrl-C the step in progress ends on its own; the steps after it are skipped.
   const wants = (part: string) => !interrupted && (only.length === 0 || only.includes(part));
   ensureDebianPackages(wants('e2e') ? [...MARIADB, ...REDIS, ...CHROMIUM] : [...MARIADB, ...REDIS]);
@@ -82,7 +85,7 @@ async function main(): Promise<number> {
     if (wants('unit')) {
       log('unit and API tests (vitest)');
       const out = path.join(tmp, 'unit.json');
-      await run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`], childEnv);
+      await run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`, ...files], childEnv);
       add(readVitestJson(out), 'unit and API tests');
     }
 
@@ -114,7 +117,7 @@ async function main(): Promise<number> {
       const url = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
       log(`browser tests (Chromium through playwright-core) against ${url}`);
       const out = path.join(tmp, 'e2e.json');
-      await run(bin('vitest'), ['run', '-c', 'tests/e2e/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`], {
+      await run(bin('vitest'), ['run', '-c', 'tests/e2e/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`, ...files], {
         ...childEnv,
         ROTALOOM_E2E_URL: url,
         ROTALOOM_MAIL_FAKE_URL: `http://127.0.0.1:${fakes.mail.httpPort}`,
