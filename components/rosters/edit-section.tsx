@@ -14,6 +14,7 @@ import { Body } from '@/components/ui/typography';
 import { Loadable, Panel, Pill } from './parts';
 import { dayWords, points, timeOf } from './format';
 import { useRosterView } from './use-roster-view';
+import { stickyTop } from './grid/sticky';
 
 interface Draft {
   runId: number;
@@ -68,13 +69,22 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
     setDraft({ ...draft, assignment: { ...draft.assignment, [String(picked)]: b, [String(seatId)]: a } });
     setPicked(null);
   };
+  // People for the picked seat: never its own holder; those already on a shift that day listed apart.
+  const candidates = (() => {
+    if (!pickedSeat) return { free: [], busy: [] };
+    const dayOf = pickedSeat.shift.startsLocal.slice(0, 10);
+    const working = new Set(view.seats.filter((s) => s.shift.startsLocal.slice(0, 10) === dayOf && s.personId !== null).map((s) => s.personId));
+    const able = view.people.filter((p) => p.id !== pickedSeat.personId && (pickedSeat.skillId === null || p.skillIds.includes(pickedSeat.skillId)));
+    return { free: able.filter((p) => !working.has(p.id)), busy: able.filter((p) => working.has(p.id)) };
+  })();
   const hard = score.data?.violations.filter((v) => v.hard) ?? [];
   const soft = (score.data?.violations.filter((v) => !v.hard) ?? []).sort((x, y) => (x.points ?? 0) - (y.points ?? 0));
 
   return (
     <View style={{ gap: space.lg }}>
       <Panel title="Edit by hand" lead="Tap a seat, then a person to move them there, or tap a second seat to swap the two. The score and rule checks update as you go." testID="edit-panel">
-        <View style={styles.scoreRow} testID="edit-score" aria-live="polite">
+        {/* The live score stays in view (pinned to the top while the day's seats scroll under it). */}
+        <View style={[styles.scoreRow, styles.scoreSticky, stickyTop]} testID="edit-score" aria-live="polite">
           <Pill tone={score.data && !score.isPlaceholderData ? (score.data.feasible ? 'good' : 'bad') : 'plain'}>{score.data && !score.isPlaceholderData ? (score.data.feasible ? `${points(score.data.total)} points` : 'breaks a hard rule') : 'scoring…'}</Pill>
           <Body muted>{`Solver's roster: ${points(run.score)} points · ${changed} seat${changed === 1 ? '' : 's'} changed`}</Body>
         </View>
@@ -115,12 +125,20 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
             <Body bold>{`Move someone into this ${pickedSeat.skillName} seat`}</Body>
             <View style={styles.seats}>
               <Button kind="quiet" label="Leave open" onPress={() => { place(pickedSeat.seatId, null); setPicked(null); }} />
-              {view.people
-                .filter((p) => pickedSeat.skillId === null || p.skillIds.includes(pickedSeat.skillId))
-                .map((p) => (
-                  <Button key={p.id} kind="quiet" label={p.name} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
-                ))}
+              {candidates.free.map((p) => (
+                <Button key={p.id} kind="quiet" label={p.name} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
+              ))}
             </View>
+            {candidates.busy.length ? (
+              <>
+                <Body muted>Already working that day (a second shift is rarely wanted):</Body>
+                <View style={styles.seats}>
+                  {candidates.busy.map((p) => (
+                    <Button key={p.id} kind="quiet" label={`${p.name} (works that day)`} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
+                  ))}
+                </View>
+              </>
+            ) : null}
           </View>
         ) : null}
       </Panel>
@@ -160,6 +178,7 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
 
 const styles = StyleSheet.create({
   scoreRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.md },
+  scoreSticky: { backgroundColor: colors.card, paddingVertical: space.sm, borderBottomWidth: 1, borderBottomColor: colors.line },
   dayNav: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   shift: { gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.sm },
   seats: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },

@@ -1,9 +1,11 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, space } from '@/constants/theme';
 import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import { useRun } from '@/hooks/api/get-run';
 import { usePublishRoster } from '@/hooks/api/publish-roster';
 import { useReopenRoster } from '@/hooks/api/reopen-roster';
+import { usePublishPreview } from '@/hooks/api/get-publish-preview';
 import type { RosterDto } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -36,7 +38,7 @@ export function PublishSection({ roster, runId }: { roster: RosterDto; runId: nu
             {roster.status === 'published' ? (
               <Button kind="quiet" label="Reopen for changes" onPress={() => reopen.mutate({ rosterId: roster.id, version: roster.version })} busy={reopen.isPending} testID="publish-reopen" />
             ) : (
-              <Button label="Publish and e-mail staff" onPress={() => publish.mutate({ rosterId: roster.id, runId: r.id, version: roster.version })} busy={publish.isPending} disabled={r.status !== 'done' || !r.result?.feasible} testID="publish-go" />
+              <PublishConfirm roster={roster} runId={r.id} disabled={r.status !== 'done' || !r.result?.feasible} busy={publish.isPending} onConfirm={() => publish.mutate({ rosterId: roster.id, runId: r.id, version: roster.version })} />
             )}
             {publish.data ? (
               <View style={{ gap: space.xs }} testID="publish-mail-report">
@@ -75,7 +77,41 @@ export function PublishSection({ roster, runId }: { roster: RosterDto; runId: nu
   );
 }
 
+/** Publishing mails people at once, so it asks first, naming who will be mailed and whose shifts changed. */
+function PublishConfirm({ roster, runId, disabled, busy, onConfirm }: { roster: RosterDto; runId: number; disabled: boolean; busy: boolean; onConfirm: () => void }) {
+  const [asking, setAsking] = useState(false);
+  const preview = usePublishPreview(roster.id, asking ? runId : null);
+  if (!asking) return <Button label="Publish and e-mail staff…" onPress={() => setAsking(true)} disabled={disabled} testID="publish-go" />;
+  const p = preview.data;
+  const names = (list: Array<{ name: string }>) => list.map((x) => x.name).join(', ');
+  return (
+    <View style={styles.confirm} role="alertdialog" aria-label="Confirm publishing" testID="publish-confirm">
+      <Body bold>{p && !p.firstPublication ? 'Publish again? Only people whose shifts changed are told.' : 'Publish and e-mail everyone on the roster?'}</Body>
+      {preview.error ? <Notice>{`Who would be mailed could not be worked out: ${preview.error.message}`}</Notice> : null}
+      {!p && !preview.error ? <Body muted>Working out who will be mailed…</Body> : null}
+      {p ? (
+        <>
+          <Body testID="publish-confirm-mail">{p.willMail.length ? `E-mail to ${p.willMail.length}: ${p.willMail.map((m) => `${m.name} (${m.to})`).join(', ')}.` : 'Nobody will be e-mailed.'}</Body>
+          {p.noAddress.length ? <Body muted testID="publish-confirm-noaddress">{`No address, so not mailed: ${names(p.noAddress)}.`}</Body> : null}
+          <Body muted testID="publish-confirm-changed">
+            {p.firstPublication
+              ? `${p.changed.length} ${p.changed.length === 1 ? 'person has' : 'people have'} shifts in this roster.`
+              : p.changed.length
+                ? `Shifts changed for ${p.changed.map((c) => `${c.name} (${c.added ? `+${c.added}` : ''}${c.added && c.removed ? ' ' : ''}${c.removed ? `−${c.removed}` : ''})`).join(', ')}; ${p.unchanged} unchanged.`
+                : `Nobody's shifts changed against the earlier publication (${p.unchanged} unchanged).`}
+          </Body>
+        </>
+      ) : null}
+      <View style={styles.links}>
+        <Button label={p ? `Publish${p.willMail.length ? ` and send ${p.willMail.length} e-mail${p.willMail.length === 1 ? '' : 's'}` : ''}` : 'Publish'} onPress={onConfirm} busy={busy} disabled={!p} testID="publish-confirm-go" />
+        <Button kind="quiet" label="Not now" onPress={() => setAsking(false)} disabled={busy} testID="publish-confirm-cancel" />
+      </View>
+    </View>
+  );
+}
+
 const styles = StyleSheet.create({
+  confirm: { gap: space.sm, padding: space.md, borderRadius: 8, borderWidth: 2, borderColor: colors.thread, backgroundColor: colors.white },
   links: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   person: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.xs },
 });

@@ -10,6 +10,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { TextField } from '@/components/ui/text-field';
+import { DateField } from '@/components/ui/date-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
 import { Loadable, Panel, Pill } from './parts';
@@ -26,7 +27,8 @@ export function RostersScreen() {
     <View style={styles.page}>
       <Heading>Rosters</Heading>
       <RosterList />
-      <CreateRoster timeZone={session?.workspace?.timeZone} />
+      {/* Waits for the session so a new roster starts in the workspace's time zone, not a guess. */}
+      {session ? <CreateRoster timeZone={session.workspace?.timeZone} /> : null}
     </View>
   );
 }
@@ -76,10 +78,10 @@ function CreateRoster({ timeZone }: { timeZone?: string }) {
       <TextField label="Name" value={name} onChangeText={setName} error={fieldError(errors, create.error, 'name')} testID="roster-name" />
       <View style={styles.row}>
         <View style={styles.cell}>
-          <TextField label="First day (YYYY-MM-DD)" value={periodStart} onChangeText={setStart} placeholder="2027-02-01" error={fieldError(errors, create.error, 'periodStart')} testID="roster-start" />
+          <DateField label="First day" value={periodStart} onChange={setStart} error={fieldError(errors, create.error, 'periodStart')} testID="roster-start" />
         </View>
         <View style={styles.cell}>
-          <TextField label="Last day (YYYY-MM-DD)" value={periodEnd} onChangeText={setEnd} placeholder="2027-02-28" error={fieldError(errors, create.error, 'periodEnd')} testID="roster-end" />
+          <DateField label="Last day" value={periodEnd} onChange={setEnd} minDate={/^\d{4}-\d{2}-\d{2}$/.test(periodStart) ? periodStart : undefined} error={fieldError(errors, create.error, 'periodEnd')} testID="roster-end" />
         </View>
       </View>
       <TextField label="Time zone (IANA, e.g. Europe/London)" value={zone} onChangeText={setZone} autoCapitalize="none" error={fieldError(errors, create.error, 'timeZone')} testID="roster-zone" />

@@ -13,6 +13,8 @@ import type { RosterDto, ShiftDto } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
+import { DateField } from '@/components/ui/date-field';
+import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
 import { Choices, Loadable, Panel } from './parts';
@@ -28,6 +30,12 @@ const WEEKDAYS = [
   { value: 'sun', label: 'Sun' },
 ] as const;
 type Weekday = (typeof WEEKDAYS)[number]['value'];
+
+/** Weekdays Monday first, whatever order they were saved in ("Mon Tue Sat"). */
+export const weekdayWords = (days: string[]) =>
+  WEEKDAYS.filter((w) => days.includes(w.value))
+    .map((w) => w.label)
+    .join(' ');
 
 export function SetupSection({ roster }: { roster: RosterDto }) {
   return (
@@ -65,6 +73,8 @@ function PatternForm({ roster }: { roster: RosterDto }) {
   const frozen = roster.status === 'published';
   const names = ['label', 'weekdays', 'startTime', 'endTime', 'seats', 'count', 'skillId'];
   const error = create.error ?? preview.error;
+  // A published roster is frozen: the form would only lead to a refused save.
+  if (frozen) return <Panel title="Add a shift pattern" testID="pattern-frozen"><Notice kind="info">The roster is published and frozen. Reopen it (Publish) to add or change shift patterns.</Notice></Panel>;
   return (
     <Panel title="Add a shift pattern" lead="A recurring shift: the weekdays it runs, its times, and how many seats of which skill. It makes dated shifts over the whole period.">
       <TextField label="Pattern label" value={label} onChangeText={setLabel} placeholder="early, late, night…" error={fieldError(errors, error, 'label')} testID="pattern-label" />
@@ -73,10 +83,10 @@ function PatternForm({ roster }: { roster: RosterDto }) {
       {fieldError(errors, error, 'weekdays') ? <Notice>{fieldError(errors, error, 'weekdays')!}</Notice> : null}
       <View style={styles.row}>
         <View style={styles.cell}>
-          <TextField label="Starts (HH:mm)" value={startTime} onChangeText={setStart} error={fieldError(errors, error, 'startTime')} testID="pattern-start" />
+          <TimeField label="Starts" value={startTime} onChange={setStart} error={fieldError(errors, error, 'startTime')} testID="pattern-start" />
         </View>
         <View style={styles.cell}>
-          <TextField label="Ends (HH:mm; earlier = next day)" value={endTime} onChangeText={setEnd} error={fieldError(errors, error, 'endTime')} testID="pattern-end" />
+          <TimeField label="Ends (earlier = next day)" value={endTime} onChange={setEnd} error={fieldError(errors, error, 'endTime')} testID="pattern-end" />
         </View>
       </View>
       <Body bold>Seats by skill</Body>
@@ -134,7 +144,7 @@ function PatternList({ roster }: { roster: RosterDto }) {
                 <View key={p.id} style={styles.line}>
                   <View style={{ flex: 1, minWidth: 200 }}>
                     <Body bold>{p.label}</Body>
-                    <Body muted>{`${p.weekdays.join(' ')} · ${p.startTime}–${p.endTime} · ${p.seats.map((s) => `${s.count} × ${name(s.skillId)}`).join(', ')}`}</Body>
+                    <Body muted>{`${weekdayWords(p.weekdays)} · ${p.startTime}–${p.endTime} · ${p.seats.map((s) => `${s.count} × ${name(s.skillId)}`).join(', ')}`}</Body>
                   </View>
                   <Button kind="quiet" label={`Delete ${p.label}`} disabled={roster.status === 'published'} onPress={() => remove.mutate({ rosterId: roster.id, patternId: p.id })} busy={remove.isPending && remove.variables?.patternId === p.id} />
                 </View>
@@ -200,10 +210,12 @@ function ShiftEditor({ roster, shift, onDone }: { roster: RosterDto; shift: Shif
       <TextField label="Shift label" value={label} onChangeText={setLabel} error={fieldError(errors, update.error, 'label')} />
       <View style={styles.row}>
         <View style={styles.cell}>
-          <TextField label="Starts (YYYY-MM-DDTHH:mm)" value={startsLocal} onChangeText={setStarts} error={fieldError(errors, update.error, 'startsLocal')} />
+          <DateField label="Start day" value={startsLocal.slice(0, 10)} onChange={(d) => setStarts(`${d}T${startsLocal.slice(11, 16)}`)} minDate={roster.periodStart} maxDate={roster.periodEnd} testID={`shift-${shift.id}-start-day`} />
+          <TimeField label="Start time" value={startsLocal.slice(11, 16)} onChange={(t) => setStarts(`${startsLocal.slice(0, 10)}T${t}`)} error={fieldError(errors, update.error, 'startsLocal')} testID={`shift-${shift.id}-start-time`} />
         </View>
         <View style={styles.cell}>
-          <TextField label="Ends (YYYY-MM-DDTHH:mm)" value={endsLocal} onChangeText={setEnds} error={fieldError(errors, update.error, 'endsLocal')} />
+          <DateField label="End day" value={endsLocal.slice(0, 10)} onChange={(d) => setEnds(`${d}T${endsLocal.slice(11, 16)}`)} minDate={roster.periodStart} testID={`shift-${shift.id}-end-day`} />
+          <TimeField label="End time" value={endsLocal.slice(11, 16)} onChange={(t) => setEnds(`${endsLocal.slice(0, 10)}T${t}`)} error={fieldError(errors, update.error, 'endsLocal')} testID={`shift-${shift.id}-end-time`} />
         </View>
       </View>
       {seats.map((s, i) => (

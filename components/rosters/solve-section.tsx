@@ -7,6 +7,7 @@ import { useRuns } from '@/hooks/api/get-runs';
 import { useRun } from '@/hooks/api/get-run';
 import { useStartRun } from '@/hooks/api/start-run';
 import { useCancelRun } from '@/hooks/api/cancel-run';
+import { useReopenRoster } from '@/hooks/api/reopen-roster';
 import type { RosterDto, RunDto } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -46,7 +47,11 @@ export function SolveSection({ roster, onFinished, onShowResult }: { roster: Ros
           <TextField label="Or seconds (0.5–600)" value={limit} onChangeText={setLimit} inputMode="decimal" error={limitError ?? undefined} testID="solve-seconds" />
         </View>
         {isBillingRefusal(start.error) ? <PlanLimitPrompt error={start.error} /> : start.error ? <Notice>{start.error.message}</Notice> : null}
-        <Button label={active ? 'A run is in progress' : 'Start solving'} onPress={go} busy={start.isPending} disabled={Boolean(active) || roster.status === 'published'} testID="solve-start" />
+        {roster.status === 'published' ? (
+          <ReopenToSolve roster={roster} />
+        ) : (
+          <Button label={active ? 'A run is in progress' : 'Start solving'} onPress={go} busy={start.isPending} disabled={Boolean(active)} testID="solve-start" />
+        )}
       </Panel>
       {current !== null ? <RunProgress runId={current} onFinished={onFinished} onShowResult={onShowResult} /> : null}
       <Panel title="Runs">
@@ -64,6 +69,18 @@ export function SolveSection({ roster, onFinished, onShowResult }: { roster: Ros
           }
         </Loadable>
       </Panel>
+    </View>
+  );
+}
+
+/** A published roster is frozen; the way to solve it again is on the spot, not only under Publish. */
+function ReopenToSolve({ roster }: { roster: RosterDto }) {
+  const reopen = useReopenRoster();
+  return (
+    <View style={{ gap: space.sm }} testID="solve-frozen">
+      <Notice kind="info">The roster is published, so it is frozen and cannot be solved. Reopen it to solve again; staff keep the published shifts until you publish another run.</Notice>
+      {reopen.error ? <Notice>{reopen.error.message}</Notice> : null}
+      <Button label="Reopen to solve again" onPress={() => reopen.mutate({ rosterId: roster.id, version: roster.version })} busy={reopen.isPending} testID="solve-reopen" />
     </View>
   );
 }

@@ -4,27 +4,14 @@
  * everyone with a shift; a re-publication after a reopen mails only the people whose shifts
  * changed against the run published before (added or removed shifts).
  */
-import { z } from 'zod';
 import { Person, User } from '../db/models';
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { HttpError } from '../http/errors';
 import { rosterIdParams } from '../../shared/api/rosters';
+import { publishPreviewQuery, type PublishPreview } from '../../shared/api/publish-preview';
 import { runShifts } from './publish';
 import { findRoster } from './repository';
-
-export const publishPreviewQuery = z.object({ runId: z.coerce.number({ error: 'name the run to publish' }).int().min(1, 'must be a positive id') });
-
-export interface PublishPreview {
-  runId: number;
-  /** False when a run was published before (the roster was reopened): only changes are mailed. */
-  firstPublication: boolean;
-  willMail: Array<{ personId: number; name: string; to: string; changed: number }>;
-  noAddress: Array<{ personId: number; name: string }>;
-  /** People whose shifts differ from the earlier publication (all people with shifts on a first one). */
-  changed: Array<{ personId: number; name: string; added: number; removed: number }>;
-  unchanged: number;
-}
 
 export async function publishPreview(workspaceId: number, rosterId: number, runId: number): Promise<PublishPreview> {
   const roster = await findRoster(workspaceId, rosterId);
