@@ -26,6 +26,7 @@ import { runWorkflowRouters } from './runs/workflow-router';
 import { publishRouter } from './rosters/publish-router';
 import { rosterPdfRouter } from './rosters/pdf';
 import { publishPreviewRouter } from './rosters/mail-preview';
+import { copyForwardRouter } from './rosters/copy-forward';
 import { absenceCoverRouter, absencesRouter } from './absences/router';
 import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
@@ -80,7 +81,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/people', peopleRouter(), termsRouter());
   const [rosterRunsRouter, runRouter] = runsRouter();
   const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter(), suggestionRouter());
+  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter(), copyForwardRouter(), suggestionRouter());
   api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter());

@@ -16,6 +16,8 @@ import { SolveSection } from './solve-section';
 import { ResultSection } from './result-section';
 import { EditSection } from './edit-section';
 import { PublishSection } from './publish-section';
+import { CopyForwardPanel } from './copy-forward-panel';
+import { Button } from '@/components/ui/button';
 
 const SECTIONS = [
   { key: 'setup', label: 'Shifts' },
@@ -36,6 +38,7 @@ export function RosterScreen() {
   const runs = useRuns(rosterId);
   const [section, setSection] = useState<SectionKey>((SECTIONS.find((s) => s.key === params.section)?.key ?? 'setup') as SectionKey);
   const [chosenRun, setChosenRun] = useState<number | null>(null);
+  const [copying, setCopying] = useState(false);
   // The run the result, edit and publish sections look at: the one picked, else the newest with a roster.
   const latestFinished = useMemo(() => runs.data?.find((r) => r.status === 'done' || (r.status === 'cancelled' && r.score !== null))?.id ?? null, [runs.data]);
   const runId = chosenRun ?? latestFinished;
@@ -54,7 +57,9 @@ export function RosterScreen() {
               <Body muted>{`${periodWords(r.periodStart, r.periodEnd)} · ${r.timeZone}`}</Body>
             </View>
             <Pill tone={r.status === 'published' ? 'good' : r.status === 'solved' ? 'warn' : 'plain'}>{r.status}</Pill>
+            {!copying ? <Button kind="quiet" label="Copy forward…" onPress={() => setCopying(true)} testID="copy-forward-open-panel" /> : null}
           </View>
+          {copying ? <CopyForwardPanel key={r.id} roster={r} onClose={() => setCopying(false)} /> : null}
           {r.status === 'published' ? <Notice kind="info">Published and frozen: shifts, rules, pins and runs are locked until you reopen it (Publish).</Notice> : null}
           {/* Every tab in view: they wrap to a second row on a phone instead of scrolling off the edge. */}
           <View style={styles.tabs} role="tablist" aria-label="Roster sections" testID="roster-tabs">

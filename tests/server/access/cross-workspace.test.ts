@@ -40,6 +40,7 @@ const bodies: Record<string, unknown> = {
   'patch /api/rosters/:rosterId/wishes/:id': { kind: 'avoid' },
   'post /api/rosters/:rosterId/suggestion/adopt': { suggestionId: 1 },
   'post /api/rosters/:rosterId/suggestion/dismiss': { suggestionId: 1 },
+  'post /api/rosters/:rosterId/copy-forward': { name: 'Copied roster', periodStart: '2027-02-01' },
 };
 
 /** Queries a GET route validates before it looks up the roster (a valid one, so the scope is what answers). */
