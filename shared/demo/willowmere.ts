@@ -5,7 +5,7 @@
  * seats need 504 h a week against 533 contracted, three people can lead nights, and
  * tests/shared/demo.test.ts checks a hard-rule-clean roster exists.
  */
-import { rosterSchema, type Roster, type RosterInput, type RuleSet, type ShiftPatternInput, shiftPatternSchema } from '../roster/schema';
+import { rosterSchema, type Person, type Roster, type RosterInput, type RuleSet, type ShiftPatternInput, shiftPatternSchema } from '../roster/schema';
 import { generateShifts } from '../roster/patterns';
 import { addLocalDays } from '../roster/time';
 
@@ -87,6 +87,22 @@ export function makeWillowmereRoster(overrides: WillowmereOverrides = {}): Roste
     { person: 'imogen', date: d(24), kind: 'cannot' as const, strength: 1 },
   ].filter((w) => ('date' in w && w.date ? inPeriod(w.date) : shiftIds.has((w as { shift: string }).shift)));
 
+  // Time away (approved) and per-person terms, in days from the start; credits are the
+  // person's contracted daily hours (a five-day week) for each weekday away.
+  const at = (n: number) => `${d(n)}T00:00`;
+  const absences = [
+    // two weeks of annual leave for a nurse: ten weekdays × 24 h / 5
+    { person: 'marguerite', kind: 'annual' as const, start: at(14), end: at(28), creditHours: 48 },
+    { person: 'jasper', kind: 'sick' as const, start: at(9), end: at(10), creditHours: 7.5 },
+    { person: 'felix', kind: 'training' as const, start: at(3), end: at(4), creditHours: 6 },
+  ].filter((a) => a.start.slice(0, 10) <= period.end);
+  const terms: Record<string, Person['terms']> = {
+    // the mentor works days only
+    priya: [{ kind: 'noNights', hard: true, weight: 10 }],
+    // a part-timer who never works Mondays or Tuesdays
+    niamh: [{ kind: 'daysOff', weekdays: ['mon', 'tue'], hard: true, weight: 10 }],
+  };
+
   const baseRules: RosterInput['rules'] = {
     skillMix: { requirements: [{ skill: 'first-aid', min: 1 }] },
   };
@@ -97,8 +113,9 @@ export function makeWillowmereRoster(overrides: WillowmereOverrides = {}): Roste
     name: 'Willowmere House — four weeks from 4 Jan 2027',
     period,
     skills: WILLOWMERE_SKILLS,
-    people: WILLOWMERE_PEOPLE.map(({ role: _role, ...p }) => p),
+    people: WILLOWMERE_PEOPLE.map(({ role: _role, ...p }) => ({ ...p, terms: terms[p.id] ?? [] })),
     shifts,
+    absences,
     seats,
     wishes,
     pairings: [

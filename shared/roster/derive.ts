@@ -6,8 +6,8 @@
  * not weaken the scorer's independence from the model.
  */
 import { format } from 'date-fns';
-import type { Person, Roster, Shift } from './schema';
-import { daysBetween, isoWeekday, localDateTimeToInstant, parseLocalDate, wallMinutes } from './time';
+import type { Absence, Person, Roster, Shift } from './schema';
+import { addLocalDays, daysBetween, isoWeekday, localDateTimeToInstant, parseLocalDate, wallMinutes } from './time';
 
 export type ShiftFacts = {
   index: number;
@@ -134,4 +134,70 @@ export function describeShift(f: Pick<ShiftFacts, 'patternLabel' | 'date'>): str
 export function formatHours(h: number): string {
   const r = Math.round(h * 100) / 100;
   return `${r} h`;
+}
+
+/** Instant at 00:00 local of the period's day `day` (0 = first day; `periodDays` = the end of the last). */
+export function dayStartMs(roster: Pick<Roster, 'period'>, day: number): number {
+  return localDateTimeToInstant(`${addLocalDays(roster.period.start, day)}T00:00`, roster.period.timeZone);
+}
+
+/**
+ * Person index → the shifts an absence makes them unavailable for (any overlap of the shift's
+ * real span with [start, end)), each with the absence that blocks it.
+ */
+export function absenceBlocks(roster: Roster, facts: ShiftFacts[]): Map<number, Map<number, Absence>> {
+  const personIdx = new Map(roster.people.map((p, i) => [p.id, i]));
+  const out = new Map<number, Map<number, Absence>>();
+  for (const a of roster.absences) {
+    const p = personIdx.get(a.person);
+    if (p === undefined) continue;
+    const s = localDateTimeToInstant(a.start, roster.period.timeZone);
+    const e = localDateTimeToInstant(a.end, roster.period.timeZone);
+    for (const f of facts)
+      if (f.startMs < e && s < f.endMs) {
+        if (!out.has(p)) out.set(p, new Map());
+        out.get(p)!.set(f.index, a);
+      }
+  }
+  return out;
+}
+
+/**
+ * Credited absence hours per person and period day: each absence's creditHours spread evenly
+ * over every local day it touches (a day it covers any minute of, end exclusive); the days that
+ * fall inside the period carry their part. Hours rules add the sum over their days, summed in
+ * day order (creditHoursIn), so the compiler and the scorer get the same floats.
+ */
+export function absenceCredits(roster: Roster): Float64Array[] {
+  const days = periodDays(roster);
+  const personIdx = new Map(roster.people.map((p, i) => [p.id, i]));
+  const out = roster.people.map(() => new Float64Array(days));
+  for (const a of roster.absences) {
+    const p = personIdx.get(a.person);
+    if (p === undefined || a.creditHours === 0) continue;
+    const firstDate = a.start.slice(0, 10);
+    // an end at 00:00 does not touch its day
+    const lastDate = /T00:00(:00)?$/.test(a.end) ? addLocalDays(a.end.slice(0, 10), -1) : a.end.slice(0, 10);
+    const touched = daysBetween(firstDate, lastDate) + 1;
+    if (touched < 1) continue;
+    const perDay = a.creditHours / touched;
+    for (let k = 0; k < touched; k++) {
+      const d = daysBetween(roster.period.start, firstDate) + k;
+      if (d >= 0 && d < days) out[p][d] += perDay;
+    }
+  }
+  return out;
+}
+
+/** Credited hours of person p on days first..last (inclusive), summed in day order. */
+export function creditHoursIn(credits: Float64Array[], p: number, first: number, last: number): number {
+  let t = 0;
+  const row = credits[p];
+  for (let d = Math.max(0, first); d <= last && d < row.length; d++) t += row[d];
+  return t;
+}
+
+/** Day index (from the period start) of a local date, which may lie outside the period. */
+export function dayIndex(roster: Pick<Roster, 'period'>, date: string): number {
+  return daysBetween(roster.period.start, date);
 }

@@ -166,10 +166,10 @@ export const pinSchema = z.object({
  * Every rule: on/off, hard (an assignment breaking it is impossible) or soft (each
  * violation unit costs `weight` points; the unit is named per rule below).
  */
-function rule<T extends z.ZodRawShape>(defaults: { hard: boolean; weight: number }, extra: T) {
+function rule<T extends z.ZodRawShape>(defaults: { hard: boolean; weight: number; enabled?: boolean }, extra: T) {
   return z
     .object({
-      enabled: z.boolean().default(true),
+      enabled: z.boolean().default(defaults.enabled ?? true),
       hard: z.boolean().default(defaults.hard),
       weight: z.number().min(0).max(10_000).default(defaults.weight),
       ...extra,
@@ -194,13 +194,29 @@ export const ruleSetSchema = z.object({
   /** Minimum rest from the end of one shift to the start of a later one (Art. 3: 11 h). Per short gap. */
   minRest: rule({ hard: true, weight: 20 }, { hours: z.number().min(0).max(48).default(11) }),
   /**
-   * Weekly rest (Art. 5: 24 h uninterrupted rest per 7-day period), checked as: in every
-   * `days` consecutive days at most `maxShifts` shifts start, so one day has no shift start.
-   * Per shift over.
+   * Weekly rest (Art. 5 with Art. 16(a)): in every window of `days` consecutive days (7; Art.
+   * 16(a) allows a reference period up to 14), an uninterrupted rest of at least `hours` (35 =
+   * 24 h plus the 11 h daily rest), measured in real time inside the window. Per window without it.
+   * `days` up to 28 still parses so rule sets stored before this rule changed stay valid.
    */
-  weeklyRest: rule({ hard: true, weight: 20 }, { days: z.number().int().min(2).max(28).default(7), maxShifts: z.number().int().min(1).max(56).default(6) }),
-  /** Hours of shifts starting in any 7 consecutive days (Art. 6: 48 h, as an average there). Per hour over. */
-  maxHoursPer7Days: rule({ hard: true, weight: 5 }, { hours: z.number().min(1).max(168).default(48) }),
+  weeklyRest: rule({ hard: true, weight: 20 }, { days: z.number().int().min(2).max(28).default(7), hours: z.number().min(1).max(168).default(35) }),
+  /**
+   * Average weekly working time (Art. 6 with Art. 16(b)): hours worked plus credited absence
+   * hours over a reference period of `referenceDays` (absent = the roster period, at most 123
+   * days ≈ 4 months; shorter than the period = every window of that length) at most
+   * `hours` × days / 7 (a window shorter than a week is held to one week's `hours`). Per hour over.
+   */
+  averageWeeklyHours: rule({ hard: true, weight: 5 }, { hours: z.number().min(1).max(168).default(48), referenceDays: z.number().int().min(1).max(123).optional() }),
+  /**
+   * Night work (Art. 8): a night worker (anyone who can take a night seat, see docs) works at
+   * most `hours` on average per 24 h over `referenceDays` (absent = the roster period), the
+   * weekly rest days left out of the average. Per hour over.
+   */
+  nightAverage: rule({ hard: true, weight: 5 }, { hours: z.number().min(1).max(24).default(8), referenceDays: z.number().int().min(1).max(366).optional() }),
+  /** Local policy, no source (was weeklyRest before it checked real rest): in every `days` consecutive days at most `maxShifts` shifts start. Per shift over. Off by default. */
+  shiftsPerWindow: rule({ hard: true, weight: 20, enabled: false }, { days: z.number().int().min(2).max(28).default(7), maxShifts: z.number().int().min(1).max(56).default(6) }),
+  /** Local policy, stricter than Art. 6: hours of shifts starting in any 7 consecutive days, plus credited absence hours. Per hour over. Off by default. */
+  maxHoursPer7Days: rule({ hard: true, weight: 5, enabled: false }, { hours: z.number().min(1).max(168).default(48) }),
   /** A night shift longer than `hours` (Art. 8: 8 h) costs `weight` per person working it. */
   nightShiftLength: rule({ hard: false, weight: 5 }, { hours: z.number().min(1).max(24).default(8) }),
   /** Common practice, no source: at most `days` consecutive days with a shift start. Per shift over. */
@@ -384,6 +400,9 @@ export const RULE_NAMES: readonly RuleName[] = [
   'coverage',
   'minRest',
   'weeklyRest',
+  'averageWeeklyHours',
+  'nightAverage',
+  'shiftsPerWindow',
   'maxHoursPer7Days',
   'nightShiftLength',
   'maxConsecutiveDays',

@@ -1,38 +1,47 @@
 /**
- * Roster → model. One variable per seat; its values are the people who may sit there
- * (skill, `cannot` wishes and hard night-length removed, or just the pinned value) plus
- * `open`; `keys` = person index, -1 for open, so structured factors compare people across
- * seats. Factors (ids "<term>:<detail>", term as in score-roster.ts):
+ * Roster → model: a small driver around the rule catalogue (rules/index.ts). It builds the
+ * seat variables and the context (domains, seat indexes, personCount, credits), then runs
+ * every rule's and every per-person term's compile. Factor ids are "<term>:<detail>" with
+ * term = the rule id (or term kind), which explanations and the Lagrangian bound key off.
  *
- * - unary: coverage (open-seat penalty), prefer/avoid wishes, night shift length (soft);
- *   hard exclusions shrink domains instead of adding -Infinity entries;
- * - allDifferent: seats of one shift, of two overlapping shifts, and of two shifts too
- *   close for a hard minimum rest (O(K) messages, never a K×K table);
- * - sameKey: soft minimum rest between seats of two shifts (Potts over keys);
- * - counting over a shift's seats for each pairing (how many of the two are on it; score at 2);
- * - counting: per person and rolling window (weekly rest, hours per 7 days, consecutive days,
- *   nights in a row), per person over the period (contracted hours, fair nights/weekends),
- *   per shift (skill mix). Hours are counted in integer units of the greatest common divisor
- *   of shift lengths in minutes, so the sums stay small (8 h shifts → one unit each).
+ * Variables: one per seat (values: the people who may sit there plus `open`; `keys` = person
+ * index, -1 for open), then the auxiliary variables some rules need (weekly rest: which rest
+ * interval is kept; a weekend cap: which weekends may be worked), each belonging to one person.
+ * Hard exclusions (skill, `cannot` wishes, absences, hard shift-level terms, hard night length)
+ * shrink domains instead of adding -Infinity entries. Always-hard structure stays here:
+ * double booking (all-different over a shift's seats and over overlapping shifts), pins,
+ * skills, absences, wishes and pairings.
  *
- * The model's score of any assignment equals scoreRoster's total for the decoded roster;
- * tests check it on random rosters.
+ * The model's score of any assignment whose aux variables are set by `bestAux` equals
+ * scoreRoster's total for the decoded roster (tests/solver/roster/score-consistency.test.ts);
+ * any other aux values score at most that.
  */
-import type { AllDifferentFactor, CountingFactor, Factor, Model, SameKeyFactor, UnaryFactor, Variable } from '../model';
+import type { AllDifferentFactor, CountingFactor, Factor, Model, UnaryFactor, Variable } from '../model';
 import { factorScore } from '../model';
-import {
-  contractedTarget,
-  describeShift,
-  fairShares,
-  periodDays,
-  rollingWindows,
-  shiftFacts,
-  type ShiftFacts,
-} from '../../shared/roster/derive';
-import type { Roster, RuleName } from '../../shared/roster/schema';
-import { TERM_NAMES, type TermName } from './score-roster';
+import { absenceBlocks, absenceCredits, describeShift, periodDays, shiftFacts, type ShiftFacts } from '../../shared/roster/derive';
+import type { Roster, TermKind } from '../../shared/roster/schema';
+import { TERM_NAMES, type TermName } from './term-names';
+import { RULES, TERMS } from './rules';
+import type { AuxChoice, CompileContext } from './rules/types';
+import { capFor as capForRules } from './rules/caps';
 
 export const OPEN = -1;
+
+/**
+ * An auxiliary variable (contract with solver/roster/lagrangian.ts and local search): it comes
+ * after every seat variable, belongs to one person, and every factor touching it touches only
+ * it and seat variables restricted to that person's value. `choices[j]` = the seats (with the
+ * person's value in each) that value j requires free, and value j's own score (its unary).
+ */
+export type AuxVariable = {
+  v: number;
+  person: number;
+  term: TermName;
+  /** Period days the aux is about (the rule's window). */
+  first: number;
+  last: number;
+  choices: { seats: Int32Array; values: Int32Array; score: number }[];
+};
 
 export type CompiledRoster = {
   roster: Roster;
@@ -40,9 +49,12 @@ export type CompiledRoster = {
   facts: ShiftFacts[];
   /** seat id → variable index (every seat has one). */
   seatIndex: Map<string, number>;
-  /** variable index → seat index in roster.seats (the same: variables follow roster.seats order). */
+  /** variable index → seat id, for the seat variables (they follow roster.seats order). */
   seatIds: string[];
-  /** variable → person index per value (-1 = open): the variable's keys. */
+  /**
+   * Per model variable, the person of each value (-1 = open): the variable's keys. Seat
+   * variables come first (roster.seats order); aux variables after them have every key -1.
+   */
   domains: number[][];
   personIndex: Map<string, number>;
   /** Score parts that do not depend on the assignment (e.g. contracted hours of someone who can take no seat). */
@@ -50,10 +62,12 @@ export type CompiledRoster = {
   /** Minutes per unit of hour-weights in counting factors. */
   minuteUnit: number;
   /**
-   * Factors that carry several terms (identical counting factors merged, e.g. weekly rest and
-   * the 48 h limit when all shifts have one length): factor index → each term's own table.
+   * Factors that carry several terms (identical counting factors merged, e.g. shifts per window and
+   * the 7-day hours when all shifts have one length): factor index → each term's own table.
    */
   parts: ({ term: TermName; table: Float64Array }[] | undefined)[];
+  /** Auxiliary variables, in variable order (all after the seats). */
+  aux: AuxVariable[];
 };
 
 function gcd(a: number, b: number): number {
@@ -66,9 +80,37 @@ export function termOf(f: Factor): TermName {
   return (f.id ?? '').split(':')[0] as TermName;
 }
 
+/**
+ * Set every aux variable of `x` to its best value given the seat values in x (in place):
+ * the highest-scoring choice whose seats the person does not hold (ties: the first). A hard
+ * rule with no such choice leaves the first choice (the roster is infeasible anyway).
+ * Returns x. x may be a seat-only assignment only if it has room for the aux variables.
+ */
+export function bestAux<T extends { [i: number]: number; length: number }>(compiled: CompiledRoster, x: T): T {
+  for (const a of compiled.aux) {
+    let best = 0;
+    let bestScore = -Infinity;
+    a.choices.forEach((c, j) => {
+      if (c.score <= bestScore) return;
+      for (let k = 0; k < c.seats.length; k++) if (x[c.seats[k]] === c.values[k]) return;
+      best = j;
+      bestScore = c.score;
+    });
+    x[a.v] = best;
+  }
+  return x;
+}
+
+/** A full model assignment from seat values (aux variables set by bestAux). */
+export function withAux(compiled: CompiledRoster, seats: ArrayLike<number>): Int32Array {
+  const x = new Int32Array(compiled.model.variables.length);
+  for (let s = 0; s < compiled.seatIds.length; s++) x[s] = seats[s];
+  return bestAux(compiled, x);
+}
+
 export function compileRoster(roster: Roster): CompiledRoster {
   const rules = roster.rules;
-  const on = (t: RuleName) => rules[t].enabled && (rules[t].hard || rules[t].weight > 0);
+  const on = (t: keyof typeof rules) => rules[t].enabled && (rules[t].hard || rules[t].weight > 0);
   const facts = shiftFacts(roster);
   const days = periodDays(roster);
   const shiftIdx = new Map(roster.shifts.map((s, i) => [s.id, i]));
@@ -80,32 +122,45 @@ export function compileRoster(roster: Roster): CompiledRoster {
   const pinOf = new Map(roster.pins.map((p) => [p.seat, p.person === null ? OPEN : personIndex.get(p.person)!]));
   const factors: Factor[] = [];
   const termConstants = Object.fromEntries(TERM_NAMES.map((t) => [t, 0])) as Record<TermName, number>;
+  const nPeople = roster.people.length;
 
   // wishes per (person, shift): cannot, and net prefer/avoid points
-  const cannot = new Set<string>();
-  const wishPoints = new Map<string, number>();
+  const cannot = new Set<number>();
+  const wishPoints = new Map<number, number>();
+  const nShifts = roster.shifts.length;
   const shiftsOnDate = new Map<string, number[]>();
   facts.forEach((f) => shiftsOnDate.set(f.date, [...(shiftsOnDate.get(f.date) ?? []), f.index]));
   for (const w of roster.wishes) {
     const p = personIndex.get(w.person)!;
     const targets = w.shift !== undefined ? [shiftIdx.get(w.shift)!] : (shiftsOnDate.get(w.date!) ?? []);
     for (const sh of targets) {
-      const key = `${p}:${sh}`;
+      const key = p * nShifts + sh;
       if (w.kind === 'cannot') cannot.add(key);
       else wishPoints.set(key, (wishPoints.get(key) ?? 0) + (w.kind === 'prefer' ? w.strength : -w.strength));
     }
   }
-  const longNight = (f: ShiftFacts) => on('nightShiftLength') && f.night && f.minutes > rules.nightShiftLength.hours * 60;
+  const away = absenceBlocks(roster, facts);
+  // shift-level per-person terms: hard ones shrink domains, soft ones are unaries below
+  const shiftTerms = roster.people.map((person) =>
+    person.terms.flatMap((t, i) => {
+      const m = TERMS[t.kind];
+      return m.breaksShift && (t.hard || t.weight > 0) ? [{ t, i, breaks: (f: ShiftFacts) => (m.breaksShift as (t: unknown, f: ShiftFacts, r: Roster) => boolean)(t, f, roster) }] : [];
+    }),
+  );
+  const ruleExcludes = RULES.filter((m) => m.excludesShift && on(m.id) && rules[m.id].hard);
 
   // domains
   const domains: number[][] = [];
-  const hardUnary: { v: number; term: TermName; bad: Set<number> }[] = [];
+  const hardUnary: { v: number; term: TermName; detail: string; bad: Set<number> }[] = [];
+  const openForbidden = on('coverage') && rules.coverage.hard;
   roster.seats.forEach((seat, s) => {
     const f = facts[seatShift[s]];
     const pinned = pinOf.get(seat.id);
-    const excluded = (p: number): TermName | null => {
-      if (cannot.has(`${p}:${f.index}`)) return 'wishes';
-      if (longNight(f) && rules.nightShiftLength.hard) return 'nightShiftLength';
+    const excluded = (p: number): { term: TermName; detail: string } | null => {
+      if (cannot.has(p * nShifts + f.index)) return { term: 'wishes', detail: 'hard' };
+      if (away.get(p)?.has(f.index)) return { term: 'absences', detail: roster.people[p].id };
+      for (const m of ruleExcludes) if ((m.excludesShift as (s: unknown, f: ShiftFacts) => boolean)(rules[m.id], f)) return { term: m.id, detail: 'hard' };
+      for (const st of shiftTerms[p]) if (st.t.hard && st.breaks(f)) return { term: st.t.kind, detail: `${roster.people[p].id}:${st.i}` };
       return null;
     };
     let values: number[];
@@ -114,72 +169,61 @@ export function compileRoster(roster: Roster): CompiledRoster {
       // a pin keeps its value even when a hard rule forbids it: the model then says infeasible, as the scorer does
       if (pinned !== OPEN) {
         const why = excluded(pinned);
-        if (why) hardUnary.push({ v: s, term: why, bad: new Set([0]) });
+        if (why) hardUnary.push({ v: s, term: why.term, detail: why.detail, bad: new Set([0]) });
       }
     } else {
       const people: number[] = [];
       roster.people.forEach((p, i) => {
         if ((seat.skill === null || p.skills.includes(seat.skill)) && excluded(i) === null) people.push(i);
       });
-      const openAllowed = !(on('coverage') && rules.coverage.hard) || people.length === 0;
-      values = openAllowed ? [...people, OPEN] : people;
+      values = !openForbidden || people.length === 0 ? [...people, OPEN] : people;
     }
-    if (on('coverage') && rules.coverage.hard) {
+    if (openForbidden) {
       const o = values.indexOf(OPEN);
-      if (o >= 0) hardUnary.push({ v: s, term: 'coverage', bad: new Set([o]) });
+      if (o >= 0) hardUnary.push({ v: s, term: 'coverage', detail: 'hard', bad: new Set([o]) });
     }
     domains.push(values);
   });
 
-  const variables: Variable[] = roster.seats.map((seat, s) => ({
-    name: seat.id,
-    cardinality: domains[s].length,
-    labels: domains[s].map((p) => (p === OPEN ? 'open' : roster.people[p].name)),
-    keys: Int32Array.from(domains[s]),
-  }));
   // value index of person p in seat s, or -1: flat arrays, looked up millions of times on large rosters
-  const nPeople = roster.people.length;
-  const valueTable = new Int32Array(domains.length * nPeople).fill(-1);
+  const nSeats = domains.length;
+  const valueTable = new Int32Array(nSeats * nPeople).fill(-1);
   domains.forEach((d, s) => d.forEach((p, x) => p !== OPEN && (valueTable[s * nPeople + p] = x)));
   const valueAt = (s: number, p: number): number => valueTable[s * nPeople + p];
 
   for (const h of hardUnary) {
     const table = new Float64Array(domains[h.v].length);
     for (const x of h.bad) table[x] = -Infinity;
-    factors.push({ kind: 'unary', v: h.v, table, hard: true, id: `${h.term}:hard:${roster.seats[h.v].id}`, label: `${h.term} (hard) on ${roster.seats[h.v].id}` } satisfies UnaryFactor);
+    factors.push({ kind: 'unary', v: h.v, table, hard: true, id: `${h.term}:${h.detail}:${roster.seats[h.v].id}`, label: `${h.term} (hard) on ${roster.seats[h.v].id}` } satisfies UnaryFactor);
   }
 
-  // soft unaries: coverage, wishes, night length
+  // wishes and soft shift-level terms: unaries
   roster.seats.forEach((seat, s) => {
     const f = facts[seatShift[s]];
     const d = domains[s];
-    if (on('coverage') && !rules.coverage.hard && d.includes(OPEN)) {
-      const table = new Float64Array(d.length);
-      table[d.indexOf(OPEN)] = -rules.coverage.weight;
-      factors.push({ kind: 'unary', v: s, table, id: `coverage:${seat.id}`, label: `open seat on ${describeShift(f)}` });
-    }
     const wt = new Float64Array(d.length);
     let anyWish = false;
     d.forEach((p, x) => {
-      const pts = p === OPEN ? undefined : wishPoints.get(`${p}:${f.index}`);
+      const pts = p === OPEN ? undefined : wishPoints.get(p * nShifts + f.index);
       if (pts) {
         wt[x] = pts;
         anyWish = true;
       }
     });
     if (anyWish) factors.push({ kind: 'unary', v: s, table: wt, id: `wishes:${seat.id}`, label: `wishes for ${describeShift(f)}` });
-    if (longNight(f) && !rules.nightShiftLength.hard) {
-      const table = new Float64Array(d.length);
-      d.forEach((p, x) => {
-        if (p !== OPEN) table[x] = -rules.nightShiftLength.weight;
-      });
-      factors.push({ kind: 'unary', v: s, table, id: `nightShiftLength:${seat.id}`, label: `night longer than ${rules.nightShiftLength.hours} h on ${describeShift(f)}` });
-    }
+    d.forEach((p, x) => {
+      if (p === OPEN) return;
+      for (const st of shiftTerms[p]) {
+        if (st.t.hard || !st.breaks(f)) continue;
+        const table = new Float64Array(d.length);
+        table[x] = -st.t.weight;
+        factors.push({ kind: 'unary', v: s, table, id: `${st.t.kind}:${roster.people[p].id}:${st.i}:${seat.id}`, label: `${roster.people[p].name}'s ${st.t.kind} term on ${describeShift(f)}` });
+      }
+    });
   });
 
-  // double booking and minimum rest between pairs of shifts
+  // double booking: one seat each per shift, and overlapping shifts
   const byStart = facts.map((f) => f.index).sort((a, b) => facts[a].startMs - facts[b].startMs || a - b);
-  const restMs = on('minRest') ? rules.minRest.hours * 3_600_000 : 0;
   const shareSomeone = (a: number[], b: number[]) => {
     const s = new Set<number>();
     for (const v of a) for (const p of domains[v]) if (p !== OPEN) s.add(p);
@@ -194,28 +238,11 @@ export function compileRoster(roster: Roster): CompiledRoster {
     const A = facts[byStart[i]];
     for (let j = i + 1; j < byStart.length; j++) {
       const B = facts[byStart[j]];
-      // sorted by start: once B starts a full rest after A ends, no later shift overlaps A or follows it too closely
-      if (B.startMs >= A.endMs + restMs) break;
+      if (B.startMs >= A.endMs) break; // sorted by start: no later shift overlaps A
       const sa = seatsOfShift[A.index];
       const sb = seatsOfShift[B.index];
-      if (!sa.length || !sb.length) continue;
-      const [first, second] = A.endMs <= B.startMs ? [A, B] : B.endMs <= A.startMs ? [B, A] : [null, null];
-      if (first === null || second === null) {
-        if (shareSomeone(sa, sb))
-          factors.push({ kind: 'allDifferent', vars: [...sa, ...sb], id: `doubleBooking:${A.id}:${B.id}`, label: `${describeShift(A)} overlaps ${describeShift(B)}` });
-        continue;
-      }
-      const gap = Math.round((second.startMs - first.endMs) / 60_000);
-      if (!on('minRest') || gap >= rules.minRest.hours * 60 || !shareSomeone(sa, sb)) continue;
-      const label = `rest between ${describeShift(first)} and ${describeShift(second)}`;
-      if (rules.minRest.hard) {
-        factors.push({ kind: 'allDifferent', vars: [...sa, ...sb], id: `minRest:${first.id}:${second.id}`, label });
-      } else {
-        for (const a of sa)
-          for (const b of sb)
-            if (domains[a].some((p) => p !== OPEN && valueAt(b, p) >= 0))
-              factors.push({ kind: 'sameKey', a, b, weight: -rules.minRest.weight, id: `minRest:${first.id}:${second.id}`, label } satisfies SameKeyFactor);
-      }
+      if (sa.length && sb.length && shareSomeone(sa, sb))
+        factors.push({ kind: 'allDifferent', vars: [...sa, ...sb], id: `doubleBooking:${A.id}:${B.id}`, label: `${describeShift(A)} overlaps ${describeShift(B)}` });
     }
   }
 
@@ -259,15 +286,10 @@ export function compileRoster(roster: Roster): CompiledRoster {
     }
   }
 
-  // counting factors
+  // counting factors: hours in integer units of the greatest common divisor of shift lengths
   let unit = 0;
   for (const f of facts) if (seatsOfShift[f.index].length) unit = gcd(unit, f.minutes);
   unit = Math.max(1, unit);
-
-  // Hard weekly limits bound how much anyone can feasibly work in a span of days. Person-level
-  // tables stop there (the model type repeats a table's last entry for larger sums), which
-  // keeps the counting DPs small: sums past the cap break a hard factor anyway, so no
-  // feasible score changes. Caps in shifts (count) and in weight units (minutes / unit).
   let maxShiftMinutes = 0;
   let minShiftMinutes = Infinity;
   for (const f of facts)
@@ -275,18 +297,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       maxShiftMinutes = Math.max(maxShiftMinutes, f.minutes);
       minShiftMinutes = Math.min(minShiftMinutes, f.minutes);
     }
-  const capFor = (spanDays: number, minutesWeighted: boolean): number => {
-    let countCap = Infinity;
-    let unitCap = Infinity;
-    if (on('weeklyRest') && rules.weeklyRest.hard) countCap = Math.min(countCap, Math.ceil(spanDays / rules.weeklyRest.days) * rules.weeklyRest.maxShifts);
-    if (on('maxHoursPer7Days') && rules.maxHoursPer7Days.hard) {
-      const blocks = Math.ceil(spanDays / 7);
-      countCap = Math.min(countCap, blocks * Math.floor((rules.maxHoursPer7Days.hours * 60) / minShiftMinutes));
-      unitCap = Math.min(unitCap, blocks * Math.floor((rules.maxHoursPer7Days.hours * 60) / unit));
-    }
-    if (!minutesWeighted) return countCap;
-    return Math.min(unitCap, countCap === Infinity ? Infinity : Math.ceil((countCap * maxShiftMinutes) / unit));
-  };
+  const capFor = (spanDays: number, minutesWeighted: boolean) => capForRules(roster, days, spanDays, minutesWeighted, unit, minShiftMinutes, maxShiftMinutes);
 
   // [[x, w]] lists shared between factors: the same person in the same seat weighs the same in
   // every window (saves millions of tiny arrays on large rosters).
@@ -297,23 +308,11 @@ export function compileRoster(roster: Roster): CompiledRoster {
     return (onesCache[key] ??= [[x, 1]]);
   };
 
-  /** Merged counting factors: same person, same vars and weights (e.g. weekly rest and 48 h with equal shifts). */
+  /** Merged counting factors: same person, same vars and weights (e.g. shifts per window and 7-day hours with equal shifts). */
   const mergeable = new Map<string, number>();
   const parts: ({ term: TermName; table: Float64Array }[] | undefined)[] = [];
 
-  /** Counting factor over the seats in `seats` that person p could take; score(sum) from `scoreAt`. */
-  const personCount = (
-    term: TermName,
-    detail: string,
-    label: string,
-    p: number,
-    seats: number[],
-    weightOf: (s: number) => number,
-    scoreAt: (sum: number) => number,
-    hard: boolean,
-    cap: number,
-    mergeKey?: string,
-  ) => {
+  const personCount: CompileContext['personCount'] = (term, detail, label, p, seats, weightOf, scoreAt, hard, cap, mergeKey) => {
     const vars: number[] = [];
     const weights: [number, number][][] = [];
     let maxSum = 0;
@@ -359,84 +358,100 @@ export function compileRoster(roster: Roster): CompiledRoster {
     }
     factors.push({ kind: 'counting', vars, weights, score: table, hard: hard || undefined, id: `${term}:${detail}`, label } satisfies CountingFactor);
   };
-  const overPenalty = (term: RuleName, limit: number, toUnits: (sum: number) => number) => (sum: number) => {
-    const over = toUnits(sum) - limit;
-    return over > 0 ? (rules[term].hard ? -Infinity : -rules[term].weight * over) : 0;
-  };
-  const minutesW = (s: number) => facts[seatShift[s]].minutes / unit;
-  const one = () => 1;
 
-  const windowRule = (term: 'weeklyRest' | 'maxHoursPer7Days' | 'maxConsecutiveDays' | 'maxNightsInRow', length: number, pick: (f: ShiftFacts) => boolean, weightOf: (s: number) => number, limit: number, toUnits: (sum: number) => number, nightsOnly: boolean) => {
-    if (!on(term)) return;
-    const minutesWeighted = term === 'maxHoursPer7Days';
-    for (const w of rollingWindows(days, length)) {
-      const seats: number[] = [];
-      for (let s = 0; s < roster.seats.length; s++) {
-        const f = facts[seatShift[s]];
-        if (f.day >= w.first && f.day <= w.last && pick(f)) seats.push(s);
-      }
-      // the two rules that give the caps are never capped themselves (that would be circular)
-      const cap = term === 'weeklyRest' || term === 'maxHoursPer7Days' ? Infinity : capFor(w.last - w.first + 1, minutesWeighted);
-      roster.people.forEach((person, p) =>
-        personCount(term, `${person.id}:${w.first}`, `${term} for ${person.name} from day ${w.first + 1}`, p, seats, weightOf, overPenalty(term, limit, toUnits), rules[term].hard, cap, `${w.first}:${w.last}:${nightsOnly}:${p}`),
-      );
+  const auxVars: AuxVariable[] = [];
+  const auxLabels: string[][] = [];
+  const auxNames: string[] = [];
+  const auxChoice = (term: TermName, detail: string, label: string, p: number, first: number, last: number, choices: AuxChoice[]): number => {
+    const v = nSeats + auxVars.length;
+    const entry: AuxVariable = {
+      v,
+      person: p,
+      term,
+      first,
+      last,
+      choices: choices.map((c) => {
+        const seats = c.seats.filter((s) => valueAt(s, p) >= 0);
+        return { seats: Int32Array.from(seats), values: Int32Array.from(seats.map((s) => valueAt(s, p))), score: c.score };
+      }),
+    };
+    auxVars.push(entry);
+    auxLabels.push(choices.map((c) => c.label));
+    auxNames.push(`${term}:${detail}`);
+    entry.choices.forEach((c, j) => {
+      if (!c.seats.length) return;
+      // value j weighs M (more than every seat together): sum ≤ M ⇔ not (aux = j and one of the seats held)
+      const M = c.seats.length + 1;
+      const auxWeights: [number, number][] = [[j, M]];
+      const score = new Float64Array(M + 2);
+      score[M + 1] = -Infinity;
+      factors.push({
+        kind: 'counting',
+        vars: [v, ...c.seats],
+        weights: [auxWeights, ...Array.from(c.values, (x, k) => weightList(c.seats[k], x, 1))],
+        score,
+        hard: true,
+        id: `${term}:${detail}:${j}`,
+        label: `${label}: ${choices[j].label}`,
+      } satisfies CountingFactor);
+    });
+    if (entry.choices.some((c) => c.score !== 0)) {
+      const table = Float64Array.from(entry.choices, (c) => c.score);
+      factors.push({ kind: 'unary', v, table, id: `${term}:${detail}`, label } satisfies UnaryFactor);
     }
+    return v;
   };
-  const ident = (k: number) => k;
-  windowRule('weeklyRest', rules.weeklyRest.days, () => true, one, rules.weeklyRest.maxShifts, ident, false);
-  windowRule('maxHoursPer7Days', 7, () => true, minutesW, rules.maxHoursPer7Days.hours, (k) => (k * unit) / 60, false);
-  windowRule('maxConsecutiveDays', rules.maxConsecutiveDays.days + 1, () => true, one, rules.maxConsecutiveDays.days, ident, false);
-  windowRule('maxNightsInRow', rules.maxNightsInRow.nights + 1, (f) => f.night, one, rules.maxNightsInRow.nights, ident, true);
 
-  const allSeats = roster.seats.map((_, s) => s);
-  if (on('contractedHours')) {
-    roster.people.forEach((person, p) => {
-      const target = contractedTarget(person, days);
-      if (target === undefined) return;
-      const r = rules.contractedHours;
-      personCount('contractedHours', person.id, `contracted hours of ${person.name}`, p, allSeats, minutesW, (k) => {
-        const dev = Math.abs((k * unit) / 60 - target) - r.toleranceHours;
-        return dev > 0 ? (r.hard ? -Infinity : -r.weight * dev) : 0;
-      }, r.hard, capFor(days, true));
-    });
-  }
-  const fair = (term: 'fairNights' | 'fairWeekends', pick: (f: ShiftFacts) => boolean) => {
-    if (!on(term)) return;
-    const seats = allSeats.filter((s) => pick(facts[seatShift[s]]));
-    for (const [p, share] of fairShares(roster, facts, pick))
-      personCount(term, roster.people[p].id, `${term} for ${roster.people[p].name}`, p, seats, one, overPenalty(term, share, ident), rules[term].hard, capFor(days, false));
-  };
-  fair('fairNights', (f) => f.night);
-  fair('fairWeekends', (f) => f.weekend);
-
-  if (on('skillMix')) {
-    const r = rules.skillMix;
-    r.requirements.forEach((q, qi) => {
-      for (const f of facts) {
-        if (q.patternLabel !== undefined && f.patternLabel !== q.patternLabel) continue;
-        const short = (k: number) => (k < q.min ? (r.hard ? -Infinity : -r.weight * (q.min - k)) : 0);
-        const vars: number[] = [];
-        const weights: [number, number][][] = [];
-        for (const s of seatsOfShift[f.index]) {
-          const ws: [number, number][] = [];
-          domains[s].forEach((p, x) => {
-            if (p !== OPEN && roster.people[p].skills.includes(q.skill)) ws.push([x, 1]);
-          });
-          if (ws.length) {
-            vars.push(s);
-            weights.push(ws);
-          }
-        }
-        if (!vars.length) {
-          termConstants.skillMix += short(0);
-          continue;
-        }
-        const table = new Float64Array(Math.min(vars.length, q.min) + 1);
-        for (let k = 0; k < table.length; k++) table[k] = short(k);
-        factors.push({ kind: 'counting', vars, weights, score: table, hard: r.hard || undefined, id: `skillMix:${qi}:${f.id}`, label: `${q.min} with ${q.skill} on ${describeShift(f)}` });
+  const ctx: CompileContext = {
+    roster,
+    facts,
+    days,
+    unit,
+    nPeople,
+    seatShift,
+    seatsOfShift,
+    allSeats: roster.seats.map((_, s) => s),
+    domains,
+    valueAt,
+    credits: absenceCredits(roster),
+    factors,
+    termConstants,
+    on,
+    personCount,
+    minutesW: (s) => facts[seatShift[s]].minutes / unit,
+    one: () => 1,
+    capFor,
+    seatsStarting: (first, last, pick) => {
+      const out: number[] = [];
+      for (let s = 0; s < nSeats; s++) {
+        const f = facts[seatShift[s]];
+        if (f.day >= first && f.day <= last && (!pick || pick(f))) out.push(s);
       }
-    });
-  }
+      return out;
+    },
+    auxChoice,
+  };
+
+  for (const m of RULES) if (on(m.id)) (m.compile as (c: CompileContext, s: unknown) => void)(ctx, rules[m.id]);
+  roster.people.forEach((person, p) =>
+    person.terms.forEach((t, i) => {
+      if (!t.hard && t.weight === 0) return;
+      const m = TERMS[t.kind as TermKind];
+      if (m.compile) (m.compile as (c: CompileContext, p: number, t: unknown, i: number) => void)(ctx, p, t, i);
+    }),
+  );
+
+  const variables: Variable[] = roster.seats.map((seat, s) => ({
+    name: seat.id,
+    cardinality: domains[s].length,
+    labels: domains[s].map((p) => (p === OPEN ? 'open' : roster.people[p].name)),
+    keys: Int32Array.from(domains[s]),
+  }));
+  auxVars.forEach((a, k) => {
+    const n = a.choices.length;
+    variables.push({ name: auxNames[k], cardinality: n, labels: auxLabels[k], keys: new Int32Array(n).fill(OPEN) });
+    domains.push(new Array<number>(n).fill(OPEN));
+  });
 
   const constant = TERM_NAMES.reduce((m, t) => m + termConstants[t], 0);
   const model: Model = { variables, factors, constant, name: roster.name ?? 'roster' };
@@ -451,6 +466,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
     termConstants,
     minuteUnit: unit,
     parts,
+    aux: auxVars,
   };
 }
 

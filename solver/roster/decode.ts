@@ -3,7 +3,7 @@
  */
 import type { RosterAssignment } from '../../shared/roster/schema';
 import { contractedTarget, periodDays } from '../../shared/roster/derive';
-import { OPEN, type CompiledRoster } from './compile';
+import { bestAux, OPEN, type CompiledRoster } from './compile';
 
 export type DecodedSeat = {
   seatId: string;
@@ -37,10 +37,11 @@ export type DecodedRoster = {
   people: PersonSummary[];
 };
 
-/** Model values (one per seat variable) → who works which seat, open seats, per-person hours and nights. */
+/** Model values (seat variables first, any aux variables after them) → who works which seat, open seats, per-person hours and nights. */
 export function decodeAssignment(compiled: CompiledRoster, x: ArrayLike<number>): DecodedRoster {
   const { roster, facts, domains } = compiled;
-  if (x.length !== roster.seats.length) throw new Error(`assignment has ${x.length} values; the roster has ${roster.seats.length} seats`);
+  // seat variables first; aux variables after them (compile.ts) say nothing about who works where
+  if (x.length < roster.seats.length) throw new Error(`assignment has ${x.length} values; the roster has ${roster.seats.length} seats`);
   const shiftIdx = new Map(roster.shifts.map((s, i) => [s.id, i]));
   const assignment: RosterAssignment = {};
   const people: PersonSummary[] = roster.people.map((p) => ({
@@ -94,7 +95,8 @@ export function encodeAssignment(
   compiled: CompiledRoster,
   assignment: RosterAssignment,
 ): { ok: true; values: Int32Array } | { ok: false; seats: string[] } {
-  const values = new Int32Array(compiled.roster.seats.length);
+  // every model variable: seats from the roster, aux variables at their best (bestAux)
+  const values = new Int32Array(compiled.model.variables.length);
   const bad: string[] = [];
   compiled.roster.seats.forEach((seat, s) => {
     const pid = assignment[seat.id];
@@ -103,5 +105,5 @@ export function encodeAssignment(
     if (x < 0) bad.push(seat.id);
     else values[s] = x;
   });
-  return bad.length ? { ok: false, seats: bad } : { ok: true, values };
+  return bad.length ? { ok: false, seats: bad } : { ok: true, values: bestAux(compiled, values) };
 }

@@ -5,7 +5,8 @@
  * the skill may work, a hard skill mix nobody can meet, and pins that break hard rules.
  * An empty list means none of these checks failed, not that a feasible roster exists.
  */
-import { contractedTarget, describeShift, fairShares, formatDay, formatHours, periodDays, rollingWindows, shiftFacts, type ShiftFacts } from '../../shared/roster/derive';
+import { absenceBlocks, contractedTarget, describeShift, fairShares, formatDay, formatHours, periodDays, rollingWindows, shiftFacts, type ShiftFacts } from '../../shared/roster/derive';
+import { TERMS, TERM_WORDS } from './rules';
 import type { Roster } from '../../shared/roster/schema';
 import { addLocalDays } from '../../shared/roster/time';
 
@@ -61,6 +62,18 @@ export function explainInfeasible(roster: Roster): string[] {
       cannot.get(sh)!.add(p);
     }
   }
+  const away = absenceBlocks(roster, facts);
+  /** Why person p may not work shift f by an absence or a hard shift-level term, in words (null = they may). */
+  const personBar = (p: number, f: ShiftFacts): { kind: string; words: string } | null => {
+    const a = away.get(p)?.get(f.index);
+    if (a) return { kind: `absence:${a.kind}`, words: a.kind === 'annual' ? 'on annual leave' : a.kind === 'sick' ? 'off sick' : a.kind === 'training' ? 'on training' : a.kind === 'parental' ? 'on parental leave' : 'away' };
+    for (const t of roster.people[p].terms) {
+      const m = TERMS[t.kind];
+      if (!t.hard || !m.breaksShift) continue;
+      if ((m.breaksShift as (t: unknown, f: ShiftFacts, r: Roster) => boolean)(t, f, roster)) return { kind: `term:${t.kind}`, words: `on ${TERM_WORDS[t.kind].name.toLowerCase()} terms` };
+    }
+    return null;
+  };
   const skilled = (s: number) => {
     const need = roster.seats[s].skill;
     const out: number[] = [];
@@ -74,8 +87,36 @@ export function explainInfeasible(roster: Roster): string[] {
     const f = facts[seatShift[s]];
     if (longNightHard(f)) return [];
     const pin = pinOf.get(s);
-    if (pin !== undefined) return pin >= 0 && !cannot.get(f.index)?.has(pin) ? [pin] : [];
-    return skilled(s).filter((p) => !cannot.get(f.index)?.has(p));
+    if (pin !== undefined) return pin >= 0 && !cannot.get(f.index)?.has(pin) && !personBar(pin, f) ? [pin] : [];
+    return skilled(s).filter((p) => !cannot.get(f.index)?.has(p) && !personBar(p, f));
+  };
+
+  /**
+   * "Nobody can take the Night lead seat on the night shift on Fri 12 Mar: Imogen Thistlewood is
+   * on annual leave and the other night leads are on no nights terms": each holder of the
+   * skill with why they may not, grouped by reason.
+   */
+  const nobodyFor = (s: number, f: ShiftFacts): string => {
+    const need = roster.seats[s].skill;
+    const holders = skilled(s);
+    const what = `${need === null ? 'a' : `the ${sk(need)}`} seat on ${describeShift(f)}`;
+    if (!holders.length) return `Nobody can take ${what}: nobody has ${sk(need!)}`;
+    const groups = new Map<string, { words: string; people: string[] }>();
+    for (const p of holders) {
+      const bar = personBar(p, f);
+      const g = bar ?? { kind: 'wish', words: 'cannot (their wish)' };
+      const key = bar ? bar.kind : 'wish';
+      if (!groups.has(key)) groups.set(key, { words: g.words, people: [] });
+      groups.get(key)!.people.push(roster.people[p].name);
+    }
+    const parts = [...groups.values()];
+    const group = need === null ? 'everyone else' : `the other ${holders.length - (parts[0]?.people.length ?? 0) === 1 ? 'holder' : 'holders'} of ${sk(need)}`;
+    const phrase = (g: { words: string; people: string[] }, i: number) => {
+      const names = i > 0 && parts.length === 2 && g.people.length > 2 ? group : listNames(g.people).replace(/, ([^,]+)$/, ' and $1');
+      const verb = g.words.startsWith('cannot') ? '' : g.people.length === 1 && !(i > 0 && names === group) ? 'is ' : 'are ';
+      return `${names} ${verb}${g.words}`;
+    };
+    return `Nobody can take ${what}: ${parts.map(phrase).join(parts.length === 2 ? ' and ' : '; ')}`;
   };
 
   // pins against hard rules
@@ -87,6 +128,8 @@ export function explainInfeasible(roster: Roster): string[] {
     }
     const name = roster.people[p].name;
     if (cannot.get(f.index)?.has(p)) reasons.push(`${name} is pinned to ${describeShift(f)} but cannot work it`);
+    const bar = personBar(p, f);
+    if (bar) reasons.push(`${name} is pinned to ${describeShift(f)} but is ${bar.words}`);
     if (longNightHard(f)) reasons.push(`${name} is pinned to ${describeShift(f)}, a ${formatHours(f.hours)} night, but nights are limited to ${formatHours(rules.nightShiftLength.hours)} (hard)`);
   }
   const pinsByPerson = new Map<number, number[]>();
@@ -126,12 +169,7 @@ export function explainInfeasible(roster: Roster): string[] {
           reasons.push(`${describeShift(f)} is ${formatHours(f.hours)}, longer than the hard ${formatHours(rules.nightShiftLength.hours)} night limit, so nobody may work it, and coverage is hard`);
           return;
         }
-        const holders = skilled(s).map((p) => roster.people[p].name);
-        reasons.push(
-          need === null
-            ? `a seat on ${describeShift(f)} needs someone, and nobody is available (${listNames(holders)} cannot)`
-            : `${sk(need)} needed on ${describeShift(f)}, nobody with that skill is available${holders.length ? ` (${listNames(holders)} cannot)` : ''}`,
-        );
+        reasons.push(nobodyFor(s, f));
       });
       if (seatProblem) continue;
       const m = maxMatching(opts);
@@ -146,21 +184,21 @@ export function explainInfeasible(roster: Roster): string[] {
   }
 
   // rest windows: seats needing a skill in a window against what its holders may work
-  if (coverageHard && (rules.weeklyRest.enabled && rules.weeklyRest.hard)) {
+  if (coverageHard && rules.shiftsPerWindow.enabled && rules.shiftsPerWindow.hard) {
     const skillsUsed = new Set<string | null>([null, ...roster.seats.map((s) => s.skill)]);
     for (const skill of skillsUsed) {
       const holders = roster.people.filter((p) => skill === null || p.skills.includes(skill));
-      for (const w of rollingWindows(days, rules.weeklyRest.days)) {
+      for (const w of rollingWindows(days, rules.shiftsPerWindow.days)) {
         const need = roster.seats.filter((seat, s) => {
           const f = facts[seatShift[s]];
           // a skill-less window counts every seat: anyone must fill those
           return f.day >= w.first && f.day <= w.last && (skill === null || seat.skill === skill);
         }).length;
-        const cap = holders.length * rules.weeklyRest.maxShifts;
+        const cap = holders.length * rules.shiftsPerWindow.maxShifts;
         if (need > cap) {
           const who = skill === null ? 'the team' : `the ${holders.length} ${holders.length === 1 ? 'person' : 'people'} with ${sk(skill)}`;
           reasons.push(
-            `${formatDay(addLocalDays(roster.period.start, w.first))}–${formatDay(addLocalDays(roster.period.start, w.last))} has ${need} ${skill === null ? '' : `${sk(skill)} `}seats; ${who} may work at most ${cap} (${rules.weeklyRest.maxShifts} shifts in ${rules.weeklyRest.days} days each, hard)`,
+            `${formatDay(addLocalDays(roster.period.start, w.first))}–${formatDay(addLocalDays(roster.period.start, w.last))} has ${need} ${skill === null ? '' : `${sk(skill)} `}seats; ${who} may work at most ${cap} (${rules.shiftsPerWindow.maxShifts} shifts in ${rules.shiftsPerWindow.days} days each, hard)`,
           );
           break; // one window per skill is enough to say it
         }

@@ -5,8 +5,10 @@
  * rules). Not optimal; it gives local search a roster that covers the seats instead of the
  * unary argmax, which on rosters with hard windows is often infeasible everywhere.
  */
-import { contractedTarget, periodDays } from '../../shared/roster/derive';
-import { OPEN, type CompiledRoster } from './compile';
+import { absenceCredits, contractedTarget, creditHoursIn, dayStartMs, periodDays, rollingWindows } from '../../shared/roster/derive';
+import { bestAux, OPEN, type CompiledRoster } from './compile';
+import { averageWindowDays } from './rules/average-weekly-hours';
+import { nightAllowance, nightWorkers } from './rules/night-average';
 import { score } from '../model/score';
 
 export function greedyAssignment(compiled: CompiledRoster): Int32Array {
@@ -19,8 +21,8 @@ export function greedyAssignment(compiled: CompiledRoster): Int32Array {
   // day shifts and the first night stays open), so both run and the better one is kept.
   const constrained = [...seats].sort((a, b) => domains[a].length - domains[b].length || start(a) - start(b) || a - b);
   const timely = [...seats].sort((a, b) => start(a) - start(b) || domains[a].length - domains[b].length || a - b);
-  const a = greedyInOrder(compiled, constrained);
-  const b = greedyInOrder(compiled, timely);
+  const a = bestAux(compiled, greedyInOrder(compiled, constrained));
+  const b = bestAux(compiled, greedyInOrder(compiled, timely));
   return score(compiled.model, a) >= score(compiled.model, b) ? a : b;
 }
 
@@ -41,10 +43,50 @@ function greedyInOrder(compiled: CompiledRoster, order: number[]): Int32Array {
   }
   const never = new Set(roster.pairings.filter((p) => p.never).flatMap((p) => [`${personIdx.get(p.a)}:${personIdx.get(p.b)}`, `${personIdx.get(p.b)}:${personIdx.get(p.a)}`]));
   const target = roster.people.map((p) => contractedTarget(p, days) ?? (days / 7) * 30);
+  // per-person count terms the greedy keeps (hours, nights, shifts a week, weekends)
+  const termsOf = roster.people.map((p) => p.terms.filter((t) => t.hard || t.weight > 0));
   const worked: number[][] = roster.people.map(() => []);
   const minutes = roster.people.map(() => 0);
   const onShift: number[][] = roster.shifts.map(() => []);
   const x = new Int32Array(domains.length);
+  const credits = absenceCredits(roster);
+  // credited absence counts as hours already worked when ranking who is furthest below contract
+  roster.people.forEach((_, p) => (minutes[p] = creditHoursIn(credits, p, 0, days - 1) * 60));
+  /** Days from a Monday to the period's first day, so (day + mondayOffset) % 7 = 0 on Mondays. */
+  const mondayOffset = (new Date(`${roster.period.start}T12:00Z`).getUTCDay() + 6) % 7;
+  const nightWorker = nightWorkers(roster, (id) => facts[shiftIdx.get(id)!].night);
+  const restWindows = on('weeklyRest') ? rollingWindows(days, rules.weeklyRest.days).map((w) => ({ ...w, ws: dayStartMs(roster, w.first), we: dayStartMs(roster, w.last + 1) })) : [];
+  const avgLen = averageWindowDays(rules.averageWeeklyHours, days);
+  const nightLen = Math.min(days, rules.nightAverage.referenceDays ?? days);
+  /** Would adding shift f leave person p without the weekly rest in some window? */
+  const restBroken = (p: number, fi: number) => {
+    const f = facts[fi];
+    const H = rules.weeklyRest.hours * 3_600_000;
+    for (const w of restWindows) {
+      if (w.we - w.ws < H || !(f.startMs < w.we && f.endMs > w.ws)) continue;
+      const inside = [...worked[p], fi].map((k) => facts[k]).filter((o) => o.startMs < w.we && o.endMs > w.ws).sort((a, b) => a.startMs - b.startMs);
+      let cursor = w.ws;
+      let longest = 0;
+      for (const o of inside) {
+        longest = Math.max(longest, o.startMs - cursor);
+        cursor = Math.max(cursor, o.endMs);
+      }
+      if (Math.max(longest, w.we - cursor) < H) return true;
+    }
+    return false;
+  };
+  /** Largest window total (minutes + credited minutes) over windows of `len` days holding `day`, with `add` minutes on that day. */
+  const windowHours = (p: number, day: number, len: number, addMinutes: number, withCredit: boolean) => {
+    let most = 0;
+    for (const w of rollingWindows(days, len)) {
+      if (day < w.first || day > w.last) continue;
+      let t = addMinutes;
+      for (let d = w.first; d <= w.last; d++) t += dayMinutes[p][d];
+      most = Math.max(most, t / 60 + (withCredit ? creditHoursIn(credits, p, w.first, w.last) : 0) - limitOf(len, w.last - w.first + 1));
+    }
+    return most;
+  };
+  let limitOf = (_len: number, _n: number) => 0;
 
   // per person and day: shifts, nights and minutes worked, for the window checks
   const perDay = () => roster.people.map(() => new Float64Array(days + 1));
@@ -80,15 +122,42 @@ function greedyInOrder(compiled: CompiledRoster, order: number[]): Int32Array {
     if (never.size) for (const q of onShift[fi]) if (never.has(`${p}:${q}`)) return 'hard';
     // seats are not filled in time order, so every window holding f.day is checked
     const count = (len: number, arr: Float64Array[]) => windowMax(arr[p], f.day, len) + 1;
+    limitOf = (_len, n) => (rules.averageWeeklyHours.hours * Math.max(7, n)) / 7;
+    const avgOver = on('averageWeeklyHours') && windowHours(p, f.day, avgLen, f.minutes, true) > 1e-9;
+    limitOf = (_len, n) => nightAllowance(rules.nightAverage.hours, n);
+    const nightOver = on('nightAverage') && nightWorker[p] && windowHours(p, f.day, nightLen, f.minutes, false) > 1e-9;
+    limitOf = () => rules.maxHoursPer7Days.hours;
+    const weekOver = on('maxHoursPer7Days') && windowHours(p, f.day, 7, f.minutes, true) > 1e-9;
     const limits: [keyof typeof rules, boolean][] = [
-      ['weeklyRest', count(rules.weeklyRest.days, dayShifts) > rules.weeklyRest.maxShifts],
-      ['maxHoursPer7Days', windowMax(dayMinutes[p], f.day, 7) + f.minutes > rules.maxHoursPer7Days.hours * 60],
+      ['shiftsPerWindow', count(rules.shiftsPerWindow.days, dayShifts) > rules.shiftsPerWindow.maxShifts],
+      ['weeklyRest', on('weeklyRest') && restBroken(p, fi)],
+      ['averageWeeklyHours', avgOver],
+      ['nightAverage', nightOver],
+      ['maxHoursPer7Days', weekOver],
       ['maxConsecutiveDays', count(rules.maxConsecutiveDays.days + 1, dayShifts) > rules.maxConsecutiveDays.days],
       ['maxNightsInRow', f.night && count(rules.maxNightsInRow.nights + 1, dayNights) > rules.maxNightsInRow.nights],
     ];
     for (const [rule, broken] of limits) {
       if (!broken || !on(rule)) continue;
       if (rules[rule].hard) return 'hard';
+      soft = true;
+    }
+    for (const t of termsOf[p]) {
+      if (t.from !== undefined && f.date < t.from) continue;
+      const mine = worked[p].map((k) => facts[k]).filter((o) => t.from === undefined || o.date >= t.from);
+      let broken = false;
+      if (t.kind === 'maxHours') broken = (mine.reduce((m, o) => m + o.minutes, 0) + f.minutes) / 60 > t.hours;
+      else if (t.kind === 'maxNights') broken = f.night && mine.filter((o) => o.night).length + 1 > t.count;
+      else if (t.kind === 'maxShiftsPerWeek') {
+        const monday = f.day - ((f.day + mondayOffset) % 7);
+        broken = mine.filter((o) => o.day >= monday && o.day < monday + 7).length + 1 > t.count;
+      } else if (t.kind === 'maxWeekends' && f.weekend) {
+        const key = (o: typeof f) => o.day - ((o.day + mondayOffset) % 7);
+        const weeks = new Set(mine.filter((o) => o.weekend).map(key));
+        broken = !weeks.has(key(f)) && weeks.size + 1 > t.count;
+      }
+      if (!broken) continue;
+      if (t.hard) return 'hard';
       soft = true;
     }
     return soft ? 'soft' : 'ok';

@@ -90,6 +90,10 @@ interface ShiftPlan {
 
 export interface LagrangianSetup {
   compiled: CompiledRoster;
+  /** Per seat variable (aux variables left out), the person of each value. */
+  domains: number[][];
+  /** The model has auxiliary variables whose factors the relaxation leaves out (see buildLagrangian). */
+  relaxedAux: boolean;
   people: PersonPlan[];
   shifts: ShiftPlan[];
   constant: number;
@@ -113,7 +117,13 @@ export interface LagrangianOptions {
 /** Prepare the relaxation, or say why this model does not fit it. */
 export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOptions = {}): LagrangianSetup | { unsupported: string } {
   const model: Model = compiled.model;
-  const { roster, facts, domains } = compiled;
+  const { roster, facts } = compiled;
+  // Auxiliary variables (weekly rest: which rest interval is kept) and every factor touching
+  // them are left out. Each of those factors scores ≤ 0 (a hard "seats free" test or a soft
+  // −weight), so dropping them can only raise the maximum: L stays an upper bound, a looser one.
+  const nSeatVars = compiled.seatIds.length;
+  const domains = compiled.domains.slice(0, nSeatVars);
+  const touchesAux = (f: Model['factors'][number]) => ('v' in f ? (f as { v: number }).v >= nSeatVars : 'vars' in f ? (f as { vars: ArrayLike<number> }).vars.length > 0 && Array.from((f as { vars: ArrayLike<number> }).vars).some((v) => v >= nSeatVars) : false);
   const maxLookback = opts.maxLookback ?? 6;
   const maxTransitions = opts.maxTransitions ?? 12_000_000;
   const nSeats = domains.length;
@@ -141,6 +151,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
   let constant = model.constant ?? 0;
 
   for (const f of model.factors) {
+    if (compiled.aux.length && touchesAux(f)) continue;
     switch (f.kind) {
       case 'unary':
         for (let x = 0; x < f.table.length; x++) unary[f.v]![x] += f.table[x]!;
@@ -470,7 +481,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
     periodF.forEach((pf, j) => (pf.tmax = Math.min(pf.table.length - 1, maxReachable(plan, j))));
     people.push(plan);
   }
-  return { compiled, people, shifts, constant, muIndex, nMu, nNu, lookback };
+  return { compiled, domains, relaxedAux: compiled.aux.length > 0, people, shifts, constant, muIndex, nMu, nNu, lookback };
 }
 
 /** Multipliers of a run, keyed by names that survive recompiling the roster (a warm start for the next run). */
@@ -483,7 +494,8 @@ export interface DualStart {
 
 /** Name of each μ: the (shift, person) it prices. */
 export function multiplierKeys(S: LagrangianSetup): string[] {
-  const { roster, domains } = S.compiled;
+  const { roster } = S.compiled;
+  const domains = S.domains;
   const out: string[] = new Array(S.nMu);
   domains.forEach((d, s) =>
     d.forEach((p, x) => {
@@ -638,7 +650,7 @@ export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { de
 function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Float64Array, emit?: (values: number[], score: number, mus: number[]) => void): number {
   const n = sp.seats.length;
   const muIndex = S.muIndex;
-  const domains = S.compiled.domains;
+  const domains = S.domains;
   if (sp.mixed.length === 0) {
     let total = 0;
     const values: number[] = [], mus: number[] = [];
@@ -858,7 +870,7 @@ function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: F
     fixed += pp.fixed[d]![k]!;
     for (const seat of bestSeat[d]![oi]!) {
       seats.push(seat);
-      const x = S.compiled.domains[seat]!.indexOf(pp.p);
+      const x = S.domains[seat]!.indexOf(pp.p);
       const mi = muIndex[seat]![x]!;
       if (mi >= 0) (gMu[mi] += 1), mus.push(mi);
     }

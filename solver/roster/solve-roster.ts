@@ -125,8 +125,6 @@ async function tightenWithLagrangian(
   signal?: AbortSignal,
 ): Promise<DualStart | undefined> {
   const t0 = now();
-  // auxiliary variables (compiled.aux, e.g. weekly rest) are not in the decomposition yet: keep MPLP's bound
-  if ((compiled as { aux?: unknown[] }).aux?.length) return undefined;
   const S = buildLagrangian(compiled, { deadline, now });
   if ('unsupported' in S) return undefined;
   const startMs = result.timeMs - (now() - t0);
@@ -149,7 +147,7 @@ async function tightenWithLagrangian(
     if (highs) {
       const cg = createColumnGeneration(S, highs, { incumbent: result.score > -Infinity ? result.assignment : undefined, start: dualStart });
       try {
-        while (now() < deadline && !signal?.aborted && !cg.converged) {
+        while (now() < deadline && !signal?.aborted && !cg.converged && !cg.failed) {
           cg.run(Math.min(deadline, now() + 50), now);
           report(cg.bound, cg.rounds);
           if (done()) break;
@@ -171,7 +169,9 @@ async function tightenWithLagrangian(
         }
         result.method = `${result.method}+column-generation`;
         if (done()) (result.optimal = true), (result.stopReason = 'gap');
-        return Number.isFinite(cg.bound) ? cg.dual() : undefined;
+        // a master HiGHS could not solve: the subgradient goes on from here (below)
+        if (!cg.failed || result.optimal) return Number.isFinite(cg.bound) ? cg.dual() : undefined;
+        if (!dualStart && Number.isFinite(cg.bound)) dualStart = cg.dual();
       } catch {
         // HiGHS failed on the master: the bounds reported so far stay valid; the subgradient takes over
       } finally {

@@ -22,7 +22,11 @@ describe('Willowmere House demo', () => {
     expect(demo.pairings.some((p) => p.score > 0)).toBe(true);
     expect(demo.pairings.some((p) => p.score < 0 || p.never)).toBe(true);
     expect(new Set(demo.wishes.map((w) => w.person)).size).toBeGreaterThanOrEqual(4);
-    for (const r of RULE_NAMES) expect(demo.rules[r].enabled).toBe(true);
+    // every rule on except the two local policies, which are off by default
+    for (const r of RULE_NAMES) expect(demo.rules[r].enabled).toBe(r !== 'shiftsPerWindow' && r !== 'maxHoursPer7Days');
+    // issue 12: leave, a sick day and a training day; a no-nights term and fixed days off
+    expect(demo.absences.map((a) => a.kind).sort()).toEqual(['annual', 'sick', 'training']);
+    expect(demo.people.filter((p) => p.terms.length).map((p) => p.terms[0].kind).sort()).toEqual(['daysOff', 'noNights']);
   });
 
   it('is feasible with every rule on: a greedy roster fills every seat and breaks no hard rule', () => {

@@ -10,6 +10,7 @@ import { compileRoster } from '../../solver/roster/compile';
 import { decodeAssignment } from '../../solver/roster/decode';
 import { scoreRoster } from '../../solver/roster/score-roster';
 import { enumerateModel } from '../../solver/inference';
+import { withCatalogueTables } from '../../solver/roster/rules/write-docs';
 
 const doc = readFileSync(new URL('../../docs/roster-format.md', import.meta.url), 'utf8');
 
@@ -35,6 +36,10 @@ describe('docs/roster-format.md', () => {
   it('the JSON Schema file is the generated one', () => {
     const file = JSON.parse(readFileSync(new URL('../../docs/roster-format.schema.json', import.meta.url), 'utf8'));
     expect(file).toEqual(JSON.parse(JSON.stringify(rosterJsonSchema())));
+  });
+
+  it('carries the rule and term tables exactly as the catalogue writes them (solver/roster/rules/write-docs.ts)', () => {
+    expect(withCatalogueTables(doc)).toBe(doc);
   });
 
   it('documents every rule with its default', () => {

@@ -40,8 +40,14 @@ describe('roster schema', () => {
     expect(r.roster.rules.minRest.hours).toBe(11);
     expect(r.roster.rules.maxHoursPer7Days.hours).toBe(48);
     expect(r.roster.rules.nightShiftLength.hours).toBe(8);
-    expect(r.roster.rules.weeklyRest).toMatchObject({ days: 7, maxShifts: 6 });
-    expect(Object.values(r.roster.rules).every((rule) => rule.enabled)).toBe(true);
+    // Art. 5: 24 h + the 11 h of Art. 3 in every 7 days; Art. 6: 48 h average; Art. 8: 8 h per 24 h
+    expect(r.roster.rules.weeklyRest).toMatchObject({ days: 7, hours: 35 });
+    expect(r.roster.rules.averageWeeklyHours).toMatchObject({ hours: 48, hard: true });
+    expect(r.roster.rules.nightAverage).toMatchObject({ hours: 8, hard: true });
+    // the two local policies (no source) are off until a workplace turns them on
+    expect(r.roster.rules.shiftsPerWindow.enabled).toBe(false);
+    expect(r.roster.rules.maxHoursPer7Days.enabled).toBe(false);
+    expect(Object.entries(r.roster.rules).every(([id, rule]) => rule.enabled || id === 'shiftsPerWindow' || id === 'maxHoursPer7Days')).toBe(true);
   });
 
   it('names the field of a shift that ends before it starts', () => {

@@ -27,7 +27,7 @@
  * The restricted master solved with integral λ, θ (`integerRoster`) is a primal heuristic: its
  * shift columns put together are a roster (price-and-branch).
  */
-import type { CompiledRoster } from '../compile';
+import { withAux, type CompiledRoster } from '../compile';
 import { applyDual, dualOf, evaluateLagrangian, shiftColumnOf, type Columns, type DualStart, type LagrangianSetup } from '../lagrangian';
 
 export type { DualStart };
@@ -61,8 +61,10 @@ export interface ColumnGeneration {
   run(deadline: number, now: () => number): void;
   /** Multipliers at the best bound, keyed for a later run (DualStart). */
   dual(): DualStart;
-  /** The roster made of each shift's heaviest column in the last master LP solution (exact when that solution is integral). */
+  /** The roster made of each shift's heaviest column in the last master LP solution (exact when that solution is integral); aux variables at their best (withAux). */
   lpRoster(): Int32Array | null;
+  /** Why the master stopped (HiGHS could not solve it), or undefined; bounds reported before stay valid. */
+  readonly failed: string | undefined;
   /** Solve the restricted master with integral columns (time limit in s): a roster, or null. */
   integerRoster(timeLimitS: number): Int32Array | null;
   dispose(): void;
@@ -73,7 +75,7 @@ const B = 1e6; // seeds the master with the incumbent's own schedules (see seed(
 export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, options: Partial<ColumnGenerationOptions> = {}): ColumnGeneration {
   const o = { ...DEFAULT_COLUMN_GENERATION, ...options };
   const compiled: CompiledRoster = S.compiled;
-  const { domains } = compiled;
+  const domains = S.domains;
   const nSh = S.shifts.length;
   const nP = S.people.length;
   const pj: number[] = []; // offset of person i's period factors
@@ -207,6 +209,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
   let masterValue = -Infinity;
   let rounds = 0;
   let converged = false;
+  let failed: string | undefined;
   const center = { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)), set: false };
   const best = { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)) };
   const keep = (cmu: Float64Array, cnu: Float64Array[], L: number) => {
@@ -233,8 +236,19 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
 
   const solveMaster = () => {
     m.run();
+    // the primal simplex occasionally ends in "unknown" (status 15) on a degenerate master:
+    // retry once from a cold start with the dual simplex and presolve before giving up
+    if (m.getModelStatus() !== highs.constants.modelStatus.optimal) {
+      m.clearSolver();
+      m.options.set({ simplex_strategy: 1, presolve: 'on' });
+      m.run();
+      m.options.set({ simplex_strategy: 4, presolve: 'off' });
+    }
     // a master HiGHS could not solve gives no duals: stop (every bound so far stays valid)
-    if (m.getModelStatus() !== highs.constants.modelStatus.optimal) throw new Error(`column generation: master LP status ${m.getModelStatus()}`);
+    if (m.getModelStatus() !== highs.constants.modelStatus.optimal) {
+      failed = `master LP status ${m.getModelStatus()}`;
+      return null;
+    }
     const sol = m.getSolution();
     masterValue = m.getObjectiveValue() + S.constant;
     const y = sol.rowDual;
@@ -249,6 +263,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
 
   const round = () => {
     const y = solveMaster();
+    if (!y) return;
     const a = center.set ? alpha : 0;
     for (let q = 0; q < S.nMu; q++) sepMu[q] = a * center.mu[q]! + (1 - a) * mu[q]!;
     sepNu.forEach((v, i) => v.forEach((_, j) => (v[j] = a * center.nu[i]![j]! + (1 - a) * nu[i]![j]!)));
@@ -297,9 +312,12 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
     get converged() {
       return converged;
     },
+    get failed() {
+      return failed;
+    },
     run(deadline, now) {
       do {
-        if (converged) return;
+        if (converged || failed) return;
         round();
       } while (now() < deadline);
     },
@@ -317,7 +335,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
           S.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
         }
       });
-      return x.every((val) => val >= 0) ? x : null;
+      return x.every((val) => val >= 0) ? withAux(compiled, x) : null;
     },
     integerRoster(timeLimitS) {
       const n = cols.length;
@@ -339,7 +357,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
           cols.forEach((c, k) => {
             if (c.kind === 'shift' && v[k]! > 0.5) S.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
           });
-          if (x.every((val) => val >= 0)) out = x;
+          if (x.every((val) => val >= 0)) out = withAux(compiled, x);
         }
       } finally {
         m.clearIntegrality();

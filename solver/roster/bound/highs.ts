@@ -21,6 +21,8 @@ export interface HighsPersistentModel {
   getSolution(): { colValue: Float64Array; rowDual: Float64Array; colDual: Float64Array };
   getObjectiveValue(): number;
   getModelStatus(): number;
+  /** Drops the basis and solver state, keeping the model (a cold start for the next run). */
+  clearSolver(): unknown;
   changeObjectiveSense(sense: unknown): unknown;
   addRows(data: { lower: Float64Array; upper: Float64Array; matrix: HighsSparse }): unknown;
   addCols(data: { cost: Float64Array; lower: Float64Array; upper: Float64Array; matrix: HighsSparse }): unknown;

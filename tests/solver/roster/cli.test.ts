@@ -58,7 +58,7 @@ describe('solve --roster', () => {
     const bad = { ...r, wishes: ['imogen', 'tobias', 'delphine'].map((person) => ({ person, date: '2027-01-12', kind: 'cannot', strength: 1 })) };
     const res = await run(['--roster', file('inf.json', JSON.stringify(bad))]);
     expect(res.code).toBe(1);
-    expect(res.out).toContain('Night lead needed on the night shift on Tue 12 Jan, nobody with that skill is available');
+    expect(res.out).toContain('Nobody can take the Night lead seat on the night shift on Tue 12 Jan: Imogen Thistlewood, Tobias Marchbank and Delphine Ashcombe cannot (their wish)');
   });
 
   it('--json: the solved roster, whose score the independent scorer confirms', async () => {

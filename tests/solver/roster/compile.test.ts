@@ -15,7 +15,9 @@ describe('compileRoster', () => {
 
   it('makes a valid model: one variable per seat, values = eligible people + open, keys = person index / -1', () => {
     validateModel(c.model);
-    expect(c.model.variables).toHaveLength(demo.seats.length);
+    // seats first, then one auxiliary variable per (person, 7-day window) of the weekly rest (Art. 5)
+    expect(c.model.variables).toHaveLength(demo.seats.length + c.aux.length);
+    expect(c.aux.every((a, k) => a.v === demo.seats.length + k && a.term === 'weeklyRest')).toBe(true);
     demo.seats.forEach((seat, s) => {
       const v = c.model.variables[s];
       expect(c.seatIndex.get(seat.id)).toBe(s);
@@ -50,7 +52,7 @@ describe('compileRoster', () => {
   it('hard coverage removes open; a pin leaves one value', () => {
     const r = makeWillowmereRoster({ rules: { coverage: { hard: true } }, pins: [{ seat: 'night-2027-01-05-1', person: 'imogen' }] });
     const h = compileRoster(r);
-    expect(h.domains.every((d) => !d.includes(OPEN))).toBe(true);
+    expect(h.domains.slice(0, r.seats.length).every((d) => !d.includes(OPEN))).toBe(true);
     expect(h.domains[h.seatIndex.get('night-2027-01-05-1')!]).toEqual([r.people.findIndex((p) => p.id === 'imogen')]);
   });
 
@@ -58,12 +60,19 @@ describe('compileRoster', () => {
     const big = compileRoster(makeRoster({ people: 20, weeks: 13 }));
     const longest = Math.max(...big.model.factors.map((f) => (f.kind === 'counting' && typeof f.score !== 'function' ? f.score.length : 0)));
     // This fixture spans the spring DST change (a 7 h night), so hours count in 1 h units; a
-    // person's sum over 13 weeks is capped by 48 h a week: 13 × 48 + 1 entries at most, not one
-    // per hour of every seat they could take (13 × 7 × 27 seats × 8 h).
+    // person's sum over 13 weeks is capped by the 48 h average (Art. 6 with Art. 16(b), over the
+    // period: 48 × 91 / 7 = 624 h): 0..624 allowed plus one -Infinity entry, not one entry per
+    // hour of every seat they could take (13 × 7 × 27 seats × 8 h).
     expect(big.minuteUnit).toBe(60);
-    expect(longest).toBeLessThanOrEqual(13 * 48 + 1);
-    const weekly = big.model.factors.filter((f) => f.kind === 'counting' && f.id?.startsWith('weeklyRest'));
-    // a hard "at most 6" stops at 7 entries: 0..6 allowed, then -Infinity repeated
+    expect(longest).toBeLessThanOrEqual(13 * 48 + 2);
+  });
+
+  it('a hard "at most 6 shifts in 7 days" (local policy) stops its table at 8 entries', () => {
+    const r = makeRoster({ people: 20, weeks: 4 });
+    const c = compileRoster({ ...r, rules: { ...r.rules, shiftsPerWindow: { ...r.rules.shiftsPerWindow, enabled: true } } });
+    const weekly = c.model.factors.filter((f) => f.kind === 'counting' && f.id?.startsWith('shiftsPerWindow'));
+    expect(weekly.length).toBeGreaterThan(0);
+    // 0..6 allowed, then -Infinity repeated
     for (const f of weekly) expect(f.kind === 'counting' && Array.from(f.score as ArrayLike<number>)).toEqual([0, 0, 0, 0, 0, 0, 0, -Infinity]);
   });
 });
@@ -109,7 +118,7 @@ describe('explainInfeasible', () => {
   it('says when nobody with a needed skill is available', () => {
     const r = withWishes(base(), ['imogen', 'tobias', 'delphine'].map((person) => ({ person, date: '2027-01-12', kind: 'cannot' as const, strength: 1 })));
     const reasons = explainInfeasible(r);
-    expect(reasons).toContain('Night lead needed on the night shift on Tue 12 Jan, nobody with that skill is available (Imogen Thistlewood, Tobias Marchbank, Delphine Ashcombe cannot)');
+    expect(reasons).toContain('Nobody can take the Night lead seat on the night shift on Tue 12 Jan: Imogen Thistlewood, Tobias Marchbank and Delphine Ashcombe cannot (their wish)');
     // and the model agrees: no assignment scores above -Infinity (the seat has only the impossible open value)
     const c = compileRoster(r);
     const s = c.seatIndex.get('night-2027-01-12-1')!;
@@ -125,9 +134,9 @@ describe('explainInfeasible', () => {
   });
 
   it('says when a rest window has more skilled seats than the skill holders may work', () => {
-    // 7 night-lead seats a week, and only one night lead who may work 6 shifts in 7 days
+    // 7 night-lead seats a week, and only one night lead who may work 6 shifts in 7 days (local policy on, hard)
     const r0 = base();
-    const r = rosterSchema.parse({ ...r0, people: r0.people.map((p) => (p.id === 'tobias' || p.id === 'delphine' ? { ...p, skills: p.skills.filter((s) => s !== 'night-lead') } : p)) });
+    const r = rosterSchema.parse({ ...r0, rules: { ...r0.rules, shiftsPerWindow: { ...r0.rules.shiftsPerWindow, enabled: true, hard: true } }, people: r0.people.map((p) => (p.id === 'tobias' || p.id === 'delphine' ? { ...p, skills: p.skills.filter((s) => s !== 'night-lead') } : p)) });
     expect(explainInfeasible(r)).toContainEqual(expect.stringMatching(/^Mon 4 Jan–Sun 10 Jan has 7 Night lead seats; the 1 person with Night lead may work at most 6/));
   });
 

@@ -4,58 +4,10 @@
  * by the independent scorer and through the compiled model, and the two must agree.
  */
 import { describe, expect, it } from 'vitest';
-import { rosterSchema, type Roster, type RosterAssignment, type RosterInput } from '../../../shared/roster/schema';
-import { compileRoster, modelTerms } from '../../../solver/roster/compile';
-import { encodeAssignment } from '../../../solver/roster/decode';
+import { rosterSchema, type RosterInput } from '../../../shared/roster/schema';
+import { compileRoster } from '../../../solver/roster/compile';
 import { scoreRoster } from '../../../solver/roster/score-roster';
-import { score } from '../../../solver/model';
-
-type ShiftSpec = [id: string, label: string, start: string, end: string];
-
-/** Everything off but the rules named; one seat per shift; people with no skills needed. */
-function roster(shifts: ShiftSpec[], rules: RosterInput['rules'], extra: Partial<RosterInput> = {}): Roster {
-  const off = { enabled: false };
-  return rosterSchema.parse({
-    period: { start: '2027-01-04', end: '2027-01-17', timeZone: 'Europe/London' },
-    skills: [{ id: 'fa', name: 'First aid' }],
-    people: [
-      { id: 'ada', name: 'Ada Brook', skills: ['fa'] },
-      { id: 'ben', name: 'Ben Carrow', skills: [] },
-    ],
-    shifts: shifts.map(([id, patternLabel, start, end]) => ({ id, patternLabel, start, end })),
-    seats: shifts.map(([id]) => ({ id: `${id}#1`, shift: id })),
-    ...extra,
-    rules: {
-      coverage: off, minRest: off, weeklyRest: off, maxHoursPer7Days: off, nightShiftLength: off, maxConsecutiveDays: off,
-      maxNightsInRow: off, contractedHours: off, fairNights: off, fairWeekends: off, skillMix: off,
-      ...rules,
-    },
-  });
-}
-
-/** Score with both evaluators; they must agree, total and per term. */
-function both(r: Roster, a: RosterAssignment) {
-  const s = scoreRoster(r, a);
-  const c = compileRoster(r);
-  const enc = encodeAssignment(c, a);
-  expect(enc.ok).toBe(true);
-  if (enc.ok) {
-    expect(score(c.model, enc.values)).toBe(s.total);
-    if (s.feasible) {
-      const mt = modelTerms(c, enc.values);
-      for (const [t, v] of Object.entries(s.terms)) expect(mt[t as keyof typeof mt]).toBeCloseTo(v, 9);
-    }
-  }
-  return s;
-}
-
-const all = (r: Roster, who: string | null): RosterAssignment => Object.fromEntries(r.seats.map((s) => [s.id, who]));
-const days = (n: number, start: string, end: string, label = 'day', from = 4): ShiftSpec[] =>
-  Array.from({ length: n }, (_, i) => {
-    const d = String(from + i).padStart(2, '0');
-    const endDay = end < start ? String(from + i + 1).padStart(2, '0') : d;
-    return [`${label}${i + 1}`, label, `2027-01-${d}T${start}`, `2027-01-${endDay}T${end}`];
-  });
+import { all, both, days, roster, type ShiftSpec } from './rule-helpers';
 
 describe('minimum rest between shifts (Art. 3: 11 consecutive hours in every 24)', () => {
   const late: ShiftSpec = ['late', 'late', '2027-01-04T14:30', '2027-01-04T22:30'];
@@ -90,34 +42,120 @@ describe('minimum rest between shifts (Art. 3: 11 consecutive hours in every 24)
   });
 });
 
-describe('weekly rest (Art. 5) and maximum weekly hours (Art. 6)', () => {
-  const rules = { weeklyRest: { hard: false, weight: 10 }, maxHoursPer7Days: { hard: false, weight: 1 } };
-  it('6 × 8 h days in 7 is 48 h and allowed', () => {
+// Directive 2003/88/EC, Art. 5: "per each seven-day period, every worker is entitled to a minimum
+// uninterrupted rest period of 24 hours plus the 11 hours' daily rest referred to in Article 3"
+// (35 h in one stretch); Art. 16(a): a reference period of up to 14 days. Checked in every 7-day
+// window inside the period, in real time.
+describe('weekly rest (Art. 5 with Art. 16(a): 24 h + 11 h uninterrupted in every 7 days)', () => {
+  const rules = { weeklyRest: { hard: false, weight: 10 } };
+  it('Mon–Fri 07:00–15:00 leaves Fri 15:00 → Sun 24:00 = 57 h inside the week: kept', () => {
+    const r = roster(days(5, '07:00', '15:00'), rules);
+    expect(both(r, all(r, 'ada')).violations).toEqual([]);
+  });
+  it('Mon–Sat 07:00–15:00 leaves 33 h inside Mon 4–Sun 10 Jan, 2 h short of 35: broken once', () => {
     const r = roster(days(6, '07:00', '15:00'), rules);
     const s = both(r, all(r, 'ada'));
-    expect(s.violations).toEqual([]);
+    expect(s.terms.weeklyRest).toBe(-10);
+    expect(s.violations.map((v) => v.message)).toEqual(['Ada Brook: longest rest 33 h in the 7 days Mon 4 Jan–Sun 10 Jan; needs 35 h']);
   });
-  it('a 7th day in a row breaks the weekly rest and the 48 h', () => {
+  it('seven days in a row break the Mon–Sun and the Tue–Mon windows; Wed–Tue has Sun 15:00 → Tue 24:00 = 57 h', () => {
     const r = roster(days(7, '07:00', '15:00'), rules);
     const s = both(r, all(r, 'ada'));
-    expect(s.terms.weeklyRest).toBe(-10); // 7 shifts in one 7-day window, 1 over 6
-    expect(s.terms.maxHoursPer7Days).toBe(-8); // 56 h, 8 h over 48
-    expect(s.violations.map((v) => v.message)).toContain('Ada Brook: 7 shifts in the 7 days Mon 4 Jan–Sun 10 Jan, no day for the weekly rest; at most 6');
+    expect(s.terms.weeklyRest).toBe(-20);
+    expect(s.violations.map((v) => v.message)).toContain('Ada Brook: longest rest 33 h in the 7 days Tue 5 Jan–Mon 11 Jan; needs 35 h');
   });
-  it('5 × 10 h = 50 h in 7 days is 2 h over 48 (per hour, soft)', () => {
+  it('a rest of exactly 35 h is enough: Sat 13:00 → Mon 00:00 with a night into Sat 13:00', () => {
+    // Mon 4 – Fri 8 day shifts, then Fri 22:00 → Sat 13:00 (15 h, a long shift; only weekly rest is on)
+    const shifts: ShiftSpec[] = [...days(4, '07:00', '15:00'), ['long', 'long', '2027-01-08T22:00', '2027-01-09T13:00']];
+    const r = roster(shifts, rules, { period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' } });
+    expect(both(r, all(r, 'ada')).violations).toEqual([]);
+  });
+  it('Art. 16(a): over a 14-day reference period one 35 h rest is asked; 13 days in a row leave 33 h', () => {
+    const r = roster(days(13, '07:00', '15:00'), { weeklyRest: { hard: false, weight: 10, days: 14 } });
+    const s = both(r, all(r, 'ada'));
+    expect(s.terms.weeklyRest).toBe(-10);
+    const twelve = roster(days(12, '07:00', '15:00'), { weeklyRest: { hard: false, weight: 10, days: 14 } });
+    expect(both(twelve, all(twelve, 'ada')).violations).toEqual([]); // Fri 15:00 → Sun 24:00 = 57 h
+  });
+  it('hard: a roster without the rest is infeasible, and two people sharing the week keep it', () => {
+    const r = roster(days(7, '07:00', '15:00'), { weeklyRest: { hard: true } });
+    expect(both(r, all(r, 'ada')).feasible).toBe(false);
+    const a = all(r, 'ada');
+    a['day6#1'] = 'ben';
+    a['day7#1'] = 'ben';
+    expect(both(r, a).feasible).toBe(true);
+  });
+});
+
+// Art. 6(b): "the average working time for each seven-day period, including overtime, does not
+// exceed 48 hours"; Art. 16(b): averaged over a reference period of up to four months, with paid
+// annual leave and sick leave "neutral" (here: counted at the hours they credit).
+describe('average weekly working time (Art. 6 with Art. 16(b): 48 h on average)', () => {
+  const fortnight = (n1: number, n2: number): ShiftSpec[] => [...days(n1, '07:00', '17:00', 'w1', 4), ...days(n2, '07:00', '17:00', 'w2', 11)];
+  it('60 h then 30 h is 90 h over 14 days, an average of 45 h: kept (a 7-day cap would count 12 h over)', () => {
+    const r = roster(fortnight(6, 3), { averageWeeklyHours: { hard: false, weight: 1 } });
+    expect(both(r, all(r, 'ada')).violations).toEqual([]);
+    const capped = roster(fortnight(6, 3), { maxHoursPer7Days: { hard: false, weight: 1 } });
+    // local policy, stricter: every rolling window is held to 48 h (12 h over in Mon 4–Sun 10 alone)
+    const c = both(capped, all(capped, 'ada'));
+    expect(c.violations.map((v) => v.message)).toContainEqual(expect.stringContaining('60 h in the 7 days Mon 4 Jan–Sun 10 Jan'));
+    expect(c.terms.maxHoursPer7Days).toBeLessThan(-12);
+  });
+  it('60 h then 40 h is 100 h against 96 h (48 × 14 / 7): 4 h over, per hour', () => {
+    const r = roster(fortnight(6, 4), { averageWeeklyHours: { hard: false, weight: 3 } });
+    const s = both(r, all(r, 'ada'));
+    expect(s.terms.averageWeeklyHours).toBe(-12);
+    expect(s.violations[0].message).toContain('100 h in the 14 days');
+  });
+  it('a reference period of 7 days rolls: 60 h in Mon 4–Sun 10 is 12 h over, 50 h in Tue 5–Mon 11 is 2 h', () => {
+    const r = roster(fortnight(6, 0), { averageWeeklyHours: { hard: false, weight: 1, referenceDays: 7 } });
+    expect(both(r, all(r, 'ada')).terms.averageWeeklyHours).toBe(-14);
+  });
+  it('credited leave counts: 90 h worked + a day of annual leave crediting 8 h = 98 h, 2 h over 96', () => {
+    const r = roster(fortnight(6, 3), { averageWeeklyHours: { hard: false, weight: 1 } }, {
+      absences: [{ person: 'ada', kind: 'annual', start: '2027-01-15T00:00', end: '2027-01-16T00:00', creditHours: 8 }],
+    });
+    expect(both(r, all(r, 'ada')).terms.averageWeeklyHours).toBe(-2);
+  });
+});
+
+// Local policies with no source (common practice): a rolling 7-day hours cap, shifts per window.
+describe('local policies (no source): hours in any 7 days, shifts per window', () => {
+  it('5 × 10 h = 50 h in 7 days is 2 h over 48 (per hour, soft); hard is infeasible', () => {
     const r = roster(days(5, '07:00', '17:00'), { maxHoursPer7Days: { hard: false, weight: 3 } });
     expect(both(r, all(r, 'ada')).terms.maxHoursPer7Days).toBe(-6);
     const hard = roster(days(5, '07:00', '17:00'), { maxHoursPer7Days: { hard: true } });
     expect(both(hard, all(hard, 'ada')).feasible).toBe(false);
   });
-  it('windows roll: days 2–8 are a window too', () => {
-    // 8 days, off on day 1 only for Ben's half: Ada works days 2..8 → 7 in the window Tue–Mon
-    const r = roster(days(8, '07:00', '15:00'), { weeklyRest: { hard: false, weight: 1 } });
+  it('at most 6 shifts in 7 days: windows roll, days 2–8 are a window too', () => {
+    const r = roster(days(8, '07:00', '15:00'), { shiftsPerWindow: { hard: false, weight: 1 } });
     const a = all(r, 'ada');
     a['day1#1'] = 'ben';
     const s = both(r, a);
-    expect(s.terms.weeklyRest).toBe(-1);
+    expect(s.terms.shiftsPerWindow).toBe(-1);
     expect(s.violations[0].message).toContain('Tue 5 Jan–Mon 11 Jan');
+  });
+});
+
+// Art. 8(a): "normal hours of work for night workers do not exceed an average of eight hours in any
+// 24-hour period"; the weekly rest days are left out of the average (Art. 16(c), from memory).
+describe('night work average (Art. 8)', () => {
+  const nights = (n: number): ShiftSpec[] => days(n, '20:00', '08:00', 'night');
+  const nightRoster = (n: number, extra: Partial<RosterInput> = {}) => {
+    const shifts = nights(n).map(([id, , start, end]) => ({ id, patternLabel: 'night', start, end, night: true }));
+    return roster(nights(n), { nightAverage: { hard: false, weight: 1, referenceDays: 7 } }, { shifts, ...extra });
+  };
+  it('7 days hold 8 h × 6 = 48 h for a night worker: four 12 h nights are 48 h, kept; five are 60 h, 12 h over', () => {
+    const four = nightRoster(4);
+    expect(both(four, all(four, 'ada')).violations).toEqual([]);
+    const five = nightRoster(5);
+    expect(both(five, all(five, 'ada')).terms.nightAverage).toBe(-12);
+  });
+  it('someone on a hard no-nights term is no night worker and is not held to it', () => {
+    const five = nightRoster(5);
+    const r = rosterSchema.parse({ ...five, people: five.people.map((p) => (p.id === 'ben' ? { ...p, terms: [{ kind: 'noNights', hard: true, weight: 0 }] } : p)) });
+    // Ben cannot take the nights at all (hard term): every seat open or Ada's
+    expect(both(r, all(r, 'ada')).terms.nightAverage).toBe(-12);
   });
 });
 

@@ -95,7 +95,8 @@ describe('scoreRoster equals the model score', () => {
   });
 
   it('agrees on the demo with the rules soft, for assignments with every term non-zero', () => {
-    const r = makeWillowmereRoster({ rules: { minRest: { hard: false }, weeklyRest: { hard: false }, maxHoursPer7Days: { hard: false }, nightShiftLength: { hours: 7 } } });
+    const soft = { hard: false, enabled: true };
+    const r = makeWillowmereRoster({ rules: { minRest: { hard: false }, weeklyRest: soft, averageWeeklyHours: soft, nightAverage: soft, shiftsPerWindow: soft, maxHoursPer7Days: soft, nightShiftLength: { hours: 7 } } });
     const c = compileRoster(r);
     for (let k = 0; k < 4; k++) {
       const x = randomValues(c, 500 + k);

@@ -12,7 +12,7 @@ import { score } from '../../../solver/model';
 import { randomValues } from './helpers';
 
 describe('expandCountingForUai', () => {
-  const roster = makeRoster({ people: 4, weeks: 1, seed: 9, rules: { minRest: { hard: false }, weeklyRest: { hard: false, maxShifts: 3 }, maxHoursPer7Days: { hard: false, hours: 30 } } });
+  const roster = makeRoster({ people: 4, weeks: 1, seed: 9, rules: { minRest: { hard: false }, weeklyRest: { hard: false }, shiftsPerWindow: { enabled: true, hard: false, maxShifts: 3 }, maxHoursPer7Days: { hard: false, hours: 30 } } });
   const c = compileRoster(roster);
   const ex = expandCountingForUai(c.model);
 
