@@ -88,11 +88,12 @@ function RequestRow({ request }: { request: PairingDto }) {
   );
 }
 
-function KindChips({ value, onChange, name }: { value: Kind; onChange: (k: Kind) => void; name: string }) {
+/** One of three kinds: radios in a radiogroup with a name a screen reader can say. */
+function KindChips({ value, onChange, label, testID }: { value: Kind; onChange: (k: Kind) => void; label: string; testID?: string }) {
   return (
-    <View style={styles.chips} role="radiogroup" aria-label={name}>
+    <View style={styles.chips} role="radiogroup" aria-label={label}>
       {KINDS.map((k) => (
-        <Chip key={k.kind} label={k.label} selected={value === k.kind} onPress={() => onChange(k.kind)} testID={`${name}-${k.kind}`} />
+        <Chip key={k.kind} role="radio" label={k.label} selected={value === k.kind} onPress={() => onChange(k.kind)} testID={testID ? `${testID}-${k.kind}` : undefined} />
       ))}
     </View>
   );
@@ -130,7 +131,7 @@ function AddPairing() {
         <PersonPicker label="First person" value={a} onChange={setA} error={errors.personAId ? 'Choose the first person' : serverField('personAId')} testID="pairing-a" />
         <PersonPicker label="Second person" value={b} onChange={setB} error={errors.personBId ?? serverField('personBId')} testID="pairing-b" />
       </View>
-      <KindChips value={kind} onChange={setKind} name="pairing-kind" />
+      <KindChips value={kind} onChange={setKind} label="Kind of pairing" testID="pairing-kind" />
       {kind !== 'never' ? (
         <View style={styles.strength}>
           <TextField label="Strength in points" value={strength} onChangeText={setStrength} inputMode="decimal" error={errors.score} testID="pairing-strength" />
@@ -203,7 +204,7 @@ function PairingRow({ pairing }: { pairing: PairingDto }) {
         {pairing.reason ? <Text style={styles.muted}>{`Reason given: “${pairing.reason}”`}</Text> : null}
       </View>
       <View role="cell" style={styles.pEdit}>
-        <KindChips value={kind} onChange={setKind} name={`Kind for ${label}`} />
+        <KindChips value={kind} onChange={setKind} label={`Kind of pairing for ${label}`} />
         {kind !== 'never' ? (
           <View style={styles.strength}>
             <TextField label={`Points for ${label}`} value={strength} onChangeText={setStrength} inputMode="decimal" error={error ?? undefined} />

@@ -14,10 +14,11 @@ export function CoordinatorsOnly({ children, what }: { children: ReactNode; what
 }
 
 /** A toggle shown as a rounded label: skills on a person, filters. */
-export function Chip({ label, selected, onPress, testID, accessibilityLabel }: { label: string; selected: boolean; onPress: () => void; testID?: string; accessibilityLabel?: string }) {
+/** A toggle chip: a checkbox on its own or among several picks, a radio inside a one-of-many group. */
+export function Chip({ label, selected, onPress, testID, accessibilityLabel, role = 'checkbox' }: { label: string; selected: boolean; onPress: () => void; testID?: string; accessibilityLabel?: string; role?: 'checkbox' | 'radio' }) {
   return (
     <Pressable
-      role="checkbox"
+      role={role}
       aria-checked={selected}
       accessibilityLabel={accessibilityLabel ?? label}
       onPress={onPress}

@@ -1,6 +1,6 @@
 import { useEffect, useState } from 'react';
 import { ActivityIndicator, Pressable, StyleSheet, Text, View } from 'react-native';
-import { router } from 'expo-router';
+import { router, useLocalSearchParams } from 'expo-router';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { useIsWide } from '@/hooks/use-is-wide';
 import { usePeople, type PersonDto } from '@/hooks/api/get-people';
@@ -40,6 +40,7 @@ function useDebounced<T>(value: T, ms: number): T {
 
 function PeopleList() {
   const wide = useIsWide();
+  const { added } = useLocalSearchParams<{ added?: string }>();
   const [search, setSearch] = useState('');
   const q = useDebounced(search.trim(), 250);
   const [skillId, setSkillId] = useState<number | undefined>();
@@ -68,8 +69,13 @@ function PeopleList() {
         <Heading>People</Heading>
         <Body muted>Everyone who can be rostered, with their contracted hours and skills.</Body>
       </View>
+      {added ? (
+        <View role="status" testID="people-added">
+          <Notice kind="info">{`Added ${added}. Open them from the list to add time away or terms.`}</Notice>
+        </View>
+      ) : null}
       <View style={styles.actions}>
-        <LinkButton href="/people/new" label="Add a person" primary testID="people-add" />
+        <LinkButton href="/people/new" label={added ? 'Add another person' : 'Add a person'} primary testID="people-add" />
         <LinkButton href="/people/import" label="Import CSV" testID="people-import" />
         <ExportLink />
         <LinkButton href="/people/skills" label="Skills" testID="people-skills" />

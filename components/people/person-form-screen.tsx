@@ -38,7 +38,8 @@ export function NewPersonScreen() {
   const submit = () => {
     const checked = checkForm(createPersonBody, toBody(values));
     setErrors(checked.errors ?? {});
-    if (checked.data) create.mutate(checked.data, { onSuccess: () => router.replace('/people') });
+    // The list says who was added, so the tap is seen to have worked.
+    if (checked.data) create.mutate(checked.data, { onSuccess: (person) => router.replace({ pathname: '/people', params: { added: person.name } }) });
   };
   return (
     <CoordinatorsOnly what="people">

@@ -1,7 +1,6 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, space } from '@/constants/theme';
-import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import { useRun } from '@/hooks/api/get-run';
 import { usePublishRoster } from '@/hooks/api/publish-roster';
 import { useReopenRoster } from '@/hooks/api/reopen-roster';
@@ -32,7 +31,6 @@ export function PublishSection({ roster, runId }: { roster: RosterDto; runId: nu
           <Panel title={roster.status === 'published' ? `Published: ${runName(r).toLowerCase()}` : `Publish ${runName(r).toLowerCase()}`} lead={roster.status === 'published' ? `Published ${roster.publishedAt ? new Date(roster.publishedAt).toLocaleString() : ''}. Staff see their shifts; the roster is frozen.` : 'Publishing freezes the roster on this run and e-mails every person on it their own shifts.'} testID="publish-panel">
             <Body>{`${points(r.score)} points. ${r.parameters.manual ? 'Edited by hand.' : gapWords(r.score, r.bound, r.gap, r.result?.optimal)}`}</Body>
             {r.result && r.result.openSeats > 0 ? <Notice kind="caution">{`${r.result.openSeats} seat${r.result.openSeats === 1 ? '' : 's'} stay open in this roster.`}</Notice> : null}
-            <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>
             {publish.error ? <Notice>{publish.error.message}</Notice> : null}
             {reopen.error ? <Notice>{reopen.error.message}</Notice> : null}
             {roster.status === 'published' ? (

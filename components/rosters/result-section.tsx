@@ -3,7 +3,6 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { Calendar } from 'react-native-calendars';
 import { calendarTheme, colors, radius, space } from '@/constants/theme';
 import { TERM_LABELS } from '@/shared/api/rosters';
-import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import { useRun } from '@/hooks/api/get-run';
 import { useConcessions } from '@/hooks/api/get-concessions';
 import { usePriceConcession } from '@/hooks/api/price-concession';
@@ -150,7 +149,6 @@ function Concessions({ run }: { run: RunDetail }) {
             <Body>Nothing given up: every wish and soft rule is kept.</Body>
           ) : (
             <View style={{ gap: space.sm }}>
-              {items.some((c) => ['minRest', 'weeklyRest', 'maxHoursPer7Days', 'nightShiftLength', 'maxConsecutiveDays', 'maxNightsInRow'].includes(c.term)) ? <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice> : null}
               {items.slice(0, shown).map((c) => (
                 <View key={c.index} style={styles.concession} testID={`concession-${c.index}`}>
                   <View style={styles.concessionHead}>

@@ -18,6 +18,7 @@ import { EditSection } from './edit-section';
 import { PublishSection } from './publish-section';
 import { CopyForwardPanel } from './copy-forward-panel';
 import { Button } from '@/components/ui/button';
+import { CautionLine } from '@/components/ui/caution-line';
 
 const SECTIONS = [
   { key: 'setup', label: 'Shifts' },
@@ -60,6 +61,8 @@ export function RosterScreen() {
             {!copying ? <Button kind="quiet" label="Copy forward…" onPress={() => setCopying(true)} testID="copy-forward-open-panel" /> : null}
           </View>
           {copying ? <CopyForwardPanel key={r.id} roster={r} onClose={() => setCopying(false)} /> : null}
+          {/* Once for every tab of the roster (fix 13), instead of a band on each. */}
+          <CautionLine testID="roster-caution" />
           {r.status === 'published' ? <Notice kind="info">Published and frozen: shifts, rules, pins and runs are locked until you reopen it (Publish).</Notice> : null}
           {/* Every tab in view: they wrap to a second row on a phone instead of scrolling off the edge. */}
           <View style={styles.tabs} role="tablist" aria-label="Roster sections" testID="roster-tabs">

@@ -19,7 +19,7 @@ const change = (x: number) => (Math.abs(x) < 0.05 ? 'no change' : `${signed(x)} 
 export function alternativeWords(a: SeatAlternative): string {
   const who = a.name ?? 'the seat left open';
   if (!a.evaluated) {
-    if (a.impossible) return `No roster keeps every hard rule with ${who} here (dual bound).`;
+    if (a.impossible) return `No roster keeps every hard rule with ${who} here (proved).`;
     return `Not tried in the time allowed${a.scoreChangeAtMost === null ? '.' : `; at most ${signed(a.scoreChangeAtMost)} (bound).`}`;
   }
   if (!a.feasible) {
@@ -29,6 +29,18 @@ export function alternativeWords(a: SeatAlternative): string {
   if (a.exact) return `Best roster with ${who} here: ${change(a.scoreChange ?? 0)} (exact).${moved}`;
   const bound = a.scoreChangeAtMost === null ? '' : `; at most ${signed(a.scoreChangeAtMost)} (bound)`;
   return `Best roster found with ${who} here: ${change(a.scoreChange ?? 0)}${bound}.${moved}`;
+}
+
+/** The methods by name, behind a toggle: worth knowing, not worth leading with. */
+function MethodDetail({ words }: { words: string }) {
+  const [open, setOpen] = useState(false);
+  if (!words) return null;
+  return (
+    <View style={{ gap: space.xs }}>
+      <Button kind="quiet" label={open ? 'Hide the method' : 'How this was worked out'} onPress={() => setOpen(!open)} testID="seat-panel-method-toggle" />
+      {open ? <Body muted style={{ fontSize: 13 }} testID="seat-panel-method-detail">{words}</Body> : null}
+    </View>
+  );
 }
 
 /** How much of the model's weight keeps the holder here, as a bar with the same words for screen readers. */
@@ -80,7 +92,8 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
           {error ? <Notice>{error.message}</Notice> : null}
           {d.ignoredPinsWords ? <Notice kind="info">{d.ignoredPinsWords}</Notice> : null}
           <Body bold>Alternatives</Body>
-          <Body muted style={{ fontSize: 13 }}>{d.methodWords}</Body>
+          <Body muted style={{ fontSize: 13 }} testID="seat-panel-method">{d.methodWords}</Body>
+          <MethodDetail words={d.methodDetail} />
           {d.alternatives.length === 0 ? <Body muted>Nobody else may take this seat (skills, pins and "cannot" wishes leave no other choice).</Body> : null}
           {d.alternatives.slice(0, all ? undefined : 6).map((a) => {
             const words = alternativeWords(a);

@@ -30,10 +30,14 @@ export function forgetSeatAlternatives(): void {
 const pct = (p: number) => (p >= 0.995 ? 'over 99\u00a0%' : p < 0.01 ? 'under 1\u00a0%' : `${Math.round(p * 100)}\u00a0%`);
 
 /** "How contested" in words, from the marginals the run worker kept (server/runs/contest.ts). */
-function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boolean, holderName: string | null, name: (id: string | null) => string | null): { words: string; detail: SeatContestAnswer | null } {
+function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boolean, holderName: string | null, name: (id: string | null) => string | null): { words: string; detail: SeatContestAnswer | null; method: string | null } {
   const c = contest?.seats[seatKey];
-  if (!contest || !c) return { words: 'How contested this seat is was not worked out for this run (a hand-edited save, a run from before this was added, or a roster too large for one sum-product pass within the time allowed).', detail: null };
-  const approx = contest.exact ? '' : ` (approximate: loopy sum-product${contest.converged ? '' : `, stopped after ${contest.iterations} pass${contest.iterations === 1 ? '' : 'es'} without converging`})`;
+  if (!contest || !c) return { words: 'How contested this seat is was not worked out for this run (a hand-edited save, a run from before this was added, or a roster too large to weigh in the time allowed).', detail: null, method: null };
+  // Plain words lead; the method's name goes to the details line.
+  const approx = contest.exact ? '' : ' (approximate)';
+  const method = contest.exact
+    ? 'Shares of good rosters: exact marginals (every roster counted).'
+    : `Shares of good rosters: loopy sum-product${contest.converged ? `, converged after ${contest.iterations} pass${contest.iterations === 1 ? '' : 'es'}` : `, stopped after ${contest.iterations} pass${contest.iterations === 1 ? '' : 'es'} without converging`}.`;
   const detail: SeatContestAnswer = {
     holderProbability: c.h,
     holderOnShiftProbability: c.s,
@@ -42,7 +46,7 @@ function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boo
     exact: contest.exact,
     converged: contest.converged,
   };
-  if (pinnedInRun) return { words: 'Pinned when this run was solved, so the run had no choice here.', detail };
+  if (pinnedInRun) return { words: 'Pinned when this run was solved, so the run had no choice here.', detail, method };
   const others = c.o.length ? `; otherwise ${c.o.map(([p, q]) => `${name(p) ?? 'left open'} ${pct(q)}`).join(', ')}` : '';
   let words: string;
   if (holderName === null) {
@@ -52,7 +56,7 @@ function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boo
     const seatToo = c.s - c.h > 0.05 ? ` (${pct(c.h)} in this very seat: the shift's seats are interchangeable)` : '';
     words = `${level}: ${pct(c.s)} of good rosters put ${holderName} on this shift${seatToo}${others}`;
   }
-  return { words: `${words}${approx}.`, detail };
+  return { words: `${words}${approx}.`, detail, method };
 }
 
 /** Alternatives are weighed on a finished run's roster: 409 in words otherwise (checked by the API before it queues the job, and again in the worker). */
@@ -142,8 +146,12 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
     method: 'max-marginal',
     exact,
     methodWords: exact
-      ? 'Max-marginals, exact (every roster considered): for each choice, the best whole roster with that choice in this seat, against this run’s roster. Other seats may change to make room.'
-      : 'Each choice is put in this seat and the rest of the roster re-arranged around it: the change found (a roster that exists) and the most any roster could gain (the solver’s dual bound). The true best lies between; a wide range means a loose bound, not a likely gain.',
+      ? 'Each choice was tried in this seat with every possible roster around it: the change shown is the best there is. Other seats may change to make room.'
+      : 'Each choice was tried in this seat with the rest of the roster re-arranged around it: the change found (a roster that exists) and the most any roster could gain. The true best lies between; a wide range means the limit is loose, not that a gain is likely.',
+    methodDetail: [
+      exact ? 'Changes: max-marginals, exact.' : 'Changes: max-marginals by a forced re-solve per choice; “at most” is the solver’s dual bound.',
+      contested.method,
+    ].filter(Boolean).join(' '),
     contested: contested.words,
     contest: contested.detail,
     ignoredPins,

@@ -46,7 +46,10 @@ export interface SeatAlternativesAnswer {
   method: 'max-marginal';
   /** Every figure exact (enumeration or tree max-marginals). */
   exact: boolean;
+  /** How the figures were found, in plain words. */
   methodWords: string;
+  /** The methods by name (max-marginals, dual bound, sum-product), for a details line. */
+  methodDetail: string;
   /** How contested the seat is, in words. */
   contested: string;
   contest: SeatContestAnswer | null;

@@ -69,9 +69,10 @@ describe.each([
     await panel.evaluate((el) => el.scrollIntoView({ block: 'start' }));
     await shot('01-panel');
 
-    // How contested, in words, with the method's label (the demo is loopy: approximate).
+    // How contested, in plain words (the demo is loopy: approximate); the method's name only in the details line.
     const contested = (await panel.getByTestId('seat-panel-contested').textContent()) ?? '';
-    expect(contested).toMatch(/^(Settled|Leaning|Contested): .* of good rosters .*approximate: loopy sum-product/);
+    expect(contested).toMatch(/^(Settled|Leaning|Contested): .* of good rosters .*\(approximate\)\.$/);
+    expect(contested).not.toMatch(/sum-product|passes/);
     expect(holder.startsWith(contested.split(' put ')[1]?.split(' on this shift')[0] ?? '—')).toBe(true);
     const meter = panel.getByRole('meter');
     expect(await meter.getAttribute('aria-label')).toMatch(/of good rosters .* \(approximate\)$/);
@@ -81,7 +82,9 @@ describe.each([
     expect(await rows.count()).toBeGreaterThan(0);
     const first = (await rows.first().getAttribute('aria-label')) ?? '';
     expect(first).toMatch(/^Best roster found with .+ here: (no change|[−+][\d,]+(\.\d)? points); at most [−+]?[\d,]+(\.\d)? \(bound\)\./);
-    expect(await panel.getByText(/dual bound/).count()).toBe(1);
+    expect(await panel.getByText(/dual bound|sum-product/).count()).toBe(0);
+    await panel.getByTestId('seat-panel-method-toggle').click();
+    expect(await panel.getByTestId('seat-panel-method-detail').textContent()).toMatch(/dual bound.*loopy sum-product, (converged|stopped) after \d+ pass/);
     const rowBox = await rows.first().boundingBox();
     expect(rowBox!.width).toBeLessThanOrEqual(viewport.width);
     await rows.nth(Math.min(4, (await rows.count()) - 1)).evaluate((el) => el.scrollIntoView({ block: 'end' }));

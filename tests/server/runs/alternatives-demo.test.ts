@@ -64,10 +64,15 @@ describe('seat alternatives on the demo roster', () => {
         expect(a.scoreChangeAtMost).not.toBeNull();
         expect(a.scoreChange!).toBeLessThanOrEqual(a.scoreChangeAtMost! + 1e-6);
       }
-      // The contest figures come from loopy sum-product on this model, and the words say so.
+      // The contest figures come from loopy sum-product on this model: the words say "approximate"
+      // and leave the method's name to the details line (issue 20, fix 10).
       expect(body.contest).not.toBeNull();
       expect(body.contest!.exact).toBe(false);
-      expect(body.contested).toMatch(/approximate: loopy sum-product/);
+      expect(body.contested).toMatch(/\(approximate\)\.$/);
+      expect(body.contested).not.toMatch(/sum-product|bound|pass/);
+      expect(body.methodWords).not.toMatch(/sum-product|dual|marginal/);
+      expect(body.methodDetail).toMatch(/loopy sum-product, (converged|stopped) after \d+ pass/);
+      expect(body.methodDetail).toMatch(/dual bound/);
       expect(body.contest!.holderProbability).toBeGreaterThan(0);
       expect(body.contest!.holderProbability).toBeLessThanOrEqual(body.contest!.holderOnShiftProbability + 1e-4);
       t = Date.now();
