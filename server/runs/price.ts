@@ -3,8 +3,10 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { HttpError } from '../http/errors';
 import { TERM_LABELS } from '../../shared/api/rosters';
-import type { Roster as RosterJson, RuleName } from '../../shared/roster/schema';
-import { RULE_NAMES } from '../../shared/roster/schema';
+import type { Roster as RosterJson, RuleName, Term, TermKind } from '../../shared/roster/schema';
+import { RULE_NAMES, TERM_KINDS } from '../../shared/roster/schema';
+import { contractedTarget, fairShares, periodDays, shiftFacts } from '../../shared/roster/derive';
+import { describeTerm } from '../../shared/api/terms';
 import type { RunOutcome } from './execute';
 import { runAssignment } from './run-view';
 
@@ -26,8 +28,10 @@ export function concessionsOf(result: unknown): StoredViolation[] {
 /**
  * The roster with one concession made impossible to give up, and what that means in words.
  * Wishes and seats are enforced exactly where the roster format can say so (an "avoid" wish on
- * a shift becomes "cannot"; a pairing kept apart becomes "never together"); a per-person rule
- * (rest, hours, fairness, coverage) can only be made hard for everyone, and the words say so.
+ * a shift becomes "cannot"; a pairing kept apart becomes "never together"; a person's own term
+ * becomes hard; one person's contracted hours or fair nights become hard hours or nights terms
+ * for that person); the other rules (rest, weekends, coverage) can only be made hard for
+ * everyone, and the words say so.
  */
 export function enforce(roster: RosterJson, v: StoredViolation): { roster: RosterJson; enforced: string; exact: boolean } {
   const copy: RosterJson = structuredClone(roster);
@@ -46,11 +50,43 @@ export function enforce(roster: RosterJson, v: StoredViolation): { roster: Roste
       return { roster: copy, enforced: `${name(a)} and ${name(b)} never on the same shift`, exact: false };
     }
   }
+  const person = v.people.length === 1 ? copy.people.find((p) => p.id === v.people[0]) : undefined;
+  if (person && (TERM_KINDS as readonly string[]).includes(v.term)) {
+    // the person's own term of that kind, made hard: exactly this concession
+    const mine = person.terms.filter((t) => t.kind === (v.term as TermKind));
+    if (mine.length) {
+      for (const t of mine) t.hard = true;
+      return { roster: copy, enforced: `${person.name}'s term "${describeTerm(mine[0])}" made hard`, exact: true };
+    }
+  }
+  if (person && v.term === 'contractedHours') {
+    // for this person only: hours (with credited absence) held inside contracted hours ± tolerance
+    const target = contractedTarget(person, periodDays(copy));
+    if (target !== undefined) {
+      const tol = copy.rules.contractedHours.toleranceHours;
+      const round = (h: number) => Math.round(h * 100) / 100;
+      const bounds: Term[] = [
+        { kind: 'minHours', hours: round(Math.max(0, target - tol)), hard: true, weight: 0 },
+        { kind: 'maxHours', hours: round(target + tol), hard: true, weight: 0 },
+      ];
+      person.terms.push(...bounds);
+      return { roster: copy, enforced: `${person.name} held to ${bounds[0].kind === 'minHours' ? bounds[0].hours : 0}–${round(target + tol)} h over the period (contracted hours ± ${tol} h)`, exact: true };
+    }
+  }
+  if (person && v.term === 'fairNights') {
+    const facts = shiftFacts(copy);
+    const p = copy.people.indexOf(person);
+    const share = fairShares(copy, facts, (f) => f.night).get(p);
+    if (share !== undefined) {
+      person.terms.push({ kind: 'maxNights', count: share, hard: true, weight: 0 });
+      return { roster: copy, enforced: `${person.name} held to their fair share of ${share} nights`, exact: true };
+    }
+  }
   if ((RULE_NAMES as readonly string[]).includes(v.term)) {
     const rule = v.term as RuleName;
     (copy.rules[rule] as { hard: boolean; enabled: boolean }).hard = true;
     (copy.rules[rule] as { hard: boolean; enabled: boolean }).enabled = true;
-    return { roster: copy, enforced: `the rule "${TERM_LABELS[rule] ?? rule}" made hard for everyone (the roster format has no per-person hard rule)`, exact: false };
+    return { roster: copy, enforced: `the rule "${TERM_LABELS[rule] ?? rule}" made hard for everyone (this rule has no per-person form)`, exact: false };
   }
   throw new HttpError(422, 'unprocessable', `Rotaloom cannot enforce a concession of kind "${v.term}"`);
 }
