@@ -76,7 +76,7 @@ function RosterWishes({ rosterId }: { rosterId: number }) {
       <Heading level={2}>{roster.name}</Heading>
       <Body muted>{`${plainDay(roster.periodStart)} to ${plainDay(roster.periodEnd)}`}</Body>
       <Terms roster={roster} used={cannotDaysUsed} zone={zone} />
-      {roster.openForWishes ? <WeeklyWishForm rosterId={roster.id} /> : null}
+      {roster.openForWishes ? <WeeklyWishForm rosterId={roster.id} shifts={shifts} /> : null}
       {weeks.map((week) => (
         <View key={week[0]} style={styles.week}>
           <Body bold style={styles.weekTitle}>{`Week of ${plainDay(week[0])}`}</Body>

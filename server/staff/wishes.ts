@@ -8,6 +8,7 @@ import type { MyRoster, MyWish, MyWishesAnswer, StaffWishKind } from '../../shar
 /** Wishes a staff member states weigh the same as the coordinator's default (shared/api/rosters wishBody). */
 const STAFF_WISH_STRENGTH = 5;
 const WEEKDAYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
+const WEEKDAY_WORDS = ['Monday', 'Tuesday', 'Wednesday', 'Thursday', 'Friday', 'Saturday', 'Sunday'] as const;
 
 export const isOpenForWishes = (r: Roster, now = Date.now()) =>
   (r.status === 'draft' || r.status === 'solved') && (!r.wishDeadline || new Date(r.wishDeadline).getTime() > now);
@@ -135,13 +136,14 @@ export async function setWeeklyWish(
   workspaceId: number,
   rosterId: number,
   personId: number,
-  body: { weekday: (typeof WEEKDAYS)[number]; kind: StaffWishKind; note?: string | null },
+  body: { weekday: (typeof WEEKDAYS)[number]; shiftLabel?: string | null; kind: StaffWishKind; note?: string | null },
   enteredByUserId: number | null = null,
 ): Promise<{ wishes: MyWish[]; cannotDaysUsed: number }> {
   return Roster.sequelize!.transaction(async (transaction) => {
     const roster = await findRoster(workspaceId, rosterId, transaction, true);
     assertOpen(roster);
     const iso = WEEKDAYS.indexOf(body.weekday) + 1;
+    if (body.shiftLabel) return weeklyShiftWish(roster, personId, iso, { ...body, shiftLabel: body.shiftLabel }, enteredByUserId, transaction);
     const dates: string[] = [];
     for (let i = 0; i <= daysBetween(roster.periodStart, roster.periodEnd); i++) {
       const day = addLocalDays(roster.periodStart, i);
@@ -167,6 +169,43 @@ export async function setWeeklyWish(
     if (rows.length) await touchRoster(workspaceId, rosterId, transaction);
     return { wishes: rows.map(toMyWish), cannotDaysUsed: used.size };
   });
+}
+
+/** "Avoid Sunday nights": a wish on each shift of one kind (its label) that starts on the weekday. */
+async function weeklyShiftWish(
+  roster: Roster,
+  personId: number,
+  iso: number,
+  body: { weekday: string; shiftLabel: string; kind: StaffWishKind; note?: string | null },
+  enteredByUserId: number | null,
+  transaction: Transaction,
+): Promise<{ wishes: MyWish[]; cannotDaysUsed: number }> {
+  const { workspaceId, id: rosterId } = roster;
+  const labelled = await ShiftRow.findAll({ where: { workspaceId, rosterId, label: body.shiftLabel }, order: [['startsLocal', 'ASC'], ['id', 'ASC']], transaction });
+  const shifts = labelled.filter((s) => isoWeekday(s.startsLocal.slice(0, 10)) === iso);
+  if (shifts.length === 0) {
+    const words = labelled.length ? `${roster.name} has “${body.shiftLabel}” shifts, but none starts on a ${WEEKDAY_WORDS[iso - 1]}.` : `${roster.name} has no shift called “${body.shiftLabel}”.`;
+    throw new HttpError(422, 'unprocessable', words, [{ path: 'body.shiftLabel', message: labelled.length ? 'none on that weekday' : 'no such shift' }]);
+  }
+  const note = body.note?.trim() ? body.note.trim() : null;
+  const existing = await WishRow.findAll({ where: { workspaceId, rosterId, personId, shiftId: shifts.map((s) => s.id), date: null }, transaction });
+  const byShift = new Map(existing.map((w) => [w.shiftId!, w]));
+  const rows: WishRow[] = [];
+  for (const shift of shifts) {
+    const w = byShift.get(shift.id);
+    if (w) {
+      w.kind = body.kind;
+      w.note = note;
+      w.enteredByUserId = enteredByUserId;
+      rows.push(await w.save({ transaction }));
+    } else {
+      rows.push(await WishRow.create({ workspaceId, rosterId, personId, date: null, shiftId: shift.id, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction }));
+    }
+  }
+  const used = await cannotDays(workspaceId, rosterId, personId, transaction);
+  if (body.kind === 'cannot') assertWithinLimit(roster, used, 'body.kind');
+  await touchRoster(workspaceId, rosterId, transaction);
+  return { wishes: rows.map(toMyWish), cannotDaysUsed: used.size };
 }
 
 export async function deleteMyWish(workspaceId: number, rosterId: number, personId: number, wishId: number): Promise<void> {

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { localDateSchema, weekdaySchema } from '../roster/schema';
 import type { RosterDto } from './rosters';
+import { lineText } from './text';
 
 /**
  * Staff on their phones (issue 7): their own wishes, pairing requests and calendar feed. Every
@@ -28,11 +29,16 @@ export const myWishBody = z
   });
 export type MyWishInput = z.input<typeof myWishBody>;
 
-/** "I can't do Tuesdays": one wish on every such day of the period. */
+/**
+ * "I can't do Tuesdays": one wish on every such day of the period. With `shiftLabel` it is about
+ * one kind of shift only ("avoid Sunday nights"): a wish on each shift of that label starting on
+ * that weekday, the rest of the day left free.
+ */
 export const weeklyWishBody = z
   .object({
     personId: z.number().int().min(1).optional(),
     weekday: weekdaySchema,
+    shiftLabel: lineText(60, 'Choose a kind of shift').nullable().optional(),
     kind: z.enum(wishKinds, { error: 'Choose prefer, avoid or cannot' }),
     note,
   })
