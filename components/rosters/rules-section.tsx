@@ -1,8 +1,10 @@
-import { useEffect, useState } from 'react';
+import { useEffect } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { Controller, useForm, type Resolver } from 'react-hook-form';
 import { colors, space } from '@/constants/theme';
 import { WORKING_TIME_CAUTION } from '@/shared/caution';
-import { rulesBody, TERM_LABELS } from '@/shared/api/rosters';
+import { rulesBody } from '@/shared/api/rosters';
+import { RULE_CATALOGUE, type ParamField, type RuleEntry } from '@/solver/roster/rules/catalogue-words';
 import { useRules } from '@/hooks/api/get-rules';
 import { usePutRules } from '@/hooks/api/put-rules';
 import type { RosterDto, RuleSet } from '@/hooks/api/roster-types';
@@ -13,29 +15,65 @@ import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel } from './parts';
 import { SkillMixEditor, type SkillMixRequirement } from './skill-mix-editor';
 
-type RuleKey = keyof RuleSet;
+/** The form keeps numbers as typed text; the resolver turns them into a rule set or names the field at fault. */
+type RuleDraft = { mode: 'off' | 'soft' | 'hard'; weight: string; requirements?: SkillMixRequirement[] } & Record<string, unknown>;
+type FormValues = Record<string, RuleDraft>;
 
-/** What each rule's numbers mean, and where the default comes from (DESIGN.md, Model). */
-const RULES: Array<{ key: RuleKey; unit: string; source: string; fields: Array<{ name: string; label: string }> }> = [
-  { key: 'coverage', unit: 'per open seat', source: 'common practice', fields: [] },
-  { key: 'minRest', unit: 'per short rest', source: 'Directive 2003/88/EC Art. 3: 11 h', fields: [{ name: 'hours', label: 'Minimum rest (hours)' }] },
-  { key: 'weeklyRest', unit: 'per shift over', source: 'Art. 5: 24 h per 7 days', fields: [{ name: 'days', label: 'In any (days)' }, { name: 'maxShifts', label: 'At most (shifts)' }] },
-  { key: 'maxHoursPer7Days', unit: 'per hour over', source: 'Art. 6: 48 h average', fields: [{ name: 'hours', label: 'Hours in any 7 days' }] },
-  { key: 'nightShiftLength', unit: 'per long night', source: 'Art. 8: 8 h', fields: [{ name: 'hours', label: 'Longest night (hours)' }] },
-  { key: 'maxConsecutiveDays', unit: 'per shift over', source: 'common practice', fields: [{ name: 'days', label: 'Days in a row' }] },
-  { key: 'maxNightsInRow', unit: 'per night over', source: 'common practice', fields: [{ name: 'nights', label: 'Nights in a row' }] },
-  { key: 'contractedHours', unit: 'per hour outside the tolerance', source: 'common practice', fields: [{ name: 'toleranceHours', label: 'Tolerance (hours)' }] },
-  { key: 'fairNights', unit: 'per night over a fair share', source: 'common practice', fields: [] },
-  { key: 'fairWeekends', unit: 'per weekend shift over a fair share', source: 'common practice', fields: [] },
-  { key: 'skillMix', unit: 'per person short', source: 'common practice', fields: [] },
-];
+const text = (x: unknown) => (x === undefined || x === null ? '' : String(x));
 
-type Draft = Record<string, Record<string, string | boolean | unknown>>;
+function toForm(rules: RuleSet): FormValues {
+  const out: FormValues = {};
+  for (const r of RULE_CATALOGUE) {
+    const v = rules[r.id] as Record<string, unknown>;
+    const draft: RuleDraft = { mode: v.enabled === false ? 'off' : v.hard ? 'hard' : 'soft', weight: text(v.weight) };
+    for (const f of r.fields) draft[f.name] = text(v[f.name]);
+    if (r.id === 'skillMix') draft.requirements = (v.requirements as SkillMixRequirement[] | undefined) ?? [];
+    out[r.id] = draft;
+  }
+  return out;
+}
 
-const toDraft = (rules: RuleSet): Draft =>
-  Object.fromEntries(Object.entries(rules).map(([k, v]) => [k, Object.fromEntries(Object.entries(v as Record<string, unknown>).map(([f, x]) => [f, typeof x === 'number' ? String(x) : x]))]));
-const fromDraft = (draft: Draft) =>
-  Object.fromEntries(Object.entries(draft).map(([k, v]) => [k, Object.fromEntries(Object.entries(v).map(([f, x]) => [f, typeof x === 'string' && f !== 'skill' ? (x.trim() === '' ? NaN : Number(x)) : x]))]));
+/** "12" → 12; "" → undefined where the field may be left out; a readable message otherwise. */
+function readNumber(raw: unknown, f: Pick<ParamField, 'min' | 'max' | 'optional'>): { value?: number; error?: string } {
+  const s = text(raw).trim();
+  if (s === '') return f.optional ? {} : { error: 'Enter a number.' };
+  const n = Number(s.replace(',', '.'));
+  if (!Number.isFinite(n)) return { error: `"${s}" is not a number.` };
+  if (n < f.min || n > f.max) return { error: `Enter a number from ${f.min} to ${f.max}.` };
+  return { value: n };
+}
+
+const WEIGHT: Pick<ParamField, 'min' | 'max'> = { min: 0, max: 10_000 };
+
+/** Form text → rule set, with an error per field (`<rule>.<field>`) in the words the form shows. */
+const resolver: Resolver<FormValues> = async (values) => {
+  const errors: Record<string, Record<string, { type: string; message: string }>> = {};
+  const rules: Record<string, Record<string, unknown>> = {};
+  const fail = (id: string, field: string, message: string) => ((errors[id] ??= {})[field] = { type: 'validate', message });
+  for (const r of RULE_CATALOGUE) {
+    const d = values[r.id];
+    const out: Record<string, unknown> = { enabled: d.mode !== 'off', hard: d.mode === 'hard' };
+    const w = readNumber(d.weight, WEIGHT);
+    if (w.error && d.mode === 'soft') fail(r.id, 'weight', w.error);
+    out.weight = w.value ?? (r.defaults as { weight: number }).weight;
+    for (const f of r.fields) {
+      const v = readNumber(d[f.name], f);
+      if (v.error) fail(r.id, f.name, v.error);
+      else if (v.value !== undefined) out[f.name] = v.value;
+    }
+    if (r.id === 'skillMix') out.requirements = d.requirements ?? [];
+    rules[r.id] = out;
+  }
+  if (Object.keys(errors).length) return { values: {}, errors: errors as never };
+  // the shared schema is the last word (the server checks the same)
+  const parsed = rulesBody.shape.rules.safeParse(rules);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const [id, field] = issue.path.map(String);
+    return { values: {}, errors: { [id]: { [field ?? 'mode']: { type: 'schema', message: issue.message } } } as never };
+  }
+  return { values: parsed.data as unknown as FormValues, errors: {} };
+};
 
 export function RulesSection({ roster }: { roster: RosterDto }) {
   const rules = useRules(roster.id);
@@ -48,68 +86,74 @@ export function RulesSection({ roster }: { roster: RosterDto }) {
 
 function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleSet; version: number }) {
   const put = usePutRules();
-  const [draft, setDraft] = useState<Draft>(() => toDraft(rules));
-  const [seen, setSeen] = useState(version);
-  const [problem, setProblem] = useState<string | null>(null);
-  // A newer version from the server (after a save here) replaces the draft; a conflict keeps the draft.
+  const form = useForm<FormValues>({ defaultValues: toForm(rules), resolver, mode: 'onSubmit' });
+  // A newer version from the server (after a save here) replaces the form; a conflict keeps what was typed.
   useEffect(() => {
-    if (version !== seen && !put.isError) {
-      setDraft(toDraft(rules));
-      setSeen(version);
-    }
-  }, [version, rules, seen, put.isError]);
-  const set = (key: string, field: string, value: unknown) => setDraft({ ...draft, [key]: { ...draft[key], [field]: value } });
-  const save = () => {
-    const parsed = rulesBody.safeParse({ rules: fromDraft(draft), version: seen });
-    if (!parsed.success) {
-      const issue = parsed.error.issues[0];
-      const [, key, field] = issue.path.map(String);
-      setProblem(`${TERM_LABELS[key] ?? key}${field ? ` (${field})` : ''}: ${issue.message === 'Invalid input: expected number, received NaN' ? 'enter a number' : issue.message}`);
-      return;
-    }
-    setProblem(null);
-    put.mutate({ rosterId: roster.id, rules: parsed.data.rules, version: parsed.data.version }, { onSuccess: (d) => { setSeen(d.version); setDraft(toDraft(d.rules)); } });
-  };
+    if (!put.isError) form.reset(toForm(rules));
+  }, [version, rules, put.isError, form]);
+  const save = form.handleSubmit((parsed) => put.mutate({ rosterId: roster.id, rules: parsed as unknown as RuleSet, version }));
   const conflict = put.error && 'status' in put.error && (put.error as { status: number }).status === 409;
+  const errorCount = Object.keys(form.formState.errors).length;
   return (
     <Panel title="Rules" lead="Hard rules can never be broken; a soft rule costs its weight in points each time it is.">
       <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>
-      {RULES.map(({ key, unit, source, fields }) => {
-        const r = draft[key] as Record<string, unknown>;
-        const hard = r.hard === true;
-        return (
-          <View key={key} style={styles.rule} testID={`rule-${key}`}>
-            <Body bold>{TERM_LABELS[key]}</Body>
-            <Body muted>{`Default from ${source}.`}</Body>
-            <Choices
-              label={TERM_LABELS[key]}
-              options={[{ value: 'off', label: 'Off' }, { value: 'soft', label: 'Soft' }, { value: 'hard', label: 'Hard' }]}
-              value={[r.enabled === false ? 'off' : hard ? 'hard' : 'soft']}
-              onChange={(v) => setDraft({ ...draft, [key]: { ...r, enabled: v[0] !== 'off', hard: v[0] === 'hard' } })}
-            />
-            <View style={styles.fields}>
-              {!hard && r.enabled !== false ? (
-                <View style={styles.field}>
-                  <TextField label={`Weight (points ${unit})`} value={String(r.weight ?? '')} onChangeText={(x) => set(key, 'weight', x)} inputMode="decimal" />
-                </View>
-              ) : null}
-              {fields.map((f) => (
-                <View key={f.name} style={styles.field}>
-                  <TextField label={f.label} value={String(r[f.name] ?? '')} onChangeText={(x) => set(key, f.name, x)} inputMode="decimal" />
-                </View>
-              ))}
-            </View>
-            {key === 'skillMix' ? (
-              <SkillMixEditor rosterId={roster.id} requirements={(r.requirements as SkillMixRequirement[] | undefined) ?? []} onChange={(requirements) => setDraft({ ...draft, skillMix: { ...r, requirements } })} />
-            ) : null}
-          </View>
-        );
-      })}
-      {problem ? <Notice>{problem}</Notice> : null}
+      {RULE_CATALOGUE.map((r) => (
+        <RuleRow key={r.id} rule={r} form={form} rosterId={roster.id} />
+      ))}
+      {errorCount ? <Notice>{`${errorCount === 1 ? 'One rule needs' : `${errorCount} rules need`} a correction; see the messages above.`}</Notice> : null}
       {put.error ? <Notice>{conflict ? `${put.error.message} Your changes are still in the form.` : put.error.message}</Notice> : null}
-      {put.isSuccess ? <Notice kind="info">Rules saved. Solve again to apply them.</Notice> : null}
+      {put.isSuccess && !form.formState.isDirty ? <Notice kind="info">Rules saved. Solve again to apply them.</Notice> : null}
       <Button label="Save rules" onPress={save} busy={put.isPending} disabled={roster.status === 'published'} testID="rules-save" />
     </Panel>
+  );
+}
+
+function RuleRow({ rule, form, rosterId }: { rule: RuleEntry; form: ReturnType<typeof useForm<FormValues>>; rosterId: number }) {
+  const mode = form.watch(`${rule.id}.mode`);
+  const errors = (form.formState.errors[rule.id] ?? {}) as Record<string, { message?: string } | undefined>;
+  return (
+    <View style={styles.rule} testID={`rule-${rule.id}`}>
+      <Body bold>{rule.name}</Body>
+      <Body muted>{`${rule.description.replace(/`/g, '')} Source: ${rule.sourceText}.`}</Body>
+      <Controller
+        control={form.control}
+        name={`${rule.id}.mode`}
+        render={({ field }) => (
+          <Choices
+            label={rule.name}
+            options={[{ value: 'off', label: 'Off' }, { value: 'soft', label: 'Soft' }, { value: 'hard', label: 'Hard' }]}
+            value={[field.value]}
+            onChange={(v) => field.onChange(v[0])}
+          />
+        )}
+      />
+      {errors.mode?.message ? <Notice>{errors.mode.message}</Notice> : null}
+      <View style={styles.fields}>
+        {mode === 'soft' ? <NumberField form={form} name={`${rule.id}.weight`} label={`Weight (points ${rule.unit})`} error={errors.weight?.message} /> : null}
+        {rule.fields.map((f) => (
+          <NumberField key={f.name} form={form} name={`${rule.id}.${f.name}`} label={f.label} error={errors[f.name]?.message} />
+        ))}
+      </View>
+      {rule.id === 'skillMix' ? (
+        <Controller
+          control={form.control}
+          name="skillMix.requirements"
+          render={({ field }) => <SkillMixEditor rosterId={rosterId} requirements={(field.value as SkillMixRequirement[] | undefined) ?? []} onChange={field.onChange} />}
+        />
+      ) : null}
+    </View>
+  );
+}
+
+function NumberField({ form, name, label, error }: { form: ReturnType<typeof useForm<FormValues>>; name: string; label: string; error?: string }) {
+  return (
+    <View style={styles.field}>
+      <Controller
+        control={form.control}
+        name={name as `${string}.weight`}
+        render={({ field }) => <TextField label={label} value={text(field.value)} onChangeText={field.onChange} onBlur={field.onBlur} inputMode="decimal" error={error} />}
+      />
+    </View>
   );
 }
 

@@ -3,6 +3,7 @@ import { localDateSchema, localDateTimeSchema, localTimeSchema, ruleSetSchema, t
 import { daysBetween } from '../roster/time';
 import { listQuerySchema, versionField } from './paging';
 import { lineText, noteText } from './text';
+import { RULE_WORDS, TERM_WORDS } from '../../solver/roster/rules/catalogue-words';
 
 const MAX_DAYS = 366;
 
@@ -163,19 +164,11 @@ export const rosterExportQuery = z.object({
   personId: z.coerce.number().int().min(1).optional(),
 });
 
-/** Plain names of the rules and score terms, for screens, e-mails and concession texts. */
+/** Plain names of the rules, per-person terms and score terms, for screens, e-mails and concession texts (rule and term names from the catalogue). */
 export const TERM_LABELS: Record<string, string> = {
-  coverage: 'Every seat filled',
-  minRest: 'Minimum rest between shifts',
-  weeklyRest: 'Weekly rest',
-  maxHoursPer7Days: 'Hours in any 7 days',
-  nightShiftLength: 'Night shift length',
-  maxConsecutiveDays: 'Consecutive working days',
-  maxNightsInRow: 'Nights in a row',
-  contractedHours: 'Close to contracted hours',
-  fairNights: 'Fair share of nights',
-  fairWeekends: 'Fair share of weekends',
-  skillMix: 'Skill mix per shift',
+  ...Object.fromEntries(Object.entries(RULE_WORDS).map(([id, w]) => [id, w.name])),
+  ...Object.fromEntries(Object.entries(TERM_WORDS).map(([kind, w]) => [kind, w.name])),
+  absences: 'Time away',
   wishes: 'Wishes',
   pairings: 'Pairings',
   doubleBooking: 'No double booking',

@@ -42,8 +42,9 @@ describe('weight suggestion from real edits', () => {
     for (let i = 0; i < 5; i++) {
       await page.getByTestId('section-edit').click();
       await page.getByTestId('edit-panel').waitFor();
-      // not Hattie Lowther's seat: another test pins her, and leaving a pinned seat open breaks the pin
-      const seat = page.locator('[data-testid^="edit-seat-"]').filter({ hasNotText: /^open/ }).filter({ hasNotText: 'Hattie Lowther' }).nth(i);
+      // not Hattie Lowther's seat: another test pins her, and leaving a pinned seat open breaks the pin;
+      // the first filled seat each time (the one left open before is open now)
+      const seat = page.locator('[data-testid^="edit-seat-"]').filter({ hasNotText: /^open/ }).filter({ hasNotText: 'Hattie Lowther' }).first();
       await seat.click();
       await page.getByTestId('edit-people').getByRole('button', { name: 'Leave open' }).click();
       await page.getByTestId('edit-score').getByText(/1 seat changed/).waitFor({ timeout: 30_000 });
