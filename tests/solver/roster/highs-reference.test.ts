@@ -12,7 +12,6 @@
 import { describe, expect, it } from 'vitest';
 import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
-import type { Roster } from '../../../shared/roster/schema';
 import type { Factor, Model } from '../../../solver/model';
 import { score as modelScore } from '../../../solver/model';
 import { enumerateModel } from '../../../solver/inference';
@@ -21,6 +20,7 @@ import { solveRoster } from '../../../solver/roster/solve-roster';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
 import { makeRandomModel } from '../helpers/models';
 import { bruteForceBest } from './helpers';
+import { rosterSchema, type Roster } from '../../../shared/roster/schema';
 
 const close = (a: number, b: number) => (b === -Infinity ? expect(a).toBe(-Infinity) : expect(a).toBeCloseTo(b, 6));
 
@@ -51,9 +51,10 @@ describe('HiGHS MIP encoding equals enumeration on small models', () => {
   });
 });
 
+/** Small rosters with every rule kind, per-person terms and an absence (issue 12). */
 function smallRoster(seed: number): Roster {
   const rnd = seededRandom(seed);
-  return makeRoster({
+  const r = makeRoster({
     people: 3,
     weeks: 1,
     seed,
@@ -70,11 +71,20 @@ function smallRoster(seed: number): Roster {
       minRest: { hard: rnd() < 0.5, weight: 3 },
       maxConsecutiveDays: { days: 2, weight: 2 },
       maxNightsInRow: { nights: 1, weight: 2 },
-      maxHoursPer7Days: { hours: 24, hard: rnd() < 0.5, weight: 1 },
+      maxHoursPer7Days: { enabled: true, hours: 24, hard: rnd() < 0.5, weight: 1 },
+      averageWeeklyHours: { hours: 20, hard: false, weight: 1 },
       contractedHours: { toleranceHours: 4, weight: 0.5 },
       fairWeekends: { weight: 2 },
       skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
     },
+  });
+  const [a, b, c] = r.people.map((p) => p.id);
+  return rosterSchema.parse({
+    ...r,
+    people: r.people.map((p) =>
+      p.id === a ? { ...p, terms: [{ kind: 'noNights', hard: rnd() < 0.5, weight: 3 }] } : p.id === b ? { ...p, terms: [{ kind: 'maxShiftsPerWeek', count: 2, hard: rnd() < 0.5, weight: 2 }, { kind: 'minHours', hours: 16, hard: false, weight: 1 }] } : p,
+    ),
+    absences: [{ person: c, kind: 'annual', start: '2027-01-07T00:00', end: '2027-01-08T00:00', creditHours: 8 }],
   });
 }
 
