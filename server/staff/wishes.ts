@@ -149,25 +149,7 @@ export async function setWeeklyWish(
       const day = addLocalDays(roster.periodStart, i);
       if (isoWeekday(day) === iso) dates.push(day);
     }
-    const note = body.note?.trim() ? body.note.trim() : null;
-    const existing = await WishRow.findAll({ where: { workspaceId, rosterId, personId, date: dates, shiftId: null }, transaction });
-    const byDate = new Map(existing.map((w) => [w.date!, w]));
-    const rows: WishRow[] = [];
-    for (const date of dates) {
-      const w = byDate.get(date);
-      if (w) {
-        w.kind = body.kind;
-        w.note = note;
-        w.enteredByUserId = enteredByUserId;
-        rows.push(await w.save({ transaction }));
-      } else {
-        rows.push(await WishRow.create({ workspaceId, rosterId, personId, date, shiftId: null, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction }));
-      }
-    }
-    const used = await cannotDays(workspaceId, rosterId, personId, transaction);
-    if (body.kind === 'cannot') assertWithinLimit(roster, used, 'body.kind');
-    if (rows.length) await touchRoster(workspaceId, rosterId, transaction);
-    return { wishes: rows.map(toMyWish), cannotDaysUsed: used.size };
+    return setWishesOn(roster, personId, dates.map((date) => ({ date, shiftId: null })), body, enteredByUserId, transaction);
   });
 }
 
@@ -187,24 +169,42 @@ async function weeklyShiftWish(
     const words = labelled.length ? `${roster.name} has “${body.shiftLabel}” shifts, but none starts on a ${WEEKDAY_WORDS[iso - 1]}.` : `${roster.name} has no shift called “${body.shiftLabel}”.`;
     throw new HttpError(422, 'unprocessable', words, [{ path: 'body.shiftLabel', message: labelled.length ? 'none on that weekday' : 'no such shift' }]);
   }
+  return setWishesOn(roster, personId, shifts.map((s) => ({ date: null, shiftId: s.id })), body, enteredByUserId, transaction);
+}
+
+/** The same wish on each of several days or shifts, replacing what the person said about them; the cannot limit checked after. */
+async function setWishesOn(
+  roster: Roster,
+  personId: number,
+  targets: Array<{ date: string; shiftId: null } | { date: null; shiftId: number }>,
+  body: { kind: StaffWishKind; note?: string | null },
+  enteredByUserId: number | null,
+  transaction: Transaction,
+): Promise<{ wishes: MyWish[]; cannotDaysUsed: number }> {
+  const { workspaceId, id: rosterId } = roster;
   const note = body.note?.trim() ? body.note.trim() : null;
-  const existing = await WishRow.findAll({ where: { workspaceId, rosterId, personId, shiftId: shifts.map((s) => s.id), date: null }, transaction });
-  const byShift = new Map(existing.map((w) => [w.shiftId!, w]));
+  const byDay = targets.every((t) => t.date !== null);
+  const existing = await WishRow.findAll({
+    where: byDay ? { workspaceId, rosterId, personId, date: targets.map((t) => t.date!), shiftId: null } : { workspaceId, rosterId, personId, shiftId: targets.map((t) => t.shiftId!), date: null },
+    transaction,
+  });
+  const keyOf = (t: { date: string | null; shiftId: number | null }) => (t.date ? `d${t.date}` : `s${t.shiftId}`);
+  const known = new Map(existing.map((w) => [keyOf({ date: w.date ?? null, shiftId: w.shiftId ?? null }), w]));
   const rows: WishRow[] = [];
-  for (const shift of shifts) {
-    const w = byShift.get(shift.id);
+  for (const t of targets) {
+    const w = known.get(keyOf(t));
     if (w) {
       w.kind = body.kind;
       w.note = note;
       w.enteredByUserId = enteredByUserId;
       rows.push(await w.save({ transaction }));
     } else {
-      rows.push(await WishRow.create({ workspaceId, rosterId, personId, date: null, shiftId: shift.id, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction }));
+      rows.push(await WishRow.create({ workspaceId, rosterId, personId, date: t.date, shiftId: t.shiftId, kind: body.kind, strength: STAFF_WISH_STRENGTH, note, enteredByUserId }, { transaction }));
     }
   }
   const used = await cannotDays(workspaceId, rosterId, personId, transaction);
   if (body.kind === 'cannot') assertWithinLimit(roster, used, 'body.kind');
-  await touchRoster(workspaceId, rosterId, transaction);
+  if (rows.length) await touchRoster(workspaceId, rosterId, transaction);
   return { wishes: rows.map(toMyWish), cannotDaysUsed: used.size };
 }
 
