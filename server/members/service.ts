@@ -5,6 +5,7 @@ import type { AuthContext } from '../auth/context';
 import { Invitation } from '../auth/models';
 import { hashToken, newToken } from '../auth/tokens';
 import { normalizeEmail } from '../auth/service';
+import { CalendarFeedRow } from '../staff/models';
 
 export const INVITATION_VALID_MS = 7 * 24 * 60 * 60 * 1000;
 
@@ -61,11 +62,25 @@ export async function removeMember(auth: AuthContext, userId: number): Promise<v
     auth.workspaceId,
     userId,
     async (m, transaction) => {
-      // The person record stays (their shifts are history) but no longer belongs to the login.
+      // The person record stays (their shifts are history) but no longer belongs to the login;
+      // their calendar feeds and their sessions in this workspace end with the membership, so
+      // neither an old feed address nor an open tab keeps showing colleagues' shifts.
+      await revokeAccessOf(auth.workspaceId, userId, transaction);
       await Person.update({ userId: null }, { where: { workspaceId: auth.workspaceId, userId }, transaction });
       await m.destroy({ transaction });
     },
     () => false,
+  );
+}
+
+/** Ends the member's calendar feeds and every session of theirs that works in this workspace. */
+async function revokeAccessOf(workspaceId: number, userId: number, transaction: Transaction): Promise<void> {
+  const people = await Person.findAll({ where: { workspaceId, userId }, attributes: ['id'], transaction });
+  if (people.length) await CalendarFeedRow.destroy({ where: { workspaceId, personId: people.map((p) => p.id) }, transaction });
+  // A session without a chosen workspace falls back to the first membership, which may be this one.
+  await Membership.sequelize!.query(
+    `DELETE FROM sessions WHERE user_id = ? AND (JSON_VALUE(data, '$.workspaceId') = ? OR JSON_VALUE(data, '$.workspaceId') IS NULL)`,
+    { replacements: [userId, workspaceId], transaction },
   );
 }
 
@@ -80,6 +95,9 @@ export async function linkPerson(auth: AuthContext, userId: number, personId: nu
         throw new HttpError(409, 'conflict', 'This person is already linked to another member', [{ path: 'body.personId', message: 'Already linked to another member' }]);
       }
     }
+    // A feed belongs to the person as the member saw it: unlinking ends it.
+    const unlinked = await Person.findAll({ where: { workspaceId: auth.workspaceId, userId, ...(personId !== null ? { id: { [Op.ne]: personId } } : {}) }, attributes: ['id'], transaction });
+    if (unlinked.length) await CalendarFeedRow.destroy({ where: { workspaceId: auth.workspaceId, personId: unlinked.map((p) => p.id) }, transaction });
     await Person.update({ userId: null }, { where: { workspaceId: auth.workspaceId, userId }, transaction });
     if (personId !== null) await Person.update({ userId }, { where: { id: personId, workspaceId: auth.workspaceId }, transaction });
   });

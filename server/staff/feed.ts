@@ -43,7 +43,8 @@ export async function calendarForToken(token: string): Promise<string | null> {
   const feed = await CalendarFeedRow.findOne({ where: { tokenHash: hashToken(token) } });
   if (!feed) return null;
   const person = await Person.findOne({ where: { id: feed.personId, workspaceId: feed.workspaceId } });
-  if (!person) return null;
+  // Feeds are made by the member linked to the person; once nobody is, the address stops working.
+  if (!person || person.userId === null) return null;
   const workspace = await Workspace.findByPk(feed.workspaceId);
   const { shifts, rosters } = await publishedShiftsOf(feed.workspaceId, person.id);
   const rosterById = new Map(rosters.map((r) => [r.id, r]));
