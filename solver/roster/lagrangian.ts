@@ -92,7 +92,7 @@ export interface LagrangianSetup {
   compiled: CompiledRoster;
   /** Per seat variable (aux variables left out), the person of each value. */
   domains: number[][];
-  /** The model has auxiliary variables whose factors the relaxation leaves out (see buildLagrangian). */
+  /** Some auxiliary variables' factors are left out of the relaxation (windows longer than the lookback; see buildLagrangian). */
   relaxedAux: boolean;
   people: PersonPlan[];
   shifts: ShiftPlan[];
@@ -118,9 +118,10 @@ export interface LagrangianOptions {
 export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOptions = {}): LagrangianSetup | { unsupported: string } {
   const model: Model = compiled.model;
   const { roster, facts } = compiled;
-  // Auxiliary variables (weekly rest: which rest interval is kept) and every factor touching
-  // them are left out. Each of those factors scores ≤ 0 (a hard "seats free" test or a soft
-  // −weight), so dropping them can only raise the maximum: L stays an upper bound, a looser one.
+  // Auxiliary variables (weekly rest: which rest interval is kept) and the factors touching them
+  // are not taken as model factors: the person DP scores them per window (restWindows below).
+  // Windows too long for the DP are left out; each of their factors scores ≤ 0 (a hard "seats
+  // free" test or a soft −weight), so dropping them only raises the maximum: still a bound.
   const nSeatVars = compiled.seatIds.length;
   const domains = compiled.domains.slice(0, nSeatVars);
   const touchesAux = (f: Model['factors'][number]) => ('v' in f ? (f as { v: number }).v >= nSeatVars : 'vars' in f ? (f as { vars: ArrayLike<number> }).vars.length > 0 && Array.from((f as { vars: ArrayLike<number> }).vars).some((v) => v >= nSeatVars) : false);
@@ -314,6 +315,25 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
   };
 
   let lookback = 0;
+  // Auxiliary choices (weekly rest: which rest interval is kept) whose window fits the DP's
+  // lookback become exact person factors: at the window's last day the DP scores the best
+  // choice whose shifts the schedule leaves free. Shifts of a choice that start before the
+  // window (a night from the day before) are not in the state and are taken as free: that only
+  // raises the score, so L stays an upper bound. Longer windows stay left out (above).
+  const restWindows: { first: number; last: number; choices: { shifts: Set<number>; score: number }[] }[][] = Array.from({ length: nPeople }, () => []);
+  let auxLeftOut = false;
+  for (const a of compiled.aux) {
+    if (a.last - a.first > maxLookback) {
+      auxLeftOut = true;
+      continue;
+    }
+    restWindows[a.person]!.push({
+      first: a.first,
+      last: a.last,
+      choices: a.choices.map((c) => ({ shifts: new Set(Array.from(c.seats, (seat) => seatShift[seat]!).filter((sh) => dayOf(sh) >= a.first)), score: c.score })),
+    });
+    lookback = Math.max(lookback, a.last - a.first);
+  }
   const perPersonFactors: { window: { f: CountingFactor; w: Map<number, number>; first: number; last: number }[]; period: { f: CountingFactor; w: Map<number, number> }[] }[] = Array.from({ length: nPeople }, () => ({ window: [], period: [] }));
   for (const { p, f } of personCounting) {
     const w = shiftWeights(p, f);
@@ -380,6 +400,13 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
       for (let t = 0; t <= maxSum; t++) table[t] = countingScoreAt(wf.f, t);
       windowsByLast[wf.last]!.push({ last: wf.last, span, weights, table });
     }
+    const restByLast: { span: number; scores: Float64Array; blocked: Uint8Array[][] }[][] = Array.from({ length: days }, () => []);
+    for (const rw of restWindows[p]!) {
+      const span = rw.last - rw.first + 1;
+      // blocked[j][k][option on day last − k]: the option works a shift choice j needs free
+      const blocked = rw.choices.map((c) => Array.from({ length: span }, (_, k) => Uint8Array.from(options[rw.last - k]!, (o) => (o.some((sh) => c.shifts.has(sh)) ? 1 : 0))));
+      restByLast[rw.last]!.push({ span, scores: Float64Array.from(rw.choices, (c) => c.score), blocked });
+    }
     const periodF: PeriodFactor[] = period.map(({ f, w }) => {
       const maxSum = countingMaxSum(f);
       const table = new Float64Array(maxSum + 1);
@@ -395,6 +422,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
       window.map((wf) => [wf.first, wf.last, [...wf.w], Array.from({ length: countingMaxSum(wf.f) + 1 }, (_, t) => countingScoreAt(wf.f, t))]),
       [...conflicts[p]!].filter((k) => mine.has(Math.floor(k / nShifts)) && mine.has(k % nShifts)).sort((x, y) => x - y),
       [...pairPenalty[p]!].filter(([k]) => mine.has(Math.floor(k / nShifts)) && mine.has(k % nShifts)).sort((x, y) => x[0] - y[0]),
+      restWindows[p]!.map((rw) => [rw.first, rw.last, rw.choices.map((c) => [[...c.shifts].sort((x, y) => x - y), c.score])]),
     ]);
     let tr = shared.get(sig);
     if (!tr) {
@@ -434,6 +462,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
             return sc;
           });
           const wfs = windowsByLast[d]!;
+          const rws = restByLast[d]!;
           prevCodes.forEach((code, si) => {
             for (let oi = 0; oi < os.length; oi++) {
               let score = inDay[oi]!;
@@ -444,6 +473,17 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
                 let sum = wf.weights[0]![oi]!;
                 for (let k = 1; k < wf.span; k++) sum += wf.weights[k]![digit(code, k - 1)]!;
                 score += wf.table[sum < wf.table.length ? sum : wf.table.length - 1]!;
+              }
+              for (const rw of rws) {
+                let best = NEG;
+                for (let j = 0; j < rw.scores.length; j++) {
+                  if (rw.scores[j]! <= best) continue;
+                  const b = rw.blocked[j]!;
+                  let free = b[0]![oi] === 0;
+                  for (let k = 1; free && k < rw.span; k++) free = b[k]![digit(code, k - 1)] === 0;
+                  if (free) best = rw.scores[j]!;
+                }
+                score += best;
               }
               if (score === NEG) continue;
               const nc = oi + K * (code % KL);
@@ -481,7 +521,7 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
     periodF.forEach((pf, j) => (pf.tmax = Math.min(pf.table.length - 1, maxReachable(plan, j))));
     people.push(plan);
   }
-  return { compiled, domains, relaxedAux: compiled.aux.length > 0, people, shifts, constant, muIndex, nMu, nNu, lookback };
+  return { compiled, domains, relaxedAux: auxLeftOut, people, shifts, constant, muIndex, nMu, nNu, lookback };
 }
 
 /** Multipliers of a run, keyed by names that survive recompiling the roster (a warm start for the next run). */
