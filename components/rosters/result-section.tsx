@@ -16,6 +16,9 @@ import { useRosterView, type SeatView } from './use-roster-view';
 import { SeatPanel } from './seat-panel';
 import { RosterGrid } from './grid/roster-grid';
 
+/** The view last chosen in this session: a re-solve opens the result the way the coordinator left it. */
+let lastShape: 'grid' | 'days' = 'grid';
+
 export function ResultSection({ roster, runId, runs, onPickRun }: { roster: RosterDto; runId: number | null; runs: RunDto[]; onPickRun: (id: number) => void }) {
   const finished = runs.filter((r) => (r.status === 'done' || r.status === 'cancelled') && r.score !== null).slice(0, 6);
   if (runId === null) return <Notice kind="info">No finished run yet. Solve the roster first (Solve).</Notice>;
@@ -39,7 +42,8 @@ function RunResult({ roster, runId, onPickRun }: { roster: RosterDto; runId: num
 }
 
 function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDetail; onPickRun: (id: number) => void }) {
-  const [shape, setShape] = useState<'grid' | 'days'>('grid');
+  const [shape, setShapeState] = useState<'grid' | 'days'>(lastShape);
+  const setShape = (v: 'grid' | 'days') => setShapeState((lastShape = v));
   const assignment = useMemo(() => new Map(run.assignments.map((a) => [a.seatId, a.personId])), [run.assignments]);
   const { view, error } = useRosterView(roster.id, assignment);
   const [day, setDay] = useState<string>(roster.periodStart);
