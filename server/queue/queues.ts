@@ -88,10 +88,32 @@ export async function closeQueues(sequelize: Sequelize): Promise<void> {
 }
 
 export class QueueUnavailableError extends HttpError {
-  constructor(message = 'The solve queue cannot be reached just now, so nothing was started. Try again in a few seconds.') {
-    super(503, 'unavailable', message, undefined, { 'Retry-After': '5' });
+  constructor(message = 'The solve queue cannot be reached just now, so nothing was started. Try again in a few seconds.', retryAfterSeconds = 5) {
+    super(503, 'unavailable', message, undefined, { 'Retry-After': String(retryAfterSeconds) });
   }
 }
+
+/** Seconds a client is told to wait when no worker serves the compute queue: starting a worker process takes a while. */
+export const NO_WORKER_RETRY_AFTER_S = 30;
+
+const noWorker = (what: string) =>
+  new QueueUnavailableError(`No solve worker is running just now, so ${what} cannot be worked out. Nothing was started; try again in a minute (a worker is started with npm run worker).`, NO_WORKER_RETRY_AFTER_S);
+
+/**
+ * How many worker processes serve the compute queue (BullMQ counts the Redis connections its
+ * workers name themselves on). A Redis that cannot list its clients (some hosted ones) answers
+ * with a placeholder entry, so this never reports 0 there.
+ */
+async function computeWorkers(hub: Hub): Promise<number> {
+  try {
+    return await hub.compute.getWorkersCount();
+  } catch {
+    throw new QueueUnavailableError();
+  }
+}
+
+/** How often a waiting request checks that some worker is still there to take its job. */
+const WORKER_CHECK_MS = 3000;
 
 /** Resolves when the queue's Redis connection is up; a Redis that is down answers within about two seconds. */
 async function ready(queue: Queue<never, never> | Queue<RunJobData> | Queue<ComputeJobData, ComputeJobResult>): Promise<void> {
@@ -151,24 +173,42 @@ function eventsOf(hub: Hub): Promise<QueueEvents> {
 
 /**
  * Hands a heavy computation to a worker process and waits for its answer, so the API process
- * never runs the solver. `what` names it in the words of a timeout.
+ * never runs the solver. `what` names it in the words of an error. With no worker serving the
+ * queue the answer is a 503 at once (nobody would take the job); a job still waiting when the last
+ * worker goes away is taken back and answered the same way, instead of waiting out the timeout.
  */
 export async function computeOnWorker(sequelize: Sequelize, data: ComputeJobData, timeoutMs: number, what: string): Promise<unknown> {
   const hub = queues(sequelize);
   await ready(hub.compute);
+  if ((await computeWorkers(hub)) === 0) throw noWorker(what);
   const events = await eventsOf(hub);
   const job = await hub.compute.add(data.kind, data, { attempts: 1, removeOnComplete: { age: 600 }, removeOnFail: { age: 3600 } });
+  let watch: ReturnType<typeof setInterval> | undefined;
+  const orphaned = new Promise<never>((_, reject) => {
+    watch = setInterval(() => {
+      void (async () => {
+        if ((await computeWorkers(hub).catch(() => 1)) > 0) return;
+        if ((await job.getState().catch(() => 'unknown')) !== 'waiting') return;
+        await job.remove().catch(() => {});
+        reject(noWorker(what));
+      })();
+    }, WORKER_CHECK_MS);
+  });
+  orphaned.catch(() => {}); // settled by the race below; this only keeps a late rejection from counting as unhandled
   let result: ComputeJobResult;
   try {
-    result = await job.waitUntilFinished(events, timeoutMs);
+    result = await Promise.race([job.waitUntilFinished(events, timeoutMs), orphaned]);
   } catch (err) {
+    if (err instanceof HttpError) throw err;
     const message = err instanceof Error ? err.message : String(err);
     if (/timed out/i.test(message)) {
-      // Nobody took it (no worker running, or all busy for that long): take it back so it is not worked for nobody.
+      // Workers are there but all busy for that long: take the job back so it is not worked for nobody.
       await job.remove().catch(() => {});
-      throw new QueueUnavailableError(`No solve worker answered ${what} within ${Math.round(timeoutMs / 1000)} s. Try again in a moment.`);
+      throw new QueueUnavailableError(`The solve workers are all busy: nobody answered ${what} within ${Math.round(timeoutMs / 1000)} s. Try again in a moment.`, NO_WORKER_RETRY_AFTER_S);
     }
     throw new HttpError(500, 'internal', `Working out ${what} failed: ${message}`);
+  } finally {
+    clearInterval(watch);
   }
   if (!result.ok) throw new HttpError(result.status, result.code as never, result.message, result.fields);
   return result.value;

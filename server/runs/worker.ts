@@ -121,6 +121,11 @@ export class RunWorker {
     this.compute.on('error', quietErrors('compute worker'));
   }
 
+  /** Resolves once this worker's queues are connected, so other processes count it (Queue.getWorkersCount). */
+  async ready(): Promise<void> {
+    await Promise.all([this.runs?.waitUntilReady(), this.compute?.waitUntilReady()]);
+  }
+
   /** Runs the reconciler once (never two at once in this process); a Redis that is down is tried again next time. */
   async reconcile(): Promise<void> {
     if (this.reconciling) return;

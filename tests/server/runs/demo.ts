@@ -14,5 +14,6 @@ export async function demoSetup(workerName: string) {
   const worker = new RunWorker(db.sequelize, { name: workerName });
   // Runs are solved one tick at a time; prices and alternatives are jobs an API request waits for.
   worker.startCompute();
+  await worker.ready(); // counted as a worker before the first request asks for one
   return { db, app, workspace, coordinator, worker };
 }
