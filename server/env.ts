@@ -45,6 +45,8 @@ const envSchema = z.object({
   // Failed sign-ins allowed per 15 minutes, per account and per client address.
   ROTALOOM_SIGNIN_MAX_PER_ACCOUNT: z.coerce.number().int().min(1).default(10),
   ROTALOOM_SIGNIN_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(50),
+  /** Sign-ups and password-reset requests per 15 minutes per client address, shared by all API processes (default 30; 1000 in tests). */
+  ROTALOOM_ACCOUNT_REQUESTS_PER_ADDRESS: z.coerce.number().int().min(1).optional(),
   // Payments through the stripe SDK: a secret key turns billing on; host/port/protocol point it at the
   // local fake (without them the SDK talks to the real service).
   ROTALOOM_STRIPE_SECRET_KEY: z.string().optional(),
@@ -79,6 +81,7 @@ export interface Env {
   };
   google: { clientId: string; clientSecret: string; authUrl?: string; tokenUrl?: string; profileUrl?: string } | null;
   signInLimits: { perAccount: number; perAddress: number };
+  accountRequestsPerAddress: number;
   billing: {
     secretKey: string;
     webhookSecret: string;
@@ -138,6 +141,7 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
           }
         : null,
     signInLimits: { perAccount: e.ROTALOOM_SIGNIN_MAX_PER_ACCOUNT, perAddress: e.ROTALOOM_SIGNIN_MAX_PER_ADDRESS },
+    accountRequestsPerAddress: e.ROTALOOM_ACCOUNT_REQUESTS_PER_ADDRESS ?? (e.NODE_ENV === 'test' ? 1000 : 30),
     billing:
       e.ROTALOOM_STRIPE_SECRET_KEY && e.ROTALOOM_STRIPE_WEBHOOK_SECRET
         ? {

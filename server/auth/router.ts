@@ -1,8 +1,8 @@
 import type { Request, Response, NextFunction, Router } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import type { Env } from '../env';
 import { User } from '../db/models';
 import { ApiRoutes } from '../http/routes';
+import { sharedRateLimit } from '../http/rate-limit';
 import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
 import type { Mailer } from '../mail/mailer';
@@ -74,10 +74,11 @@ const SAME_MESSAGE = 'The e-mail address or the password is not right';
 
 export function authRouter({ env, passport, mailer }: AuthDeps): Router {
   const routes = new ApiRoutes('/auth');
-  // Sign-up and password-reset requests per address, on top of the per-account sign-in limits.
-  const perAddress = rateLimit({
+  // Sign-up and password-reset requests per address, on top of the per-account sign-in limits;
+  // counted in Redis, so a client cannot multiply its allowance by reaching several API processes.
+  const perAddress = sharedRateLimit(User.sequelize!, 'account-requests', {
     windowMs: 15 * 60 * 1000,
-    limit: env.nodeEnv === 'test' ? 1000 : 30,
+    limit: env.accountRequestsPerAddress,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', 'Too many requests from this address; try again in a few minutes')),
