@@ -123,7 +123,7 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
         {pickedSeat ? (
           <View style={styles.picker} testID="edit-people">
             <Body bold>{`Move someone into this ${pickedSeat.skillName} seat`}</Body>
-            <View style={styles.seats}>
+            <View style={styles.seats} testID="edit-people-free">
               <Button kind="quiet" label="Leave open" onPress={() => { place(pickedSeat.seatId, null); setPicked(null); }} />
               {candidates.free.map((p) => (
                 <Button key={p.id} kind="quiet" label={p.name} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
@@ -132,9 +132,10 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
             {candidates.busy.length ? (
               <>
                 <Body muted>Already working that day (a second shift is rarely wanted):</Body>
-                <View style={styles.seats}>
+                {/* The group's name says it for screen readers; the buttons keep to the name so they fit a phone. */}
+                <View style={styles.seats} role="group" aria-label="Already working that day" testID="edit-people-busy">
                   {candidates.busy.map((p) => (
-                    <Button key={p.id} kind="quiet" label={`${p.name} (works that day)`} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
+                    <Button key={p.id} kind="quiet" label={p.name} onPress={() => { place(pickedSeat.seatId, p.id); setPicked(null); }} />
                   ))}
                 </View>
               </>
