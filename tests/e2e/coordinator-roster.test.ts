@@ -56,7 +56,7 @@ describe.each([
     await shot('02-shifts');
 
     // An earlier test at the other size may have published it: reopen first (the roster says so).
-    if (await page.getByText('Published and frozen').isVisible()) {
+    if (await page.getByText('Published and frozen').first().isVisible()) {
       await page.getByTestId('section-publish').click();
       await page.getByTestId('publish-reopen').click();
       await page.getByTestId('publish-go').waitFor();
@@ -179,7 +179,7 @@ describe.each([
     await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
     await page.getByRole('heading', { name: ROSTER }).waitFor();
     const rosterId = page.url().match(/rosters\/(\d+)/)![1];
-    if (await page.getByText('Published and frozen').isVisible()) {
+    if (await page.getByText('Published and frozen').first().isVisible()) {
       await page.getByTestId('section-publish').click();
       await page.getByTestId('publish-reopen').click();
       await page.getByTestId('publish-go').waitFor();

@@ -26,7 +26,7 @@ describe('weight suggestion from real edits', () => {
     await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
     await page.getByRole('heading', { name: ROSTER }).waitFor();
     const rosterId = page.url().match(/rosters\/(\d+)/)![1];
-    if (await page.getByText('Published and frozen').isVisible()) {
+    if (await page.getByText('Published and frozen').first().isVisible()) {
       await page.getByTestId('section-publish').click();
       await page.getByTestId('publish-reopen').click();
       await page.getByTestId('publish-go').waitFor();
