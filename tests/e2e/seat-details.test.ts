@@ -31,7 +31,7 @@ describe.each([
 
     // A fresh solved run (the newest one may be a hand-edited save, which has no marginals);
     // a roster published by the workflow test is reopened first, as that test does.
-    if (await page.getByText('Published and frozen').isVisible()) {
+    if (await page.getByText('Published and frozen').first().isVisible()) {
       await page.getByTestId('section-publish').click();
       await page.getByTestId('publish-reopen').click();
       await page.getByTestId('publish-go').waitFor();
