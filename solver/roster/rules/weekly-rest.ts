@@ -2,10 +2,11 @@
  * Weekly rest, Directive 2003/88/EC, Art. 5 with Art. 16(a): "per each seven-day period, every
  * worker is entitled to a minimum uninterrupted rest period of 24 hours plus the 11 hours'
  * daily rest referred to in Article 3"; Art. 16(a) lets the reference period run to 14 days.
- * Checked as: in every window of `days` consecutive days (rolling, wholly inside the period;
- * a shorter period is one window), the person's longest stretch not overlapped by a shift they
+ * Checked as: in every window of `days` consecutive days (rolling, wholly inside the period),
+ * the person's longest stretch not overlapped by a shift they
  * work, measured in real time inside [00:00 of the window's first day, 24:00 of its last), is
- * at least `hours`. A window shorter than `hours` (a very short period) is not checked. With
+ * at least `hours`. A period shorter than `days` is not checked: the article's period is seven
+ * days, and the rest may fall before or after a shorter roster. With
  * days = 14 the Directive asks for two such rests (Art. 5 second paragraph, from memory:
  * "may be reduced to 24 h" where justified); Rotaloom asks for one of `hours`, so set hours
  * accordingly. Soft: `weight` per window without the rest.
@@ -29,6 +30,7 @@ export const weeklyRest = defineRule({
     const H = r.hours * 3_600_000;
     const { facts, roster } = ctx;
     for (const w of rollingWindows(ctx.days, r.days)) {
+      if (w.last - w.first + 1 < r.days) continue; // a period shorter than the window: the rest may fall outside it
       const ws = dayStartMs(roster, w.first);
       const we = dayStartMs(roster, w.last + 1);
       if (we - ws < H) continue;
@@ -54,6 +56,7 @@ export const weeklyRest = defineRule({
   check(ctx, r) {
     const H = r.hours * 3_600_000;
     for (const w of rollingWindows(ctx.days, r.days)) {
+      if (w.last - w.first + 1 < r.days) continue;
       const ws = dayStartMs(ctx.roster, w.first);
       const we = dayStartMs(ctx.roster, w.last + 1);
       if (we - ws < H) continue;

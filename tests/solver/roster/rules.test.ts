@@ -77,6 +77,11 @@ describe('weekly rest (Art. 5 with Art. 16(a): 24 h + 11 h uninterrupted in ever
     const twelve = roster(days(12, '07:00', '15:00'), { weeklyRest: { hard: false, weight: 10, days: 14 } });
     expect(both(twelve, all(twelve, 'ada')).violations).toEqual([]); // Fri 15:00 → Sun 24:00 = 57 h
   });
+  it('a roster shorter than the 7-day period is not held to it: 3 days of 08:00–16:00 keep it', () => {
+    // Art. 5 asks for the rest "per each seven-day period"; in a 3-day roster it may fall outside
+    const r = roster(days(3, '08:00', '16:00'), { weeklyRest: { hard: true } }, { period: { start: '2027-01-04', end: '2027-01-06', timeZone: 'Europe/London' } });
+    expect(both(r, all(r, 'ada')).feasible).toBe(true);
+  });
   it('hard: a roster without the rest is infeasible, and two people sharing the week keep it', () => {
     const r = roster(days(7, '07:00', '15:00'), { weeklyRest: { hard: true } });
     expect(both(r, all(r, 'ada')).feasible).toBe(false);
