@@ -66,6 +66,11 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   // The payment service signs the exact bytes it sends, so its webhook gets the raw body (before the JSON parser).
   api.use('/billing/webhook', express.raw({ type: () => true, limit: '1mb' }));
   api.use(express.json({ limit: '1mb' }));
+  // API answers are about someone's workspace (or say who is signed in): no browser or proxy keeps them.
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
   // Session, then the user (passport), then req.auth (workspace and role), then the CSRF header check.
   const passport = createPassport(env);
   api.use(createSessionMiddleware(env, sequelize).middleware);

@@ -16,6 +16,8 @@ const envSchema = z.object({
   ROTALOOM_DB_USER: z.string().default('root'),
   ROTALOOM_DB_PASSWORD: z.string().default(''),
   ROTALOOM_DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('rotaloom'),
+  // A query that hears nothing back from MariaDB for this long fails (503) instead of hanging the request.
+  ROTALOOM_DB_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(30_000),
   ROTALOOM_SESSION_SECRET: z.string().min(16).default('rotaloom-dev-secret-change-me'),
   ROTALOOM_WEB_DIR: z.string().default(path.join(rootDir, 'dist')),
   ROTALOOM_DATA_DIR: z.string().default(path.join(rootDir, '.data')),
@@ -65,7 +67,7 @@ export interface Env {
   host: string;
   port: number;
   publicUrl: string;
-  db: { host: string; port: number; user: string; password: string; database: string };
+  db: { host: string; port: number; user: string; password: string; database: string; timeoutMs?: number };
   sessionSecret: string;
   webDir: string;
   dataDir: string;
@@ -115,6 +117,7 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
       user: e.ROTALOOM_DB_USER,
       password: e.ROTALOOM_DB_PASSWORD,
       database: e.ROTALOOM_DB_NAME,
+      timeoutMs: e.ROTALOOM_DB_TIMEOUT_MS,
     },
     sessionSecret: e.ROTALOOM_SESSION_SECRET,
     webDir: e.ROTALOOM_WEB_DIR,

@@ -20,6 +20,8 @@ import {
 import type { Authenticator } from './passport';
 import { SESSION_COOKIE } from './session';
 import { checkPassword } from './passwords';
+import { reserveSignIn, settleSignIn } from './lockout';
+import { requireStrongPassword } from './strength';
 import {
   CONFIRM_VALID_MS,
   RESET_VALID_MS,
@@ -31,11 +33,9 @@ import {
   issueToken,
   normalizeEmail,
   recentTokenCount,
-  recordSignInAttempt,
   resolveMembership,
   sessionView,
   setPassword,
-  signInRetryAfter,
   signUp,
 } from './service';
 
@@ -96,12 +96,11 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
   });
 
   routes.post('/sign-in', 'public', validate({ body: signInSchema }), async (req, res, next) => {
-    const { email } = req.body as { email: string; password: string };
-    const address = req.ip ?? 'unknown';
-    const retryAfter = await signInRetryAfter(email, address, env.signInLimits);
-    if (retryAfter !== null) {
-      res.set('Retry-After', String(retryAfter));
-      const minutes = Math.ceil(retryAfter / 60);
+    const email = normalizeEmail((req.body as { email: string }).email);
+    const reserved = await reserveSignIn(email, req.ip ?? 'unknown', env.signInLimits);
+    if (!reserved.ok) {
+      res.set('Retry-After', String(reserved.retryAfter));
+      const minutes = Math.ceil(reserved.retryAfter / 60);
       throw new HttpError(429, 'rate_limited', `Too many failed sign-ins; try again in ${minutes} minute${minutes === 1 ? '' : 's'}`, [
         { path: 'body.email', message: 'Too many failed sign-ins for now' },
       ]);
@@ -109,7 +108,7 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
     const user = await new Promise<Express.User | false>((resolve, reject) => {
       passport.authenticate('local', { session: false }, (err: unknown, found: Express.User | false) => (err ? reject(err) : resolve(found)))(req, res, next);
     });
-    await recordSignInAttempt(email, address, Boolean(user));
+    await settleSignIn(reserved.reservation, Boolean(user));
     // One message whether the address is unknown or the password wrong, so sign-in reveals no accounts.
     if (!user) throw new HttpError(401, 'unauthenticated', SAME_MESSAGE, [{ path: 'body.password', message: SAME_MESSAGE }]);
     await logIn(req, user);
@@ -117,6 +116,7 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
   });
 
   routes.post('/sign-up', 'public', perAddress, validate({ body: signUpSchema }), async (req, res) => {
+    await requireStrongPassword(req.body.password, 'body.password', [req.body.email, req.body.displayName, req.body.workspaceName]);
     const { user, workspace } = await signUp(req.body);
     await logIn(req, user, workspace.id);
     const token = await issueToken(user.id, 'confirm-email', CONFIRM_VALID_MS, user.email);
@@ -143,6 +143,7 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
 
   routes.post('/reset-password', 'public', perAddress, validate({ body: resetPasswordSchema }), async (req, res) => {
     const { token, password } = req.body as { token: string; password: string };
+    await requireStrongPassword(password, 'body.password');
     const row = await User.sequelize!.transaction(async (transaction) => {
       const used = await consumeToken(token, 'password-reset', transaction);
       // Following the e-mailed link shows the address is theirs.
@@ -187,6 +188,7 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
 
   routes.post('/change-password', 'signed-in', validate({ body: changePasswordSchema }), async (req, res) => {
     const user = await requireCurrentPassword(req.user!.id, req.body.currentPassword, 'body.currentPassword');
+    await requireStrongPassword(req.body.newPassword, 'body.newPassword', [user.email, user.displayName]);
     await setPassword(user.id, req.body.newPassword, { verifyEmail: false });
     await endSessions(user.id, req.sessionID);
     sendLater(mailer, passwordChangedMail({ to: user.email, displayName: user.displayName, workspaceName: await firstWorkspaceName(user.id) }), 'password changed');

@@ -2,7 +2,7 @@ import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { Membership, User, Workspace, type Role } from '../db/models';
 import { HttpError } from '../http/errors';
 import { checkPassword, hashPassword } from './passwords';
-import { AccountToken, SignInAttempt, type TokenPurpose } from './models';
+import { AccountToken, type TokenPurpose } from './models';
 import { hashToken, newToken } from './tokens';
 
 export const normalizeEmail = (email: string) => email.trim().toLowerCase();
@@ -16,32 +16,6 @@ export async function verifyPassword(email: string, password: string): Promise<E
   const user = await User.scope('withPassword').findOne({ where: { email: normalizeEmail(email) } });
   const ok = await checkPassword(password, user?.passwordHash);
   return ok && user ? userView(user) : null;
-}
-
-const WINDOW_MS = 15 * 60 * 1000;
-
-/** Seconds until another try is allowed, or null when under both limits (failures per account and per address). */
-export async function signInRetryAfter(email: string, address: string, limits: { perAccount: number; perAddress: number }): Promise<number | null> {
-  const since = new Date(Date.now() - WINDOW_MS);
-  const check = async (where: Record<string, unknown>, limit: number) => {
-    const failures = await SignInAttempt.findAll({
-      where: { ...where, succeeded: false, createdAt: { [Op.gte]: since } },
-      attributes: ['createdAt'],
-      order: [['createdAt', 'DESC']],
-      limit,
-    });
-    if (failures.length < limit) return null;
-    // Free again when the oldest counted failure leaves the window.
-    const oldest = failures[failures.length - 1].createdAt.getTime();
-    return Math.max(1, Math.ceil((oldest + WINDOW_MS - Date.now()) / 1000));
-  };
-  const [account, addr] = await Promise.all([check({ email: normalizeEmail(email) }, limits.perAccount), check({ address }, limits.perAddress)]);
-  if (account === null && addr === null) return null;
-  return Math.max(account ?? 0, addr ?? 0);
-}
-
-export async function recordSignInAttempt(email: string, address: string, succeeded: boolean): Promise<void> {
-  await SignInAttempt.create({ email: normalizeEmail(email).slice(0, 254), address: address.slice(0, 64), succeeded });
 }
 
 // ---------------------------------------------------------------- session view
@@ -112,15 +86,19 @@ export async function loadSignedInUser(userId: number, wanted: number | undefine
  * round trip. The account is the one the row's user_id names (kept equal to the session's
  * passport user by the store); the membership prefers the workspace the session data names.
  */
-export async function loadSessionWithAccount(sid: string): Promise<{ data: string; expires: number; account: SignedInAccount | null } | null> {
-  const rows = await User.sequelize!.query<{ data: string; expires: Date } & AccountRow>(
-    `SELECT s.data, s.expires, ${ACCOUNT_COLUMNS}
+export async function loadSessionWithAccount(sid: string, lifetimeMs: number): Promise<{ data: string; expires: number; account: SignedInAccount | null } | null> {
+  const now = Date.now();
+  const rows = await User.sequelize!.query<{ data: string; expires: Date; created_at: Date } & AccountRow>(
+    `SELECT s.data, s.expires, s.created_at, ${ACCOUNT_COLUMNS}
        FROM sessions s LEFT JOIN users u ON u.id = s.user_id LEFT JOIN memberships m ON m.user_id = u.id
-      WHERE s.sid = ? AND s.expires > ?
+      WHERE s.sid = ? AND s.expires > ? AND s.created_at > ?
       ORDER BY (m.workspace_id = JSON_VALUE(s.data, '$.workspaceId')) DESC, m.id ASC LIMIT 1`,
-    { replacements: [sid, new Date()], type: QueryTypes.SELECT },
+    { replacements: [sid, new Date(now), new Date(now - lifetimeMs)], type: QueryTypes.SELECT },
   );
-  return rows[0] ? { data: rows[0].data, expires: new Date(rows[0].expires).getTime(), account: toAccount(rows[0]) } : null;
+  const row = rows[0];
+  if (!row) return null;
+  const expires = Math.min(new Date(row.expires).getTime(), new Date(row.created_at).getTime() + lifetimeMs);
+  return { data: row.data, expires, account: toAccount(row) };
 }
 
 /** The membership the session should use: the one it names if still valid, else the user's first. */

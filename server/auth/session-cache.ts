@@ -10,6 +10,11 @@ import type { SignedInAccount } from './service';
  */
 export class SessionCache {
   private readonly entries = new Map<string, { at: number; expires: number; data: string; account: SignedInAccount | null }>();
+  /**
+   * Raised by every clear and forget. A read that began before one (a GET racing a sign-out) must
+   * not put what it read back, or the signed-out session would answer from here for a second.
+   */
+  private generation = 0;
 
   constructor(
     private readonly ttlMs = 1000,
@@ -26,16 +31,24 @@ export class SessionCache {
     return e;
   }
 
-  remember(sid: string, row: { data: string; account: SignedInAccount | null; expires: number }, now = Date.now()): void {
+  /** The mark to hand back to `remember` for a database read that starts now. */
+  mark(): number {
+    return this.generation;
+  }
+
+  remember(sid: string, row: { data: string; account: SignedInAccount | null; expires: number }, readFrom: number, now = Date.now()): void {
+    if (readFrom !== this.generation) return;
     if (this.entries.size >= this.maxEntries) this.entries.clear();
     this.entries.set(sid, { at: now, ...row });
   }
 
   forget(sid: string): void {
+    this.generation++;
     this.entries.delete(sid);
   }
 
   clear(): void {
+    this.generation++;
     this.entries.clear();
   }
 }

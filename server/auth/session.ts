@@ -4,7 +4,7 @@ import type { Request, RequestHandler } from 'express';
 import { loadSessionWithAccount, type SignedInAccount } from './service';
 import { rememberAccount } from './load-context';
 import { SessionCache } from './session-cache';
-import type { Sequelize } from 'sequelize';
+import type { Model, ModelStatic, Sequelize } from 'sequelize';
 import type { Env } from '../env';
 import { initAccountModels } from './models';
 
@@ -21,7 +21,15 @@ declare module 'express-session' {
 export const SESSION_COOKIE = 'rotaloom.sid';
 const TWO_WEEKS = 14 * 24 * 60 * 60 * 1000;
 
+/**
+ * However active, a session ends this long after sign-in (the row is made at sign-in, since each
+ * sign-in gets a new session id): a cookie taken once cannot be kept alive for ever by using it.
+ */
+export const SESSION_LIFETIME_MS = 30 * 24 * 60 * 60 * 1000;
+
 const SequelizeStore = connectSessionSequelize(session.Store);
+/** Sessions read from the store (as opposed to made on this request). */
+const loaded = new WeakSet<object>();
 const ACCOUNT = Symbol('account read with the session');
 const READ_ONLY_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
@@ -49,16 +57,25 @@ class RotaloomStore extends SequelizeStore {
   get(sid: string, callback: (err: unknown, session?: session.SessionData | null) => void): void {
     const hit = this.recent.get(sid);
     if (hit) return callback(null, withAccount(hit));
-    loadSessionWithAccount(sid).then((row) => {
+    const mark = this.recent.mark();
+    loadSessionWithAccount(sid, SESSION_LIFETIME_MS).then((row) => {
       if (!row) return callback(null, null);
-      this.recent.remember(sid, row);
+      this.recent.remember(sid, row, mark);
       callback(null, withAccount(row));
     }, callback);
   }
 
+  /**
+   * The library's set is find-or-create: a request that read the session just before sign-out
+   * and changed it afterwards would bring the signed-out row back to life. A session read from the
+   * store is only ever updated; only a new one (sign-in, first visit) is created.
+   */
   set(sid: string, data: session.SessionData, callback?: Callback) {
     this.recent.forget(sid);
-    return super.set(sid, data, callback);
+    if (!loaded.has(data)) return super.set(sid, data, callback);
+    const expires = data.cookie?.expires ? new Date(data.cookie.expires) : new Date(Date.now() + TWO_WEEKS);
+    const model = (this as unknown as { sessionModel: ModelStatic<Model> }).sessionModel;
+    model.update({ data: JSON.stringify(data), expires, userId: data.passport?.user ?? null }, { where: { sid } }).then(() => callback?.(), callback);
   }
 
   destroy(sid: string, callback?: Callback) {
@@ -78,7 +95,9 @@ class RotaloomStore extends SequelizeStore {
   createSession(req: Request, data: session.SessionData) {
     const account = (data as { [ACCOUNT]?: SignedInAccount })[ACCOUNT];
     if (account) rememberAccount(req, account);
-    return super.createSession(req, data);
+    const created = super.createSession(req, data);
+    loaded.add(created);
+    return created;
   }
 }
 

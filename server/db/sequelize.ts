@@ -7,10 +7,13 @@ export function createSequelize(db: Env['db'], options: { logging?: boolean } = 
     port: db.port,
     dialect: 'mariadb',
     logging: options.logging ? (sql) => console.log(sql) : false,
-    pool: { max: 25, min: 0, idle: 10_000 },
+    // A request waits at most this long for a free connection, then answers 503 (http/errors.ts).
+    pool: { max: 25, min: 0, idle: 10_000, acquire: Math.min(db.timeoutMs ?? 30_000, 10_000) },
     // Dates are stored in UTC; rosters carry their own IANA time zone.
     timezone: '+00:00',
-    dialectOptions: { connectTimeout: 5_000 },
+    // socketTimeout: a MariaDB that stops answering (stalled, not down) fails the query after
+    // this long instead of holding the request for ever. Longer than any query of ours takes.
+    dialectOptions: { connectTimeout: 5_000, socketTimeout: db.timeoutMs ?? 30_000 },
     define: { underscored: true },
   });
 }

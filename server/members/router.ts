@@ -8,6 +8,7 @@ import type { Mailer } from '../mail/mailer';
 import { invitationMail } from '../mail/templates';
 import { acceptInvitationSchema, idParamsSchema, invitationTokenQuerySchema, inviteSchema, linkPersonSchema, updateMemberSchema } from '../../shared/auth/schemas';
 import { hashPassword } from '../auth/passwords';
+import { requireStrongPassword } from '../auth/strength';
 import { normalizeEmail } from '../auth/service';
 import { currentSession, logIn, sendLater } from '../auth/router';
 import {
@@ -110,6 +111,7 @@ export function invitationsRouter({ env, mailer }: { env: Env; mailer: Mailer })
       ...(password ? [] : [{ path: 'body.password', message: 'Choose a password' }]),
     ];
     if (missing.length) throw new HttpError(400, 'validation_failed', 'Please enter your name and choose a password', missing);
+    await requireStrongPassword(password!, 'body.password', [invitation.email, displayName]);
     const passwordHash = await hashPassword(password!);
     let userId: number;
     try {

@@ -19,6 +19,7 @@ import * as repo from './repository';
 import { enforcePlanLimit } from '../billing/limits';
 import { assembleRoster } from './assemble';
 import { refuseWhenPublished as frozen } from './publish';
+import { requireWorkspaceSkills } from './rule-skills';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 const rid = (req: { params: Record<string, unknown> }) => Number(req.params.rosterId);
@@ -52,6 +53,7 @@ export function rostersRouter() {
     res.json(await repo.getRules(ws(req), rid(req)));
   });
   r.put('/:rosterId/rules', COORDINATOR_UP, validate({ params: rosterIdParams, body: rulesBody }), frozen, async (req, res) => {
+    await requireWorkspaceSkills(ws(req), req.body.rules);
     res.json(await repo.putRules(ws(req), rid(req), req.body.rules, req.body.version));
   });
 

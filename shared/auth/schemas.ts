@@ -7,7 +7,19 @@ export const newPasswordSchema = z
   .string()
   .min(10, 'Use at least 10 characters')
   .max(200, 'At most 200 characters')
-  .refine((p) => p.trim().length > 0, 'A password cannot be only spaces');
+  .refine((p) => p.trim().length > 0, 'A password cannot be only spaces')
+  // bcrypt reads only the first 72 bytes; anything after them would not count, so it is refused.
+  .refine((p) => utf8Length(p) <= 72, 'At most 72 bytes (letters like é or emoji take 2–4 bytes each); the rest would be ignored');
+
+/** UTF-8 length without TextEncoder, which not every React Native engine has. */
+export function utf8Length(text: string): number {
+  let bytes = 0;
+  for (const ch of text) {
+    const code = ch.codePointAt(0)!;
+    bytes += code < 0x80 ? 1 : code < 0x800 ? 2 : code < 0x10000 ? 3 : 4;
+  }
+  return bytes;
+}
 
 export const displayNameSchema = z.string().trim().min(1, 'Enter your name').max(120, 'At most 120 characters');
 export const workspaceNameSchema = z.string().trim().min(1, 'Name your workspace').max(120, 'At most 120 characters');

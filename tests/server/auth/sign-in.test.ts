@@ -148,12 +148,14 @@ describe('password sign-in, session and sign-out', () => {
   it('limits failed sign-ins per address across accounts', async () => {
     const limited = makeApp(db, { env: { ...db.env, signInLimits: { perAccount: 100, perAddress: 2 } } }).app;
     await SignInAttempt.destroy({ where: {} });
+    await db.sequelize.query('DELETE FROM sign_in_counters');
     const user = await makeUser({ workspace: await makeWorkspace() });
     await agent(limited).post('/api/auth/sign-in').send({ email: 'guess1@example.test', password: 'wrong password' });
     await agent(limited).post('/api/auth/sign-in').send({ email: 'guess2@example.test', password: 'wrong password' });
     const blocked = await agent(limited).post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD });
     expect(blocked.status).toBe(429);
     await SignInAttempt.destroy({ where: {} });
+    await db.sequelize.query('DELETE FROM sign_in_counters');
   });
 
   it('a user with no workspace gets a session with workspace null and 403 on member routes', async () => {
