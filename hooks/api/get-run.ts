@@ -1,6 +1,8 @@
+import { useState } from 'react';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { RunDetail } from './roster-types';
+import { useRunEvents } from './run-events';
 
 export const getRun = (id: number) => apiFetch<RunDetail>(`/runs/${id}`);
 
@@ -14,4 +16,17 @@ export const runQueryOptions = (id: number) =>
     refetchInterval: (query) => (unfinished(query.state.data?.status) ? 500 : false),
   });
 
-export const useRun = (id: number | null) => useQuery({ ...runQueryOptions(id ?? 0), enabled: id !== null });
+/**
+ * While the run's event stream is up (server-sent events, hooks/api/run-events.ts), it brings
+ * progress as the worker reports it and polling slows to a rare check; without it, the poll above.
+ */
+export function useRun(id: number | null) {
+  const [live, setLive] = useState(false);
+  const query = useQuery({
+    ...runQueryOptions(id ?? 0),
+    enabled: id !== null,
+    refetchInterval: (q) => (unfinished(q.state.data?.status) ? (live ? 15_000 : 500) : false),
+  });
+  useRunEvents(id, unfinished(query.data?.status), setLive);
+  return query;
+}

@@ -36,6 +36,7 @@ interface Hub {
   runs: Queue<RunJobData>;
   compute: Queue<ComputeJobData, ComputeJobResult>;
   events: Promise<QueueEvents> | null;
+  runEvents: Promise<QueueEvents> | null;
 }
 
 const urls = new WeakMap<Sequelize, string>();
@@ -74,7 +75,7 @@ export function queues(sequelize: Sequelize): Hub {
   const compute = new Queue<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, { connection: producerOptions(url), prefix });
   runs.on('error', quietErrors('runs queue'));
   compute.on('error', quietErrors('compute queue'));
-  hub = { url, prefix, runs, compute, events: null };
+  hub = { url, prefix, runs, compute, events: null, runEvents: null };
   hubs.set(sequelize, hub);
   return hub;
 }
@@ -83,8 +84,8 @@ export async function closeQueues(sequelize: Sequelize): Promise<void> {
   const hub = hubs.get(sequelize);
   if (!hub) return;
   hubs.delete(sequelize);
-  const events = hub.events ? await hub.events.catch(() => null) : null;
-  await Promise.allSettled([hub.runs.close(), hub.compute.close(), events?.close()]);
+  const [events, runEvents] = await Promise.all([hub.events?.catch(() => null), hub.runEvents?.catch(() => null)]);
+  await Promise.allSettled([hub.runs.close(), hub.compute.close(), events?.close(), runEvents?.close()]);
 }
 
 export class QueueUnavailableError extends HttpError {
@@ -161,14 +162,30 @@ export async function enqueueRun(sequelize: Sequelize, run: { id: number; worksp
   );
 }
 
+async function listen(hub: Hub, queue: string): Promise<QueueEvents> {
+  const events = new QueueEvents(queue, { connection: workerOptions(hub.url), prefix: hub.prefix });
+  events.on('error', quietErrors(`${queue} events`));
+  await events.waitUntilReady();
+  return events;
+}
+
 function eventsOf(hub: Hub): Promise<QueueEvents> {
-  hub.events ??= (async () => {
-    const events = new QueueEvents(COMPUTE_QUEUE, { connection: workerOptions(hub.url), prefix: hub.prefix });
-    events.on('error', quietErrors('compute events'));
-    await events.waitUntilReady();
-    return events;
-  })();
+  hub.events ??= listen(hub, COMPUTE_QUEUE);
   return hub.events;
+}
+
+/**
+ * The runs queue's events (BullMQ QueueEvents: progress, active, completed, failed, …), one
+ * listener per process whatever the number of open streams (server/queue/run-events.ts).
+ * A listener that could not start is dropped, so the next call tries again.
+ */
+export function runEventsOf(sequelize: Sequelize): Promise<QueueEvents> {
+  const hub = queues(sequelize);
+  hub.runEvents ??= listen(hub, RUNS_QUEUE).catch((err: unknown) => {
+    hub.runEvents = null;
+    throw err;
+  });
+  return hub.runEvents;
 }
 
 /**

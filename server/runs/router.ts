@@ -15,6 +15,7 @@ import { findRoster } from '../rosters/repository';
 import { cachedRun, FINAL_STATUSES, rememberRun } from './result-cache';
 import { runNumber, runNumbers } from './numbering';
 import { enqueueRun, queues, requireQueue, runJobId } from '../queue/queues';
+import { runEventStream } from './events-stream';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -121,6 +122,8 @@ export function runsRouter() {
     }
     res.json(body);
   });
+  // Live progress for the client (server-sent events); polling GET /api/runs/:id stays the fallback.
+  runs.get('/:id/events', COORDINATOR_UP, validate({ params: idParams }), runEventStream(async (r) => toRunDto(r, await runNumber(r))));
   runs.post('/:id/cancel', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     const where = { id: Number(req.params.id), workspaceId: ws(req) };
     const run = await RunRow.findOne({ where });

@@ -42,7 +42,11 @@ export async function openPage(browser: Browser, viewport: { width: number; heig
     if (msg.type() === 'error') note(`console: ${msg.text()}`);
   });
   page.on('pageerror', (err) => note(`page error: ${err.message}`));
-  page.on('requestfailed', (req) => note(`request failed: ${req.method()} ${req.url()} ${req.failure()?.errorText ?? ''}`));
+  page.on('requestfailed', (req) => {
+    // A run's event stream (server-sent events) ends by the page closing it: that shows as aborted.
+    if (/\/api\/runs\/\d+\/events$/.test(new URL(req.url()).pathname) && /ERR_ABORTED/.test(req.failure()?.errorText ?? '')) return;
+    note(`request failed: ${req.method()} ${req.url()} ${req.failure()?.errorText ?? ''}`);
+  });
   page.on('response', (res) => {
     if (res.status() >= 400) note(`HTTP ${res.status()}: ${res.request().method()} ${res.url()}`);
   });
