@@ -31,6 +31,7 @@ import { absenceCoverRouter, absencesRouter } from './absences/router';
 import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
 import { suggestionRouter } from './learning/router';
+import { mySwapsRouter, swapsRouter } from './swaps/router';
 
 export interface AppDeps {
   env: Env;
@@ -89,7 +90,8 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter(), copyForwardRouter(), suggestionRouter());
   api.use('/runs', runRouter, runWorkflowRouter);
   api.use('/pairings', pairingsRouter());
-  api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter());
+  api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter(), mySwapsRouter());
+  api.use('/swaps', swapsRouter());
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/billing', billingRouter(env));

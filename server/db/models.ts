@@ -5,6 +5,7 @@ import { initAbsenceModels } from '../absences/models';
 import { initTermModels } from '../terms/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 import { initLearningModels } from '../learning/models';
+import { initSwapModels } from '../swaps/models';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
 
@@ -126,4 +127,5 @@ export function initModels(sequelize: Sequelize): void {
   initAbsenceModels(sequelize);
   initTermModels(sequelize);
   initLearningModels(sequelize);
+  initSwapModels(sequelize);
 }

@@ -20,7 +20,7 @@ import { registerNoticeMailer } from './notices';
 const ws = (req: Request) => req.auth!.workspaceId;
 
 /** The person linked to the signed-in user; everything under /me acts for them and no one else. */
-async function me(req: Request): Promise<Person> {
+export async function me(req: Request): Promise<Person> {
   const personId = req.auth!.personId;
   const person = personId ? await Person.findOne({ where: { id: personId, workspaceId: ws(req) } }) : null;
   if (!person) {

@@ -41,6 +41,10 @@ const bodies: Record<string, unknown> = {
   'post /api/rosters/:rosterId/suggestion/adopt': { suggestionId: 1 },
   'post /api/rosters/:rosterId/suggestion/dismiss': { suggestionId: 1 },
   'post /api/rosters/:rosterId/copy-forward': { name: 'Copied roster', periodStart: '2027-02-01' },
+  'post /api/me/swaps/:id/accept': { version: 1 },
+  'post /api/me/swaps/:id/decline': { version: 1 },
+  'post /api/me/swaps/:id/withdraw': { version: 1 },
+  'post /api/swaps/:id/decision': { decision: 'refuse', version: 1 },
 };
 
 /** Queries a GET route validates before it looks up the roster (a valid one, so the scope is what answers). */

@@ -1,0 +1,123 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { ChangeCheck } from '../../shared/api/swaps';
+
+type Attrs<M extends Model> = InferAttributes<M>;
+type Creation<M extends Model> = InferCreationAttributes<M>;
+
+export type SwapStatus = 'proposed' | 'accepted' | 'approved' | 'refused' | 'declined' | 'withdrawn';
+export type OfferStatus = 'open' | 'taken' | 'approved' | 'refused' | 'withdrawn';
+
+/** A swap (my seat for theirs) or a giveaway (my seat to them) on a published roster (migration 0011). */
+export class SwapRow extends Model<Attrs<SwapRow>, Creation<SwapRow>> {
+  declare id: CreationOptional<number>;
+  declare workspaceId: number;
+  declare rosterId: number;
+  declare kind: 'swap' | 'giveaway';
+  declare proposerPersonId: number;
+  declare proposerSeatId: number;
+  declare colleaguePersonId: number;
+  declare colleagueSeatId: CreationOptional<number | null>;
+  declare status: CreationOptional<SwapStatus>;
+  declare checkResult: ChangeCheck;
+  declare baseRunId: CreationOptional<number | null>;
+  declare resultRunId: CreationOptional<number | null>;
+  declare decidedByUserId: CreationOptional<number | null>;
+  declare decidedAt: CreationOptional<Date | null>;
+  declare version: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+/** An open seat of a published roster offered to the staff eligible for it. */
+export class OfferRow extends Model<Attrs<OfferRow>, Creation<OfferRow>> {
+  declare id: CreationOptional<number>;
+  declare workspaceId: number;
+  declare rosterId: number;
+  declare seatId: number;
+  declare status: CreationOptional<OfferStatus>;
+  declare eligible: number[];
+  declare takerPersonId: CreationOptional<number | null>;
+  declare takenAt: CreationOptional<Date | null>;
+  declare checkResult: CreationOptional<ChangeCheck | null>;
+  declare baseRunId: CreationOptional<number | null>;
+  declare resultRunId: CreationOptional<number | null>;
+  declare createdByUserId: CreationOptional<number | null>;
+  declare decidedAt: CreationOptional<Date | null>;
+  declare version: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export class HolidayCalendarRow extends Model<Attrs<HolidayCalendarRow>, Creation<HolidayCalendarRow>> {
+  declare id: CreationOptional<number>;
+  declare workspaceId: number;
+  declare region: CreationOptional<string | null>;
+  declare version: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+export class HolidayRow extends Model<Attrs<HolidayRow>, Creation<HolidayRow>> {
+  declare id: CreationOptional<number>;
+  declare workspaceId: number;
+  declare date: string;
+  declare name: string;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+const pk = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
+const int = DataTypes.INTEGER.UNSIGNED;
+const version = { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 };
+const common = { id: pk, workspaceId: int, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
+const opts = (sequelize: Sequelize, tableName: string) => ({ sequelize, tableName, underscored: true });
+/** MariaDB keeps JSON as LONGTEXT and the driver hands it back as a string. */
+const json = (name: string) => ({
+  type: DataTypes.JSON,
+  get(this: Model) {
+    const raw = this.getDataValue(name) as unknown;
+    return typeof raw === 'string' ? JSON.parse(raw) : raw;
+  },
+});
+
+export function initSwapModels(sequelize: Sequelize): void {
+  SwapRow.init(
+    {
+      ...common,
+      rosterId: int,
+      kind: DataTypes.ENUM('swap', 'giveaway'),
+      proposerPersonId: int,
+      proposerSeatId: int,
+      colleaguePersonId: int,
+      colleagueSeatId: int,
+      status: { type: DataTypes.ENUM('proposed', 'accepted', 'approved', 'refused', 'declined', 'withdrawn'), defaultValue: 'proposed' },
+      checkResult: json('checkResult'),
+      baseRunId: int,
+      resultRunId: int,
+      decidedByUserId: int,
+      decidedAt: DataTypes.DATE,
+      version,
+    },
+    opts(sequelize, 'swaps'),
+  );
+  OfferRow.init(
+    {
+      ...common,
+      rosterId: int,
+      seatId: int,
+      status: { type: DataTypes.ENUM('open', 'taken', 'approved', 'refused', 'withdrawn'), defaultValue: 'open' },
+      eligible: json('eligible'),
+      takerPersonId: int,
+      takenAt: DataTypes.DATE,
+      checkResult: json('checkResult'),
+      baseRunId: int,
+      resultRunId: int,
+      createdByUserId: int,
+      decidedAt: DataTypes.DATE,
+      version,
+    },
+    opts(sequelize, 'offers'),
+  );
+  HolidayCalendarRow.init({ ...common, region: DataTypes.STRING(20), version }, opts(sequelize, 'holiday_calendars'));
+  HolidayRow.init({ ...common, date: DataTypes.DATEONLY, name: DataTypes.STRING(120) }, opts(sequelize, 'holidays'));
+}
