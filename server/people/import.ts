@@ -1,8 +1,10 @@
 import { Readable } from 'node:stream';
 import { parse } from 'csv-parse';
+import { unguardFormula } from '../exports/csv';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
 import { Person, Skill } from '../db/models';
+import { nearestName } from './near-match';
 import { HttpError } from '../http/errors';
 import {
   createPersonBody,
@@ -88,22 +90,6 @@ export function detectDelimiter(text: string): ',' | ';' | '\t' {
 
 const normaliseHeader = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
 const nameKey = (s: string) => s.trim().replace(/\s+/g, ' ').toLocaleLowerCase('en');
-/** Undoes the export's guard against spreadsheet formulas ('=… → =…). */
-const unguard = (cell: string) => (/^'[=+\-@\t\r]/.test(cell) ? cell.slice(1) : cell);
-
-function distance(a: string, b: string): number {
-  const prev = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let diag = prev[0];
-    prev[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const up = prev[j];
-      prev[j] = Math.min(prev[j] + 1, prev[j - 1] + 1, diag + (a[i - 1] === b[j - 1] ? 0 : 1));
-      diag = up;
-    }
-  }
-  return prev[b.length];
-}
 
 function parseHours(cell: string): number | null {
   const t = cell.trim();
@@ -226,7 +212,7 @@ function checkRow(
 ): ParsedRow {
   const errors: ImportRowError[] = [];
   const add = (message: string, column?: string) => errors.push({ row, column, message: `row ${row}: ${message}` });
-  const cell = (c: keyof typeof col) => (col[c] === undefined ? undefined : unguard((cells[col[c]!] ?? '').trim()));
+  const cell = (c: keyof typeof col) => (col[c] === undefined ? undefined : unguardFormula((cells[col[c]!] ?? '').trim()));
   if (cells.length > width) add(`has ${cells.length} cells but the header has ${width} columns (is a comma inside a cell without quotes?)`);
 
   const name = (cell('name') ?? '').replace(/\s+/g, ' ');
@@ -246,8 +232,8 @@ function checkRow(
       skillIds.push(found.id);
       continue;
     }
-    const near = [...skillByKey.values()].map((k) => [k, distance(nameKey(s), nameKey(k.name))] as const).sort((a, b) => a[1] - b[1])[0];
-    const hint = near && near[1] <= Math.max(2, Math.floor(s.length / 4)) ? ` (did you mean '${near[0].name}'?)` : '';
+    const near = nearestName(nameKey(s), skillByKey, skillByKey);
+    const hint = near ? ` (did you mean '${near.name}'?)` : '';
     add(`unknown skill '${s}'${hint}`, 'skills');
   }
 

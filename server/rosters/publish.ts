@@ -7,7 +7,7 @@ import { formatDay } from '../../shared/roster/derive';
 import { AssignmentRow, Roster, RunRow, SeatRow, ShiftRow } from './models';
 import { findRoster, toRosterDto } from './repository';
 import { buildCalendar, type CalendarEvent } from '../exports/ical';
-import { buildCsv } from './ical';
+import { buildCsv } from '../exports/csv';
 
 /** Every shift of a run with who works it, in start order; the data the mails and files are made from. */
 export async function runShifts(workspaceId: number, rosterId: number, runId: number) {
