@@ -3,7 +3,7 @@ import { randomUUID } from 'node:crypto';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { DelayedError, Worker, type Job } from 'bullmq';
+import { DelayedError, UnrecoverableError, Worker, type Job } from 'bullmq';
 import type { Sequelize } from 'sequelize';
 import { assembleRoster } from '../rosters/assemble';
 import { parseRosterId } from '../rosters/ids';
@@ -40,6 +40,24 @@ export interface RunWorkerOptions {
   reconcileMs?: number;
   /** A run turned away by its workspace's cap is offered again after this long. */
   capDelayMs?: number;
+}
+
+/**
+ * The BullMQ worker settings of every solve worker; exported so tests can stand in for a worker
+ * that dies (takes a job and stops renewing its lock) with exactly these.
+ */
+export function queueWorkerOptions(o: { url: string; prefix: string; lockMs: number; name: string; concurrency?: number; autorun?: boolean }) {
+  return {
+    connection: workerOptions(o.url),
+    prefix: o.prefix,
+    concurrency: o.concurrency ?? 1,
+    autorun: o.autorun ?? true,
+    lockDuration: o.lockMs,
+    stalledInterval: Math.max(500, Math.round(o.lockMs / 2)),
+    // A job found stalled once is retried on another worker; found stalled again, it fails (the reconciler words it).
+    maxStalledCount: 1,
+    name: o.name,
+  };
 }
 
 type RunEnd = { worked: boolean; ended: string };
@@ -87,17 +105,7 @@ export class RunWorker {
   }
 
   private workerOpts(concurrency: number, autorun = true) {
-    return {
-      connection: workerOptions(this.url),
-      prefix: this.prefix,
-      concurrency,
-      autorun,
-      lockDuration: this.lockMs,
-      stalledInterval: Math.max(500, Math.round(this.lockMs / 2)),
-      // A job found stalled once is retried on another worker; found stalled again, it fails (the reconciler words it).
-      maxStalledCount: 1,
-      name: this.name,
-    };
+    return queueWorkerOptions({ url: this.url, prefix: this.prefix, lockMs: this.lockMs, name: this.name, concurrency, autorun });
   }
 
   /** Works both queues continuously and reconciles the run rows with the queue now and every reconcileMs. */
@@ -152,6 +160,11 @@ export class RunWorker {
       const token = randomUUID();
       const job = (await this.manual.getNextJob(token, { block: false })) as Job<RunJobData> | undefined;
       if (!job) return null;
+      // A job stalled more often than allowed comes back marked to fail (BullMQ's run loop does the same).
+      if (job.deferredFailure) {
+        await job.moveToFailed(new UnrecoverableError(job.deferredFailure), token, false);
+        continue;
+      }
       const renew = setInterval(() => void job.extendLock(token, this.lockMs).catch(() => {}), Math.round(this.lockMs / 3));
       try {
         const end = await this.processRun(job);
