@@ -6,6 +6,9 @@ import { Invitation } from '../auth/models';
 import { hashToken, newToken } from '../auth/tokens';
 import { normalizeEmail } from '../auth/service';
 import { CalendarFeedRow } from '../staff/models';
+import { transactionWithRetry } from '../db/sequelize';
+import { standingOf } from '../billing/limits';
+import type { PlanId } from '../../shared/billing/plans';
 
 export const INVITATION_VALID_MS = 7 * 24 * 60 * 60 * 1000;
 
@@ -150,7 +153,8 @@ export async function createInvitation(auth: AuthContext, input: { email: string
   const workspace = await Workspace.findByPk(auth.workspaceId);
   if (!workspace) throw notFound('Workspace');
   const { token, hash } = newToken();
-  const invitation = await Invitation.sequelize!.transaction(async (transaction) => {
+  const invitation = await transactionWithRetry(Invitation.sequelize!, async (transaction) => {
+    await requireInvitationAllowance(auth.workspaceId, transaction);
     // A new invitation to the same address replaces the earlier one, whose link stops working.
     await Invitation.update({ revokedAt: new Date() }, { where: { workspaceId: auth.workspaceId, email, acceptedAt: null, revokedAt: null }, transaction });
     return Invitation.create(
@@ -159,6 +163,30 @@ export async function createInvitation(auth: AuthContext, input: { email: string
     );
   });
   return { invitation: invitationView(invitation), token, workspaceName: workspace.name };
+}
+
+/**
+ * Invitations one workspace may send in 24 hours, by plan. Each is an e-mail from us to any
+ * address, carrying names the sender chose, so a new workspace must not become a mail cannon.
+ */
+export const INVITATIONS_PER_DAY: Record<PlanId, number> = { free: 20, team: 200 };
+const DAY_MS = 24 * 60 * 60 * 1000;
+
+/** 429 with Retry-After once the day's invitations are used; the workspace row is locked so simultaneous sends count one by one. */
+async function requireInvitationAllowance(workspaceId: number, transaction: Transaction): Promise<void> {
+  await Workspace.findByPk(workspaceId, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+  const limit = INVITATIONS_PER_DAY[(await standingOf(workspaceId, transaction)).plan];
+  const recent = await Invitation.findAll({
+    where: { workspaceId, createdAt: { [Op.gte]: new Date(Date.now() - DAY_MS) } },
+    attributes: ['createdAt'],
+    order: [['createdAt', 'DESC']],
+    limit,
+    transaction,
+  });
+  if (recent.length < limit) return;
+  const retryAfter = Math.max(1, Math.ceil((recent[recent.length - 1].createdAt.getTime() + DAY_MS - Date.now()) / 1000));
+  const hours = Math.ceil(retryAfter / 3600);
+  throw new HttpError(429, 'rate_limited', `This workspace has sent ${limit} invitations in the last 24 hours, the most its plan allows; more can go out in about ${hours} hour${hours === 1 ? '' : 's'}.`, [{ path: 'body.email', message: `at most ${limit} invitations a day` }], { 'Retry-After': String(retryAfter) });
 }
 
 export async function revokeInvitation(workspaceId: number, id: number): Promise<void> {

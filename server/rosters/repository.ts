@@ -10,6 +10,7 @@ import type { RosterDto, ShiftDto } from '../../shared/api/rosters';
 
 export type { RosterDto, ShiftDto };
 import { PairingRow, PinRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
+import { requireSeatRoom } from './seat-bounds';
 
 
 export const toRosterDto = (r: Roster): RosterDto => ({
@@ -168,6 +169,7 @@ export function expandPattern(roster: Pick<Roster, 'periodStart' | 'periodEnd' |
 export async function previewPattern(workspaceId: number, rosterId: number, body: PatternBody) {
   const roster = await findRoster(workspaceId, rosterId);
   await checkSkills(workspaceId, body.seats.map((s) => s.skillId), (i) => `body.seats.${i}.skillId`);
+  await requireSeatRoom(workspaceId, roster, body);
   return expandPattern(roster, body);
 }
 
@@ -194,6 +196,7 @@ export async function createPattern(workspaceId: number, rosterId: number, body:
   return changeRoster(workspaceId, rosterId, async (transaction) => {
     const taken = await ShiftPatternRow.findOne({ where: { workspaceId, rosterId, label: body.label }, transaction });
     if (taken) throw labelTaken();
+    await requireSeatRoom(workspaceId, roster, body, transaction);
     // The unique index (roster_id, label) is the last word should anything get past the lock.
     const pattern = await ShiftPatternRow.create(
       { workspaceId, rosterId, label: body.label, weekdays: body.weekdays, startTime: body.startTime, endTime: body.endTime, seats: body.seats, night: body.night ?? null },

@@ -16,6 +16,7 @@ import { cachedRun, FINAL_STATUSES, rememberRun } from './result-cache';
 import { runNumber, runNumbers } from './numbering';
 import { enqueueRun, queues, requireQueue, runJobId } from '../queue/queues';
 import { runEventStream } from './events-stream';
+import { createRunWithinAllowance, requireTimeLimitWithinPlan } from './fair-use';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -59,6 +60,7 @@ export async function queueRun(
   parameters: RunRow['parameters'],
   opts: { prepare?: (roster: ParsedRoster) => ParsedRoster; dryRun?: boolean } = {},
 ): Promise<RunRow | null> {
+  await requireTimeLimitWithinPlan(workspaceId, parameters.timeLimitSeconds);
   const solvable = await solvableRoster(workspaceId, rosterId);
   const roster = opts.prepare ? opts.prepare(solvable.roster) : solvable.roster;
   if (roster.seats.length === 0) throw new HttpError(422, 'unprocessable', 'This roster has no shifts yet: add a shift pattern or a shift first.', [{ path: 'roster.shifts', message: 'no shifts' }]);
@@ -70,7 +72,7 @@ export async function queueRun(
   await requireQueue(sequelize);
   // The row first (the source of truth), its job after the commit. Should the add fail now, the
   // row stays queued and the reconciler (server/queue/reconcile.ts) adds the job once Redis answers.
-  const run = await RunRow.create({ workspaceId, rosterId, parameters, rosterVersion: solvable.version, status: 'queued', cancelRequested: false });
+  const run = await createRunWithinAllowance(workspaceId, { workspaceId, rosterId, parameters, rosterVersion: solvable.version, status: 'queued', cancelRequested: false });
   await enqueueRun(sequelize, run).catch(() => {});
   return run;
 }
