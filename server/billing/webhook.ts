@@ -99,6 +99,12 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
       if (account.subscriptionId === sub.id && account.subscriptionEventAt !== null && event.created < account.subscriptionEventAt) {
         return { workspaceId, outcome: 'ignored: older than the state already applied' };
       }
+      // Event times have whole seconds: within one second, the subscription's own life decides
+      // (incomplete → trialing → active → past due → unpaid → canceled), so it never steps back.
+      const incoming = event.type === 'customer.subscription.deleted' ? 'canceled' : sub.status;
+      if (account.subscriptionId === sub.id && event.created === account.subscriptionEventAt && lifeStage(incoming) < lifeStage(account.status)) {
+        return { workspaceId, outcome: 'ignored: same second as the state already applied, and earlier in the subscription\'s life' };
+      }
       const item = sub.items.data[0];
       account.subscriptionId = sub.id;
       account.subscriptionItemId = item?.id ?? null;
@@ -125,6 +131,14 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
       const workspaceId = await workspaceFor({ customer: invoice.customer, metadata: invoice.parent?.subscription_details?.metadata ?? null }, subscriptionId, transaction);
       if (!workspaceId) return { workspaceId: null, outcome: 'ignored: no workspace' };
       const account = await lockAccount(workspaceId, transaction);
+      // An invoice event older than the subscription state already applied only counts if that
+      // state agrees with it: a late failure must not mark a paid-up workspace, nor a late payment
+      // clear a failure the subscription still shows.
+      const late = account.subscriptionEventAt !== null && event.created < account.subscriptionEventAt;
+      const troubled = PAYMENT_TROUBLE.includes(account.status);
+      if (late && (event.type === 'invoice.payment_failed') !== troubled) {
+        return { workspaceId, outcome: `ignored: older than the subscription state (${account.status})` };
+      }
       if (event.type === 'invoice.payment_failed') {
         account.lastPaymentError = `The payment of ${formatMoney(invoice.amount_due, invoice.currency)} for invoice ${invoice.number ?? invoice.id} failed on ${new Date(event.created * 1000).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' })}.`;
       } else {
@@ -137,3 +151,7 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
       return { workspaceId: null, outcome: 'ignored: not an event Rotaloom uses' };
   }
 }
+
+const PAYMENT_TROUBLE: SubscriptionStatus[] = ['past_due', 'unpaid'];
+const LIFE: Partial<Record<SubscriptionStatus, number>> = { incomplete: 0, incomplete_expired: 1, trialing: 1, active: 2, past_due: 3, paused: 3, unpaid: 4, canceled: 5 };
+const lifeStage = (status: string) => LIFE[status as SubscriptionStatus] ?? 0;

@@ -131,6 +131,47 @@ describe('payment webhook', () => {
     expect((await BillingAccount.findByPk(ws.id))?.status).toBe('canceled');
   });
 
+  it('within one second, orders subscription events by the subscription\'s life, not by arrival (issue 13 item 8)', async () => {
+    const ws = await makeWorkspace('Same Second House', { plan: 'free' });
+    const t = Math.floor(Date.now() / 1000);
+    // Stripe event times have whole seconds (https://docs.stripe.com/api/events/object: `created`, seconds since the epoch)
+    const active = JSON.stringify(subscriptionEvent(ws.id, { status: 'active', created: t }));
+    const incomplete = JSON.stringify(subscriptionEvent(ws.id, { status: 'incomplete', type: 'customer.subscription.created', created: t }));
+    await post(active, signed(active));
+    const res = await post(incomplete, signed(incomplete));
+    expect(res.body.outcome).toMatch(/same second/);
+    expect((await BillingAccount.findByPk(ws.id))?.status).toBe('active');
+    const deleted = JSON.stringify(subscriptionEvent(ws.id, { status: 'canceled', type: 'customer.subscription.deleted', created: t }));
+    await post(deleted, signed(deleted));
+    expect((await BillingAccount.findByPk(ws.id))?.status).toBe('canceled');
+  });
+
+  it('a late failed invoice does not mark a workspace whose newer subscription state is paid up (issue 13 item 8)', async () => {
+    const ws = await makeWorkspace('Late Invoice House', { plan: 'free' });
+    const t = Math.floor(Date.now() / 1000);
+    const invoiceEvent = (type: string, created: number, id: string) =>
+      JSON.stringify({
+        id,
+        object: 'event',
+        created,
+        type,
+        data: { object: { id: 'in_7', object: 'invoice', number: 'RTL-0077', customer: `cus_ws${ws.id}`, amount_due: 2000, currency: 'gbp', parent: { type: 'subscription_details', subscription_details: { subscription: `sub_ws${ws.id}`, metadata: {} } } } },
+      });
+    const active = JSON.stringify(subscriptionEvent(ws.id, { status: 'active', created: t }));
+    await post(active, signed(active));
+    const lateFailure = invoiceEvent('invoice.payment_failed', t - 120, `evt_latefail_${ws.id}`);
+    expect((await post(lateFailure, signed(lateFailure))).body.outcome).toMatch(/older than the subscription state/);
+    expect((await BillingAccount.findByPk(ws.id))?.lastPaymentError).toBeNull();
+    // and the other way round: past due now, a late payment of an earlier invoice leaves the failure shown
+    const pastDue = JSON.stringify(subscriptionEvent(ws.id, { status: 'past_due', created: t + 1 }));
+    await post(pastDue, signed(pastDue));
+    const failure = invoiceEvent('invoice.payment_failed', t + 1, `evt_fail_${ws.id}`);
+    await post(failure, signed(failure));
+    const latePaid = invoiceEvent('invoice.paid', t - 60, `evt_latepaid_${ws.id}`);
+    expect((await post(latePaid, signed(latePaid))).body.outcome).toMatch(/older than the subscription state/);
+    expect((await BillingAccount.findByPk(ws.id))?.lastPaymentError).toMatch(/RTL-0077/);
+  });
+
   it('marks the workspace past due on a failed payment and names the amount', async () => {
     const ws = await makeWorkspace('Overdue House', { plan: 'free' });
     const sub = JSON.stringify(subscriptionEvent(ws.id, { status: 'active' }));
