@@ -32,6 +32,7 @@ import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
 import { suggestionRouter } from './learning/router';
 import { mySwapsRouter, swapsRouter } from './swaps/router';
+import { offerRouters } from './offers/router';
 
 export interface AppDeps {
   env: Env;
@@ -92,6 +93,10 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/pairings', pairingsRouter());
   api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter(), mySwapsRouter());
   api.use('/swaps', swapsRouter());
+  const [rosterOffersRouter, offersRouter, myOffersRouter] = offerRouters();
+  api.use('/rosters', rosterOffersRouter);
+  api.use('/offers', offersRouter);
+  api.use('/me', myOffersRouter);
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/billing', billingRouter(env));

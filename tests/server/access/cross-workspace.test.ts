@@ -45,6 +45,9 @@ const bodies: Record<string, unknown> = {
   'post /api/me/swaps/:id/decline': { version: 1 },
   'post /api/me/swaps/:id/withdraw': { version: 1 },
   'post /api/swaps/:id/decision': { decision: 'refuse', version: 1 },
+  'post /api/rosters/:rosterId/offers': { seatId: 1 },
+  'post /api/offers/:id/decision': { decision: 'refuse', version: 1 },
+  'post /api/offers/:id/withdraw': { version: 1 },
 };
 
 /** Queries a GET route validates before it looks up the roster (a valid one, so the scope is what answers). */

@@ -9,9 +9,9 @@ type Agent = ReturnType<typeof agent>;
 /**
  * A published week (Mon 1 – Sun 7 March 2027, Europe/London): an early (07–15) and a late
  * (15–23) shift each weekday, one seat each. A works the earlies Mon–Tue, C the earlies Wed–Fri,
- * B the lates Mon–Wed, D the lates Thu–Fri. A, B, C and D sign in as staff; everyone has an address.
+ * B the lates Mon–Wed, D the lates Thu–Fri (seats in `leaveOpen` stay open). E has no login. A, B, C and D sign in as staff; everyone has an address.
  */
-export async function publishedWeek(app: Express, options: { workspace?: Workspace } = {}) {
+export async function publishedWeek(app: Express, options: { workspace?: Workspace; leaveOpen?: Array<[string, string]> } = {}) {
   const workspace = options.workspace ?? (await makeWorkspace('Willowmere House'));
   const coordinator = (await signedIn(app, workspace, 'coordinator')).agent;
   const fixture = await makeApiRoster(coordinator, workspace, {
@@ -30,7 +30,8 @@ export async function publishedWeek(app: Express, options: { workspace?: Workspa
     { seatId: seat('early', day), personId: holder.early[i].id },
     { seatId: seat('late', day), personId: holder.late[i].id },
   ]);
-  await publishDirectly(workspace.id, fixture.roster.id, assignments);
+  const open = new Set((options.leaveOpen ?? []).map(([label, day]) => seat(label, day)));
+  await publishDirectly(workspace.id, fixture.roster.id, assignments.map((x) => (open.has(x.seatId) ? { ...x, personId: null } : x)));
   const staff: Record<'a' | 'b' | 'c' | 'd', Agent> = {} as never;
   const emails: Record<string, string> = {};
   for (const [key, person] of Object.entries({ a, b, c, d })) {
