@@ -12,17 +12,17 @@ const from = (app: App, address: string) => agent(app).set('X-Forwarded-For', ad
 
 const signIn = (app: App, address: string, email: string, password: string) => from(app, address).post('/api/auth/sign-in').send({ email, password });
 
-describe('sign-in without lockout abuse (issue 13 item 6)', () => {
-  let db: TestDb;
-  let app: App;
-  beforeAll(async () => {
-    db = await createTestDb();
-    app = makeApp(db).app;
-  });
-  afterAll(async () => {
-    await db.drop();
-  });
+let db: TestDb;
+let app: App;
+beforeAll(async () => {
+  db = await createTestDb();
+  app = makeApp(db).app;
+});
+afterAll(async () => {
+  await db.drop();
+});
 
+describe('sign-in without lockout abuse (issue 13 item 6)', () => {
   it('counts a burst atomically: 20 simultaneous wrong passwords against a limit of 10 pass exactly 10 times', async () => {
     const limited = makeApp(db, { env: { ...db.env, signInLimits: { perAccount: 10, perAddress: 1000 } } }).app;
     const user = await makeUser({ workspace: await makeWorkspace() });
@@ -70,16 +70,6 @@ describe('sign-in without lockout abuse (issue 13 item 6)', () => {
 });
 
 describe('choosing a password (issue 13 item 6)', () => {
-  let db: TestDb;
-  let app: App;
-  beforeAll(async () => {
-    db = await createTestDb();
-    app = makeApp(db).app;
-  });
-  afterAll(async () => {
-    await db.drop();
-  });
-
   const signUp = (password: string, extra: Record<string, string> = {}) =>
     agent(app).post('/api/auth/sign-up').send({ displayName: 'Maren Fairweather', email: uniqueEmail('maren'), password, workspaceName: 'Gullhaven Hospice', ...extra });
 
@@ -126,16 +116,6 @@ describe('choosing a password (issue 13 item 6)', () => {
 });
 
 describe('sessions end when they should (issue 13 item 6)', () => {
-  let db: TestDb;
-  let app: App;
-  beforeAll(async () => {
-    db = await createTestDb();
-    app = makeApp(db).app;
-  });
-  afterAll(async () => {
-    await db.drop();
-  });
-
   async function signedInCookie() {
     const user = await makeUser({ workspace: await makeWorkspace(), role: 'coordinator' });
     const res = await agent(app).post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD });
