@@ -9,6 +9,12 @@ export function failureInWords(reason: string | undefined): string {
   return `The run was given up after two attempts: ${r || 'no reason was recorded'}.`;
 }
 
+/** Marks a run whose job failed for good as failed, in words, unless it has ended meanwhile. True when it changed the row. */
+export async function markGivenUp(runId: number, reason: string | undefined): Promise<boolean> {
+  const [count] = await RunRow.update({ status: 'failed', error: failureInWords(reason), finishedAt: new Date() }, { where: { id: runId, status: { [Op.in]: ['queued', 'running'] } } });
+  return count > 0;
+}
+
 export interface ReconcileReport {
   /** Rows that were queued or running with no job in the queue, now enqueued. */
   enqueued: number[];
@@ -33,11 +39,7 @@ export async function reconcileRuns(sequelize: Sequelize): Promise<ReconcileRepo
       report.enqueued.push(row.id);
     } else if (state === 'failed') {
       const job = await hub.runs.getJob(runJobId(row.id));
-      const [count] = await RunRow.update(
-        { status: 'failed', error: failureInWords(job?.failedReason), finishedAt: new Date() },
-        { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } },
-      );
-      if (count) report.failed.push(row.id);
+      if (await markGivenUp(row.id, job?.failedReason)) report.failed.push(row.id);
     }
   }
   return report;

@@ -19,7 +19,7 @@ import { priceConcession } from './price';
 import { seatAlternatives } from './alternatives';
 import { COMPUTE_QUEUE, RUN_ATTEMPTS, RUNS_QUEUE, queueSettings, quietErrors, useRedis, type ComputeJobData, type ComputeJobResult, type RunJobData } from '../queue/queues';
 import { workerOptions } from '../queue/connection';
-import { failureInWords, reconcileRuns } from '../queue/reconcile';
+import { failureInWords, markGivenUp, reconcileRuns } from '../queue/reconcile';
 import type { RosterAssignment } from '../../shared/roster/schema';
 
 export interface RunWorkerOptions {
@@ -114,6 +114,10 @@ export class RunWorker {
     if (!this.runs) {
       this.runs = new Worker<RunJobData>(RUNS_QUEUE, (job, token) => this.processJob(job, token), this.workerOpts(this.concurrency));
       this.runs.on('error', quietErrors('run worker'));
+      // A job failed for good without its processor running (stalled too often): the row says so now, not at the next reconcile.
+      this.runs.on('failed', (job) => {
+        if (job?.deferredFailure) void markGivenUp(job.data.runId, job.failedReason).catch(() => {});
+      });
     }
     this.startCompute();
     if (!this.reconcileTimer) {
