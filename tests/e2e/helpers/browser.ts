@@ -73,3 +73,18 @@ export async function signIn(page: Page, email = 'coordinator@willowmere.example
   await page.getByTestId('sign-in-submit').click();
   await page.getByRole('navigation', { name: 'Main' }).waitFor();
 }
+
+/**
+ * Opens a roster from the list, reopening it first when a test that ran earlier left it published,
+ * so it can be solved again.
+ */
+export async function openRosterForSolving(page: Page, roster: string): Promise<void> {
+  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
+  await page.getByRole('link', { name: `Open roster ${roster}` }).click();
+  await page.getByRole('heading', { name: roster }).waitFor();
+  if (await page.getByText('Published and frozen').first().isVisible()) {
+    await page.getByTestId('section-publish').click();
+    await page.getByTestId('publish-reopen').click();
+    await page.getByTestId('publish-go').waitFor();
+  }
+}
