@@ -1,4 +1,4 @@
-import { Op, type Transaction } from 'sequelize';
+import { Op, type CreationAttributes, type Transaction } from 'sequelize';
 import { Workspace } from '../db/models';
 import { HttpError } from '../http/errors';
 import { transactionWithRetry } from '../db/sequelize';
@@ -30,7 +30,7 @@ export async function requireTimeLimitWithinPlan(workspaceId: number, seconds: n
  * solving: then 429 with Retry-After. The workspace row is locked while counting and creating, so
  * simultaneous starts cannot pass the cap together.
  */
-export async function createRunWithinAllowance(workspaceId: number, values: Parameters<typeof RunRow.create>[0]): Promise<RunRow> {
+export async function createRunWithinAllowance(workspaceId: number, values: CreationAttributes<RunRow>): Promise<RunRow> {
   const { plan } = await standingOf(workspaceId);
   const { waitingOrSolving } = RUN_ALLOWANCE[plan];
   return transactionWithRetry(RunRow.sequelize!, async (transaction: Transaction) => {
