@@ -1,11 +1,12 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Slot } from 'expo-router';
-import { useFonts } from 'expo-font';
 import { ActivityIndicator, View } from 'react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { colors, fontFiles } from '@/constants/theme';
+import { colors } from '@/constants/theme';
 import { ApiError } from '@/hooks/api/api-client';
+import { registerServiceWorker } from '@/hooks/offline/service-worker';
+import { useAppFonts } from '@/hooks/use-app-fonts';
 
 function makeQueryClient() {
   return new QueryClient({
@@ -14,6 +15,8 @@ function makeQueryClient() {
         // A 4xx will not change by asking again; only network trouble and 5xx are retried.
         retry: (count, error) => count < 2 && !(error instanceof ApiError && error.status >= 400 && error.status < 500),
         refetchOnWindowFocus: false,
+        // Ask even when the browser says it is offline: the service worker may answer from its copy.
+        networkMode: 'offlineFirst',
       },
     },
   });
@@ -21,8 +24,9 @@ function makeQueryClient() {
 
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
-  const [fontsLoaded, fontError] = useFonts(fontFiles);
-  if (!fontsLoaded && !fontError) {
+  const fontsReady = useAppFonts();
+  useEffect(registerServiceWorker, []);
+  if (!fontsReady) {
     return (
       <View style={{ flex: 1, alignItems: 'center', justifyContent: 'center', backgroundColor: colors.paper }}>
         <ActivityIndicator color={colors.loom} />

@@ -1,31 +1,13 @@
-/** Rotaloom's look: warm paper, deep loom-green ink and an ochre thread for actions. */
-export const colors = {
-  paper: '#F6F1E7',
-  card: '#FFFDF8',
-  ink: '#1D2B2A',
-  inkSoft: '#4A5857',
-  loom: '#1F4E4A',
-  loomSoft: '#D9E6E1',
-  thread: '#B85F1E',
-  threadSoft: '#F3DEC9',
-  line: '#D8D0C0',
-  danger: '#A3262A',
-  dangerSoft: '#F7DEDC',
-  ok: '#2E6B3A',
-  white: '#FFFFFF',
-} as const;
+import { colors } from './colors';
+import { fonts } from './fonts';
+
+export { colors, fonts };
 
 export const space = { xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 36 } as const;
 
 export const radius = { sm: 6, md: 10, lg: 16 } as const;
 
-/** Font family names as registered with expo-font in app/_layout.tsx. */
-export const fonts = {
-  body: 'AtkinsonHyperlegible',
-  bodyBold: 'AtkinsonHyperlegible-Bold',
-  heading: 'Fraunces-SemiBold',
-} as const;
-
+/** The font files for expo-font on native (hooks/use-app-fonts.ts); the web build declares them in index.html. */
 export const fontFiles = {
   [fonts.body]: require('../fonts/AtkinsonHyperlegible_400Regular.ttf'),
   [fonts.bodyBold]: require('../fonts/AtkinsonHyperlegible_700Bold.ttf'),

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
-import { Calendar } from 'react-native-calendars';
+import { MonthCalendar } from '@/components/ui/month-calendar';
 import { calendarTheme, colors, radius, space } from '@/constants/theme';
 import { TERM_LABELS } from '@/shared/api/rosters';
 import { useRun } from '@/hooks/api/get-run';
@@ -71,7 +71,7 @@ function ResultBody({ roster, run, onPickRun }: { roster: RosterDto; run: RunDet
       {shape === 'days' && view ? (
         <>
           <Panel title="Month" lead="Each day: green when every seat is filled, ochre when a seat stays open.">
-            <Calendar
+            <MonthCalendar
               firstDay={1}
               current={day}
               minDate={roster.periodStart}

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
-import { Calendar } from 'react-native-calendars';
+import { MonthCalendar } from '@/components/ui/month-calendar';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { calendarTheme, colors, radius, space } from '@/constants/theme';
 import { myShiftsQueryOptions } from '@/hooks/api/get-my-shifts';
@@ -13,6 +13,7 @@ import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { CalendarFeedSection } from './calendar-feed-section';
 import { hoursLabel, localDateOf, plainLongDay } from './format';
+import { OfflineNotice } from './offline-notice';
 import { ShiftCard } from './shift-card';
 
 const NEXT_SHOWN = 5;
@@ -62,6 +63,7 @@ export function MyShiftsScreen() {
     <View style={[styles.page, wide && styles.pageWide]}>
       <Heading>My shifts</Heading>
       <Body muted>{`${data.person.name} · times in ${zone}`}</Body>
+      {data.savedAt ? <OfflineNotice savedAt={data.savedAt} timeZone={zone} /> : null}
 
       <View style={styles.card} testID="week-hours" accessibilityLabel={`${isThisWeek ? 'This week' : 'Week'}: ${wk.hours} hours of ${wk.contractedHours} contracted`}>
         <Body bold>{isThisWeek ? 'This week' : `Week of ${plainLongDay(wk.start)}`}</Body>
@@ -90,7 +92,7 @@ export function MyShiftsScreen() {
         <View style={[styles.section, wide && styles.column]}>
           <Heading level={2}>Month</Heading>
           <View style={styles.calendar} testID="shift-calendar">
-            <Calendar
+            <MonthCalendar
               testID="month-calendar"
               firstDay={1}
               current={selected ?? upcoming[0]?.startsLocal.slice(0, 10) ?? data.today}

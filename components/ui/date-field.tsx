@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, Text, TextInput, View } from 'react-native';
-import { Calendar } from 'react-native-calendars';
+import { MonthCalendar } from '@/components/ui/month-calendar';
 import { calendarTheme, colors, fonts, radius, space } from '@/constants/theme';
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
@@ -56,7 +56,7 @@ export function DateField({ label, value, onChange, error, minDate, maxDate, dis
       </View>
       {open ? (
         <View style={styles.calendar} testID={testID ? `${testID}-calendar` : undefined}>
-          <Calendar
+          <MonthCalendar
             firstDay={1}
             current={valid ? value : (minDate ?? undefined)}
             minDate={minDate}

@@ -19,8 +19,15 @@ export class ApiError extends Error {
   }
 }
 
+type ApiInit = { method?: string; body?: unknown; signal?: AbortSignal };
+
 /** Same-origin JSON calls to `/api`, with the session cookie and errors turned into ApiError. */
-export async function apiFetch<T>(path: string, init: { method?: string; body?: unknown; signal?: AbortSignal } = {}): Promise<T> {
+export async function apiFetch<T>(path: string, init: ApiInit = {}): Promise<T> {
+  return (await apiRequest<T>(path, init)).data;
+}
+
+/** apiFetch with the answer's headers, for the few callers that read one (the offline copy's date). */
+export async function apiRequest<T>(path: string, init: ApiInit = {}): Promise<{ data: T; headers: Headers }> {
   let res: Response;
   try {
     res = await fetch(`/api${path}`, {
@@ -40,7 +47,7 @@ export async function apiFetch<T>(path: string, init: { method?: string; body?: 
     const error = (data as { error?: { code?: string; message?: string; fields?: ApiFieldError[] } } | undefined)?.error;
     throw new ApiError(res.status, error?.code ?? 'unknown', error?.message ?? `The server answered ${res.status}`, error?.fields ?? []);
   }
-  return data as T;
+  return { data: data as T, headers: res.headers };
 }
 
 function safeJson(text: string): unknown {

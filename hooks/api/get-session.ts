@@ -1,4 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
+import { keepOfflineCopiesFor } from '@/hooks/offline/offline-copies';
 import { apiFetch, ApiError } from './api-client';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
@@ -19,13 +20,17 @@ export interface Session {
  * is treated the same way.
  */
 export async function getSession(): Promise<Session | null> {
+  let session: Session | null;
   try {
-    const session = await apiFetch<Session | { user: null }>('/auth/session');
-    return session.user ? (session as Session) : null;
+    const answer = await apiFetch<Session | { user: null }>('/auth/session');
+    session = answer.user ? (answer as Session) : null;
   } catch (err) {
-    if (err instanceof ApiError && err.status === 401) return null;
-    throw err;
+    if (!(err instanceof ApiError && err.status === 401)) throw err;
+    session = null;
   }
+  // Someone else signed in here (Google's redirect, an expired session): the old copies go first.
+  await keepOfflineCopiesFor(session);
+  return session;
 }
 
 export const sessionQueryOptions = () => queryOptions({ queryKey: ['session'], queryFn: getSession, staleTime: 60_000 });

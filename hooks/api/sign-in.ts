@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { SignInInput } from '@/shared/auth/schemas';
+import { keepOfflineCopiesFor } from '@/hooks/offline/offline-copies';
 import { apiFetch } from './api-client';
 import { sessionQueryOptions, type Session } from './get-session';
 
@@ -9,6 +10,9 @@ export function useSignIn() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: signIn,
-    onSuccess: (session) => queryClient.setQueryData(sessionQueryOptions().queryKey, session),
+    onSuccess: (session) => {
+      queryClient.setQueryData(sessionQueryOptions().queryKey, session);
+      void keepOfflineCopiesFor(session);
+    },
   });
 }

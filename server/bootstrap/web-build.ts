@@ -2,9 +2,10 @@ import { createHash } from 'node:crypto';
 import { spawn } from 'node:child_process';
 import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { finishWebBuild } from './web-finish';
 
 /** Everything the web bundle is made from; a change in any of them means a rebuild. */
-const INPUTS = ['app', 'components', 'constants', 'hooks', 'shared', 'fonts', 'assets', 'app.json', 'package-lock.json', 'tsconfig.json', 'metro.config.cjs'];
+const INPUTS = ['app', 'components', 'constants', 'hooks', 'shared', 'fonts', 'assets', 'public', 'server/bootstrap/web-finish.ts', 'app.json', 'package-lock.json', 'tsconfig.json', 'metro.config.cjs'];
 const STAMP = '.rotaloom-build-hash';
 
 function hashInputs(rootDir: string): string {
@@ -22,7 +23,10 @@ function hashInputs(rootDir: string): string {
   return hash.digest('hex');
 }
 
-/** Runs `expo export -p web` into dist/ unless the last build was made from the same sources. */
+/**
+ * Runs `expo export -p web` into dist/, then the steps after it (fonts in index.html, the service
+ * worker), unless the last build was made from the same sources.
+ */
 export async function buildWebIfChanged(rootDir: string, outDir = path.join(rootDir, 'dist')): Promise<'built' | 'up to date'> {
   const hash = hashInputs(rootDir);
   const stampFile = path.join(outDir, STAMP);
@@ -42,6 +46,7 @@ export async function buildWebIfChanged(rootDir: string, outDir = path.join(root
     child.stderr.on('data', (d) => (output += d));
     child.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`expo export failed (exit ${code}):\n${output.slice(-4000)}`))));
   });
+  await finishWebBuild(outDir);
   writeFileSync(stampFile, hash);
   console.log(`[web] built in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   return 'built';

@@ -1,6 +1,7 @@
 import express, { Router } from 'express';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import { HASHED_FILE } from './hashed';
 
 /**
  * Serves the exported web app. The export is a single-page app, so any GET that is not a file
@@ -22,15 +23,12 @@ export function webRouter(webDir: string): Router {
   return router;
 }
 
-/** A content hash in the file name (Expo's export names bundles and assets that way): `entry-3f2a9c…e1.js`, `font.9b8c…47.ttf`. */
-const HASHED = /[.-][0-9a-f]{16,}\.[a-z0-9]+$/i;
-
 /**
  * Hashed build files never change under their name, so browsers may keep them a year without
  * asking; everything else (HTML, the manifest, unhashed files) is revalidated on each use.
  */
 export function cacheControlFor(filePath: string): string {
-  return HASHED.test(path.basename(filePath)) ? 'public, max-age=31536000, immutable' : 'no-cache';
+  return HASHED_FILE.test(path.basename(filePath)) ? 'public, max-age=31536000, immutable' : 'no-cache';
 }
 
 function cacheHeaders(res: express.Response, filePath: string): void {
