@@ -20,7 +20,8 @@
  * person on the shifts overlapping interval j (CompileContext.auxChoice). Soft adds a value
  * "no rest" scoring −weight. bestAux picks a free interval when there is one.
  */
-import { dayStartMs, formatHours, instantLabel, rollingWindows } from './weekly-rest-time';
+import { dayStartMs, formatHours, rollingWindows } from './weekly-rest-time';
+import { describeShift } from '../../../shared/roster/derive';
 import { defineRule, type AuxChoice } from './types';
 
 export const weeklyRest = defineRule({
@@ -38,15 +39,18 @@ export const weeklyRest = defineRule({
       roster.people.forEach((person, p) => {
         const mine = inWindow.filter((f) => ctx.seatsOfShift[f.index].some((s) => ctx.valueAt(s, p) >= 0));
         if (!mine.length) return;
-        const starts = [ws, ...mine.map((f) => f.endMs).filter((e) => e >= ws && e + H <= we)];
-        const cands = [...new Set(starts)].sort((a, b) => a - b).map((c) => ({ c, block: mine.filter((f) => f.startMs < c + H && f.endMs > c).map((f) => f.index) }));
+        // candidate starts: the window's start, or the end of a shift (named by that shift: formatting
+        // instants in the zone for thousands of labels was a fifth of the demo's compile time)
+        const byStart = new Map<number, string>([[ws, `rest from the start of day ${w.first + 1}`]]);
+        for (const f of mine) if (f.endMs >= ws && f.endMs + H <= we && !byStart.has(f.endMs)) byStart.set(f.endMs, `rest after ${describeShift(f)}`);
+        const cands = [...byStart.keys()].sort((a, b) => a - b).map((c) => ({ c, label: byStart.get(c)!, block: mine.filter((f) => f.startMs < c + H && f.endMs > c).map((f) => f.index) }));
         if (cands.some((k) => k.block.length === 0)) return; // some rest the person always keeps
         const subset = (a: number[], b: number[]) => a.every((x) => b.includes(x));
         const kept = cands.filter((j, jj) => !cands.some((k, kk) => kk !== jj && subset(k.block, j.block) && (k.block.length < j.block.length || kk < jj)));
         const choices: AuxChoice[] = kept.map((k) => ({
           seats: k.block.flatMap((sh) => ctx.seatsOfShift[sh]),
           score: 0,
-          label: `rest from ${instantLabel(k.c, roster.period.timeZone)}`,
+          label: k.label,
         }));
         if (!r.hard) choices.push({ seats: [], score: -r.weight, label: 'no weekly rest' });
         ctx.auxChoice('weeklyRest', `${person.id}:${w.first}`, `weekly rest for ${person.name} from day ${w.first + 1}`, p, w.first, w.last, choices);
