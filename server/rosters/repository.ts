@@ -304,15 +304,21 @@ export async function createWish(
   if (body.shiftId && !(await ShiftRow.findOne({ where: { id: body.shiftId, workspaceId, rosterId } }))) {
     throw new HttpError(422, 'unprocessable', 'Unknown shift', [{ path: 'body.shiftId', message: 'not a shift of this roster' }]);
   }
-  const w = await WishRow.create({ workspaceId, rosterId, personId: body.personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: body.strength, note: body.note ?? null, enteredByUserId });
-  await touchRoster(workspaceId, rosterId);
+  // the roster row first, as every content change: a bare version bump beside a running shift edit deadlocked
+  const w = await changeRoster(workspaceId, rosterId, async (transaction) => {
+    const row = await WishRow.create({ workspaceId, rosterId, personId: body.personId, date: body.date ?? null, shiftId: body.shiftId ?? null, kind: body.kind, strength: body.strength, note: body.note ?? null, enteredByUserId }, { transaction });
+    await touchRoster(workspaceId, rosterId, transaction);
+    return row;
+  });
   return { id: w.id, personId: w.personId, date: w.date ?? null, shiftId: w.shiftId ?? null, kind: w.kind, strength: w.strength, note: w.note ?? null };
 }
 
 export async function deleteWish(workspaceId: number, rosterId: number, id: number): Promise<void> {
-  const count = await WishRow.destroy({ where: { id, workspaceId, rosterId } });
-  if (count === 0) throw notFound('Wish');
-  await touchRoster(workspaceId, rosterId);
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
+    const count = await WishRow.destroy({ where: { id, workspaceId, rosterId }, transaction });
+    if (count === 0) throw notFound('Wish');
+    await touchRoster(workspaceId, rosterId, transaction);
+  });
 }
 
 // ---- pins ----

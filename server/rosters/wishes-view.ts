@@ -1,7 +1,7 @@
 import { Person, User } from '../db/models';
 import { HttpError, notFound } from '../http/errors';
 import { WishRow } from './models';
-import { findRoster, touchRoster } from './repository';
+import { findRoster, touchRoster, changeRoster } from './repository';
 import type { CoordinatorWishDto, WishesViewDto } from '../../shared/api/rosters';
 
 const toDto = (w: WishRow, names: Map<number, string>): CoordinatorWishDto => ({
@@ -57,7 +57,9 @@ export async function updateWish(
   if (body.strength !== undefined) w.strength = body.strength;
   if (body.note !== undefined) w.note = body.note?.trim() ? body.note.trim() : null;
   w.enteredByUserId = enteredByUserId;
-  await w.save();
-  await touchRoster(workspaceId, rosterId);
+  await changeRoster(workspaceId, rosterId, async (transaction) => {
+    await w.save({ transaction });
+    await touchRoster(workspaceId, rosterId, transaction);
+  });
   return toDto(w, await enteredByNames([w]));
 }
