@@ -106,7 +106,7 @@ describe('column generation bound ≥ the optimum (brute force over rosters, sco
 });
 
 describe('the score grid and the ideal', () => {
-  it('grid: the greedy roster and the brute-force optimum (scoreRoster) lie on it', () => {
+  it('grid: the greedy roster and the brute-force optimum (scoreRoster) lie on it', { timeout: 180_000 }, () => {
     for (const seed of [1, 2, 4, 5]) {
       const r = smallRoster(seed);
       const c = compileRoster(r);
@@ -123,7 +123,7 @@ describe('the score grid and the ideal', () => {
     }
   });
 
-  it('concessions per term = ideal − scoreRoster terms, each ≥ 0, summing to ideal − score', () => {
+  it('concessions per term = ideal − scoreRoster terms, each ≥ 0, summing to ideal − score', { timeout: 180_000 }, () => {
     for (const seed of [1, 2, 3]) {
       const r = smallRoster(seed);
       const c = compileRoster(r);
