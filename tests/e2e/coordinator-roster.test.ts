@@ -102,7 +102,7 @@ describe.each([
       await old.click(); // closes the panel
     }
     let seatId: string | null = null;
-    for (let i = 0; i < Math.min(8, await chips.count()) && seatId === null; i++) {
+    for (let i = 0; i < Math.min(16, await chips.count()) && seatId === null; i++) {
       const chip = chips.nth(i);
       if ((await chip.textContent())!.includes('· pinned') || (oldShift !== null && (await shiftOf(chip)) === oldShift)) continue;
       await chip.scrollIntoViewIfNeeded();
