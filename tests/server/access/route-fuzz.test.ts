@@ -30,6 +30,29 @@ const ANSWER_WITHIN_MS = 10_000;
  * unknown token, so a calendar program (not our client) learns nothing (tests/server/staff/feed.test.ts).
  */
 const EMPTY_ERROR_OK = new Set(['get /api/feeds/:token.ics']);
+/** Routes whose success is a server-sent event stream that stays open (RFC 8895 text/event-stream): judged by status and headers. */
+const STREAMS = new Set(['get /api/runs/:id/events']);
+/** Reads a stream's first chunk and stops; other answers whole, JSON parsed when they are JSON. */
+const firstChunkOrWhole = (res: NodeJS.ReadableStream & { headers: Record<string, string> }, done: (err: Error | null, body: unknown) => void) => {
+  let text = '';
+  const stream = /text\/event-stream/.test(res.headers['content-type'] ?? '');
+  res.setEncoding('utf8');
+  res.on('data', (chunk: string) => {
+    text += chunk;
+    if (stream) {
+      (res as unknown as { destroy(): void }).destroy();
+      done(null, { stream: text });
+    }
+  });
+  res.on('end', () => {
+    if (stream) return;
+    try {
+      done(null, text ? JSON.parse(text) : {});
+    } catch {
+      done(null, text);
+    }
+  });
+};
 
 const admits = (route: RouteSpec, who: Who) => route.access === 'public' || (who !== 'signed out' && (route.access === 'signed-in' || route.access.includes(who)));
 
@@ -204,6 +227,7 @@ describe('route fuzz: no 5xx and only the JSON error shape, for every route, rol
               else req = req.set('Content-Type', 'application/json').send(JSON.stringify(json ?? null));
             }
             // A request that never answers is a finding too (a dependency that stalls must time out), not a hung test.
+            if (STREAMS.has(`${route.method} ${route.path}`)) req = req.buffer(true).parse(firstChunkOrWhole as never);
             const res = await req.ok(() => true).timeout(ANSWER_WITHIN_MS).catch((err: { timeout?: number }) => {
               if (err?.timeout === undefined) throw err;
               return null;
