@@ -1,19 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { launch, openPage, PHONE, screenshot, signIn, WIDE } from './helpers/browser';
-import { api, makeRoster, removePersonAndRoster } from './helpers/api';
-
-/** Waits for a run started through the API to finish (the worker process solves it). */
-async function solved(page: Page, rosterId: number): Promise<number> {
-  const run = await api<{ id: number }>(page, 'POST', `/rosters/${rosterId}/runs`, { timeLimitSeconds: 2 });
-  for (let i = 0; i < 240; i++) {
-    const r = await api<{ status: string }>(page, 'GET', `/runs/${run.id}`);
-    if (r.status === 'done') return run.id;
-    if (r.status === 'failed' || r.status === 'cancelled') throw new Error(`run ${run.id} ${r.status}`);
-    await page.waitForTimeout(500);
-  }
-  throw new Error(`run ${run.id} did not finish`);
-}
+import { api, makeRoster, removePersonAndRoster, solveThroughApi } from './helpers/api';
 
 const inView = async (page: Page, testId: string, viewport: { width: number; height: number }) => {
   const box = await page.getByTestId(testId).boundingBox();
@@ -103,7 +91,7 @@ describe.each([
     await staffPage.close();
 
     // ---- Edit: move someone with the score in view; holder left out, those working that day apart ----
-    const runId = await solved(page, roster.id);
+    const { id: runId } = await solveThroughApi(page, roster.id);
     await page.reload();
     await page.getByTestId('section-edit').click();
     const seats = page.locator('[data-testid^="edit-seat-"]');

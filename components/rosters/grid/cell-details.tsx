@@ -92,9 +92,10 @@ function MoveHere({ roster, run, assignment, seat, people, model, onSaved }: { r
       {working.length ? (
         <>
           <Body muted style={{ fontSize: 13 }}>Already working that day:</Body>
-          <View style={styles.chips}>
+          {/* The group's name tells screen readers; the buttons keep to the name so they fit a phone. */}
+          <View style={styles.chips} role="group" aria-label="Already working that day">
             {working.map((p) => (
-              <Button key={p.id} kind="quiet" label={`${p.name} (works that day)`} onPress={() => setWho(p.id)} testID={`grid-move-${p.id}`} />
+              <Button key={p.id} kind="quiet" label={p.name} onPress={() => setWho(p.id)} testID={`grid-move-${p.id}`} />
             ))}
           </View>
         </>

@@ -9,10 +9,12 @@ export interface GridSizes {
   name: number;
   day: number;
   total: number;
+  /** Row height; print rows are shorter so a week of a ward's staff fits one A4 sheet. */
+  row?: number;
 }
 export const PHONE_SIZES: GridSizes = { name: 86, day: 38, total: 54 };
 export const WIDE_SIZES: GridSizes = { name: 156, day: 44, total: 62 };
-export const PRINT_SIZES: GridSizes = { name: 120, day: 60, total: 52 };
+export const PRINT_SIZES: GridSizes = { name: 150, day: 90, total: 52, row: 24 };
 
 const localDate = (s: string) => new Date(Number(s.slice(0, 4)), Number(s.slice(5, 7)) - 1, Number(s.slice(8, 10)), 12);
 export const absenceWords = (kind: string) => ABSENCE_KIND_WORDS[kind as keyof typeof ABSENCE_KIND_WORDS] ?? kind;
@@ -35,6 +37,7 @@ interface GridTableProps {
 /** The table itself: a header of days, a row per person with totals at its end, the seats filled at the foot. */
 export function GridTable({ model, days, rows, sizes, skillName, print, selected, onCellPress, onCellHover }: GridTableProps) {
   const width = sizes.name + days.length * sizes.day + 4 * sizes.total;
+  const rowH = sizes.row ?? CELL_H;
   const top = print ? null : stickyTop;
   const left = print ? null : stickyLeft;
   const corner = print ? null : stickyCorner;
@@ -58,16 +61,16 @@ export function GridTable({ model, days, rows, sizes, skillName, print, selected
       </View>
       {rows.map((row) => (
         <View key={row.person.id} style={[styles.row, { width }]} role="row" testID={print ? undefined : `grid-row-${row.person.id}`}>
-          <View style={[styles.nameCell, { width: sizes.name }, left, row.rowBreaches.length > 0 && styles.nameBreach]} role="rowheader">
-            <Text style={styles.name} numberOfLines={2}>{row.person.name}</Text>
-            {row.rowBreaches.length > 0 ? <Text style={styles.nameNote} numberOfLines={1}>{`! ${row.rowBreaches.length} rule${row.rowBreaches.length === 1 ? '' : 's'}`}</Text> : null}
+          <View style={[styles.nameCell, { width: sizes.name, minHeight: rowH }, print && styles.nameCellPrint, left, row.rowBreaches.length > 0 && styles.nameBreach]} role="rowheader">
+            <Text style={[styles.name, print && { flexShrink: 1 }]} numberOfLines={print ? 1 : 2}>{row.person.name}</Text>
+            {row.rowBreaches.length > 0 ? <Text style={styles.nameNote} numberOfLines={1}>{print ? ` !${row.rowBreaches.length}` : `! ${row.rowBreaches.length} rule${row.rowBreaches.length === 1 ? '' : 's'}`}</Text> : null}
           </View>
           {days.map((d) => {
             const cell = row.cells.get(d)!;
             const on = selected?.personId === row.person.id && selected.day === d;
             const words = cellWords(row, cell, { day: format(localDate(d), 'EEEE d MMMM'), skillName, absenceWords });
             const body = <CellBody cell={cell} sizes={sizes} />;
-            const style = [styles.cell, { width: sizes.day }, isWeekend(d) && styles.weekend, cell.breaches.length > 0 && styles.cellBreach, on && styles.cellOn];
+            const style = [styles.cell, { width: sizes.day, minHeight: rowH }, print && styles.cellPrint, isWeekend(d) && styles.weekend, cell.breaches.length > 0 && styles.cellBreach, on && styles.cellOn];
             return print ? (
               <View key={d} style={style}>{body}</View>
             ) : (
@@ -115,7 +118,7 @@ const footWords = (entries: FootEntry[], day: string) =>
 
 function Total({ text, label, sizes, tone = 'plain' }: { text: string; label: string; sizes: GridSizes; tone?: 'plain' | 'warn' }) {
   return (
-    <View style={[styles.cell, styles.totalCell, { width: sizes.total }]} role="cell" accessibilityLabel={label} aria-label={label}>
+    <View style={[styles.cell, styles.totalCell, { width: sizes.total, minHeight: sizes.row ?? CELL_H }]} role="cell" accessibilityLabel={label} aria-label={label}>
       <Text style={[styles.totalText, tone === 'warn' && { color: gridColors.missed }]} numberOfLines={1}>{text}</Text>
     </View>
   );
@@ -160,6 +163,9 @@ const styles = StyleSheet.create({
   headDay: { fontFamily: fonts.body, fontSize: 11, color: colors.inkSoft },
   headText: { fontFamily: fonts.bodyBold, fontSize: 12, color: colors.ink },
   nameCell: { paddingHorizontal: space.xs, justifyContent: 'center', alignItems: 'flex-start', backgroundColor: colors.card, borderRightWidth: 1, borderBottomWidth: 1, borderColor: colors.line, minHeight: CELL_H },
+  // Print rows are one line high: the name and its breach count side by side, two shifts side by side.
+  nameCellPrint: { flexDirection: 'row', alignItems: 'center', justifyContent: 'flex-start' },
+  cellPrint: { flexDirection: 'row', paddingVertical: 1 },
   nameBreach: { borderLeftWidth: 3, borderLeftColor: gridColors.breach },
   name: { fontFamily: fonts.bodyBold, fontSize: 12, lineHeight: 15, color: colors.ink },
   nameNote: { fontFamily: fonts.body, fontSize: 11, color: gridColors.breach },

@@ -16,16 +16,17 @@ import { GridLegend } from './grid-legend';
 const { createPortal } = require('react-dom') as { createPortal: (node: ReactNode, container: Element) => ReactNode };
 
 /**
- * On screen the sheet is not shown; in print only the sheet is (everything else hidden), A4
+ * On screen the sheet is not shown; in print only the sheet is (everything else out of the flow), A4
  * landscape, a page per week or fortnight, each with the legend and the working-time caution.
  */
 const PRINT_CSS = `
 @media screen { #rotaloom-print { display: none; } }
 @media print {
   @page { size: A4 landscape; margin: 8mm; }
-  body * { visibility: hidden; }
-  #rotaloom-print, #rotaloom-print * { visibility: visible; }
-  #rotaloom-print { position: absolute; left: 0; top: 0; width: 100%; }
+  html, body { height: auto !important; overflow: visible !important; }
+  /* The app itself leaves the flow entirely: hidden but laid out, it would print as blank pages. */
+  body > *:not(#rotaloom-print) { display: none !important; }
+  #rotaloom-print { position: static; width: 100%; }
   #rotaloom-print .rotaloom-page { break-after: page; page-break-after: always; }
   #rotaloom-print .rotaloom-page:last-child { break-after: auto; page-break-after: auto; }
   * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
@@ -66,20 +67,27 @@ export function PrintButton({ roster, run, model, skillName }: { roster: RosterD
   );
 }
 
+/** Rows of 24 px under the title, header, foot, legend and caution of an A4 landscape sheet (733 px tall at 8 mm margins). */
+const ROWS_PER_SHEET = 20;
+
 export function PrintSheet({ roster, run, model, skillName, span }: { roster: RosterDto; run: RunDetail; model: GridModel; skillName: (id: number | null) => string; span: number }) {
-  const pages: string[][] = [];
-  for (let i = 0; i < model.days.length; i += span) pages.push(model.days.slice(i, i + span));
   const rows = [...model.rows].filter((r) => r.hours > 0 || [...r.cells.values()].some((c) => c.seats.length || c.absence)).sort((a, b) => a.person.name.localeCompare(b.person.name));
+  // A sheet per week (or fortnight); a staff list longer than one A4 sheet holds continues on the
+  // next sheets for the same days, as the server's PDF does.
+  const pages: Array<{ days: string[]; rows: typeof rows }> = [];
+  for (let i = 0; i < model.days.length; i += span) {
+    for (let j = 0; j < Math.max(1, rows.length); j += ROWS_PER_SHEET) pages.push({ days: model.days.slice(i, i + span), rows: rows.slice(j, j + ROWS_PER_SHEET) });
+  }
   const sizes = span > 7 ? { ...PRINT_SIZES, day: 52, name: 110 } : PRINT_SIZES;
   return (
     <View nativeID="rotaloom-print" testID="print-sheet">
-      {pages.map((days, i) => (
+      {pages.map(({ days, rows: sheetRows }, i) => (
         <View key={i} style={styles.page}>
           {/* react-native-web has no className prop; PageClass sets the page-break class through a ref. */}
           <PageClass />
           <Text style={styles.title}>{`${roster.name} · ${periodWords(days[0], days[days.length - 1])}`}</Text>
           <Text style={styles.sub}>{`${runName(run)}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
-          <GridTable model={model} days={days} rows={rows} sizes={sizes} skillName={skillName} print />
+          <GridTable model={model} days={days} rows={sheetRows} sizes={sizes} skillName={skillName} print />
           <GridLegend compact />
           <Text style={styles.caution}>{WORKING_TIME_CAUTION}</Text>
         </View>
