@@ -1,3 +1,4 @@
+import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -6,7 +7,12 @@ export interface KeptMessage {
   id: number;
   from: string;
   to: string[];
+  /** Decoded by mailparser (RFC 2047 words, charsets, quoted-printable, base64, multipart). */
   subject: string;
+  /** The To header as written, decoded; the envelope's recipients are in `to`. */
+  toHeader: string;
+  text: string;
+  html: string;
   receivedAt: string;
   raw: string;
 }
@@ -16,13 +22,6 @@ export interface MailFake {
   httpPort: number;
   messages: KeptMessage[];
   stop(): Promise<void>;
-}
-
-function header(raw: string, name: string): string {
-  const head = raw.split(/\r?\n\r?\n/)[0] ?? '';
-  // Folded header lines continue with whitespace.
-  const match = new RegExp(`^${name}:\\s*((?:.*)(?:\\r?\\n[ \\t].*)*)`, 'im').exec(head);
-  return match ? match[1].replace(/\r?\n[ \t]+/g, ' ').trim() : '';
 }
 
 /**
@@ -39,16 +38,25 @@ export async function startMailFake(options: { smtpPort?: number; httpPort?: num
       const chunks: Buffer[] = [];
       stream.on('data', (c: Buffer) => chunks.push(c));
       stream.on('end', () => {
-        const raw = Buffer.concat(chunks).toString('utf8');
-        messages.unshift({
-          id: messages.length + 1,
-          from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
-          to: session.envelope.rcptTo.map((r) => r.address),
-          subject: header(raw, 'Subject'),
-          receivedAt: new Date().toISOString(),
-          raw,
-        });
-        callback();
+        const rawBytes = Buffer.concat(chunks);
+        simpleParser(rawBytes).then(
+          (mail) => {
+            messages.unshift({
+              id: messages.length + 1,
+              from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
+              to: session.envelope.rcptTo.map((r) => r.address),
+              subject: mail.subject ?? '',
+              toHeader: mail.to ? [mail.to].flat().map((a) => a.text).join(', ') : '',
+              text: mail.text ?? '',
+              html: typeof mail.html === 'string' ? mail.html : '',
+              receivedAt: new Date().toISOString(),
+              raw: rawBytes.toString('utf8'),
+            });
+            callback();
+          },
+          // A message mailparser cannot read is refused, as a real server would, not kept half-read.
+          (err: Error) => callback(Object.assign(new Error(`unreadable message: ${err.message}`), { responseCode: 554 })),
+        );
       });
     },
   });

@@ -1,12 +1,28 @@
 import { Router } from 'express';
 import type { Env } from '../env';
 import type { Mailer } from '../mail/mailer';
-import { decodeMail, type DecodedMail } from './mime';
 
-interface ListedMail extends DecodedMail {
+interface ListedMail {
   id: number;
   receivedAt: string;
+  subject: string;
+  to: string;
+  text: string;
+  html: string;
+  links: string[];
 }
+
+/** What the SMTP fake's `GET /messages` answers: each message already read by mailparser. */
+interface FakeMessage {
+  id: number;
+  receivedAt: string;
+  subject: string;
+  toHeader: string;
+  text: string;
+  html: string;
+}
+
+const linksIn = (text: string) => [...new Set(text.match(/https?:\/\/[^\s<>"]+/g) ?? [])];
 
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
 
@@ -15,11 +31,11 @@ async function loadMessages(env: Env, mailer: Mailer): Promise<ListedMail[]> {
   if (env.mail.fakeUrl) {
     const res = await fetch(`${env.mail.fakeUrl.replace(/\/$/, '')}/messages`);
     if (!res.ok) throw new Error(`The mail fake answered ${res.status}`);
-    const kept = (await res.json()) as Array<{ id: number; raw: string; receivedAt: string }>;
-    return kept.map((m) => ({ id: m.id, receivedAt: m.receivedAt, ...decodeMail(m.raw) }));
+    const kept = (await res.json()) as FakeMessage[];
+    return kept.map((m) => ({ id: m.id, receivedAt: m.receivedAt, subject: m.subject, to: m.toHeader, text: m.text, html: m.html, links: linksIn(m.text) }));
   }
   return mailer.outbox
-    .map((m, i) => ({ id: i + 1, receivedAt: '', subject: m.subject, to: m.to, text: m.text, html: m.html, links: [...new Set(m.text.match(/https?:\/\/[^\s<>"]+/g) ?? [])] }))
+    .map((m, i) => ({ id: i + 1, receivedAt: '', subject: m.subject, to: m.to, text: m.text, html: m.html, links: linksIn(m.text) }))
     .reverse();
 }
 
