@@ -3,8 +3,7 @@ import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
 import { pairingBody, updatePairingBody } from '../../shared/api/rosters';
 import { pairingsListQuery } from '../../shared/api/pairings';
-import { createPairing, deletePairing, updatePairing } from '../rosters/repository';
-import { listPairings } from './repository';
+import { createPairing, deletePairing, listPairings, updatePairing } from './repository';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 

@@ -9,7 +9,7 @@ import type { Page } from '../../shared/api/paging';
 import type { RosterDto, ShiftDto } from '../../shared/api/rosters';
 
 export type { RosterDto, ShiftDto };
-import { PairingRow, PinRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
+import { PinRow, Roster, SeatRow, ShiftPatternRow, ShiftRow, WishRow } from './models';
 import { requireSeatRoom } from './seat-bounds';
 
 
@@ -107,7 +107,10 @@ export async function getRules(workspaceId: number, rosterId: number): Promise<{
 }
 
 export async function putRules(workspaceId: number, rosterId: number, rules: RuleSet, version: number): Promise<{ rules: RuleSet; version: number }> {
-  await updateVersioned(Roster, { id: rosterId, workspaceId }, version, { rules }, 'Roster');
+  // New rules make the last result out of date, as any other roster edit does (touchRoster); the
+  // version check makes the status read and the write one step.
+  const roster = await findRoster(workspaceId, rosterId);
+  await updateVersioned(Roster, { id: rosterId, workspaceId }, version, { rules, ...(roster.status === 'solved' ? { status: 'draft' } : {}) }, 'Roster');
   return getRules(workspaceId, rosterId);
 }
 
@@ -357,48 +360,4 @@ export async function deletePin(workspaceId: number, rosterId: number, seatId: n
     if (count === 0) throw notFound('Pin');
     await touchRoster(workspaceId, rosterId, transaction);
   });
-}
-
-// ---- pairings (workspace-wide) ----
-
-export const toPairingDto = (p: PairingRow) => ({
-  id: p.id,
-  personAId: p.personAId,
-  personBId: p.personBId,
-  score: p.score,
-  neverTogether: p.neverTogether,
-  status: p.status,
-  reason: p.reason ?? null,
-  version: p.version,
-});
-
-export async function listPairings(workspaceId: number) {
-  const rows = await PairingRow.findAll({ where: { workspaceId }, order: [['id', 'ASC']] });
-  return rows.map(toPairingDto);
-}
-
-export async function createPairing(workspaceId: number, body: { personAId: number; personBId: number; score: number; neverTogether: boolean; reason?: string | null }) {
-  const [a, b] = body.personAId < body.personBId ? [body.personAId, body.personBId] : [body.personBId, body.personAId];
-  const found = await Person.findAll({ where: { workspaceId, id: [a, b], archivedAt: null }, attributes: ['id'] });
-  for (const [field, id] of [['personAId', body.personAId], ['personBId', body.personBId]] as const) {
-    if (!found.some((p) => p.id === id)) throw new HttpError(422, 'unprocessable', 'Unknown person', [{ path: `body.${field}`, message: 'unknown person' }]);
-  }
-  const exists = () => new HttpError(409, 'conflict', 'These two people already have a pairing; edit it instead', [{ path: 'body.personBId', message: 'pairing exists' }]);
-  if (await PairingRow.findOne({ where: { workspaceId, personAId: a, personBId: b } })) throw exists();
-  // Two creates at once both pass the check; the unique index (workspace, a, b) decides, and the loser hears 409.
-  const row = await PairingRow.create({ workspaceId, personAId: a, personBId: b, score: body.score, neverTogether: body.neverTogether, reason: body.reason ?? null }).catch((err: unknown) => {
-    throw err instanceof UniqueConstraintError ? exists() : err;
-  });
-  return toPairingDto(row);
-}
-
-export async function updatePairing(workspaceId: number, id: number, body: { version: number; score?: number; neverTogether?: boolean; status?: 'approved' | 'requested' | 'declined' }) {
-  const { version, ...changes } = body;
-  await updateVersioned(PairingRow, { id, workspaceId }, version, changes, 'Pairing');
-  return toPairingDto((await PairingRow.findOne({ where: { id, workspaceId } }))!);
-}
-
-export async function deletePairing(workspaceId: number, id: number): Promise<void> {
-  const count = await PairingRow.destroy({ where: { id, workspaceId } });
-  if (count === 0) throw notFound('Pairing');
 }

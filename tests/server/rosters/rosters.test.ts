@@ -4,6 +4,7 @@ import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp, makeWorkspace, signedIn } from '../auth/helpers';
 import type { Workspace } from '../../../server/db/models';
+import { Roster } from '../../../server/rosters/models';
 import { makeApiRoster } from './fixtures';
 
 describe('rosters, shift patterns, shifts, wishes and pairings API', () => {
@@ -79,6 +80,21 @@ describe('rosters, shift patterns, shifts, wishes and pairings API', () => {
     const res = await coordinator.post(url).send(body);
     expect(res.status).toBe(400);
     expect(res.body.error.fields.map((f: { path: string }) => f.path)).toContain(field);
+  });
+
+  it('puts a solved roster back to draft when its rules change, as a shift edit does', async () => {
+    const { roster } = await makeApiRoster(coordinator, workspace);
+    // What the worker writes when a run finishes.
+    await Roster.update({ status: 'solved' }, { where: { id: roster.id } });
+    const rules = (await coordinator.get(`/api/rosters/${roster.id}/rules`)).body;
+    const put = await coordinator.put(`/api/rosters/${roster.id}/rules`).send({ version: rules.version, rules: { ...rules.rules, coverage: { ...rules.rules.coverage, weight: rules.rules.coverage.weight + 1 } } });
+    expect(put.status).toBe(200);
+    expect((await coordinator.get(`/api/rosters/${roster.id}`)).body.status).toBe('draft');
+
+    await Roster.update({ status: 'solved' }, { where: { id: roster.id } });
+    const shifts = (await coordinator.get(`/api/rosters/${roster.id}/shifts`)).body.items;
+    expect((await coordinator.patch(`/api/rosters/${roster.id}/shifts/${shifts[0].id}`).send({ version: shifts[0].version, label: 'early' })).status).toBe(200);
+    expect((await coordinator.get(`/api/rosters/${roster.id}`)).body.status).toBe('draft');
   });
 
   it('rejects a shift that ends before it starts, and one outside the period', async () => {
