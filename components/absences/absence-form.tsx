@@ -12,7 +12,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
 import { Choices } from '@/components/rosters/parts';
 

@@ -14,7 +14,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { AuthPage } from './auth-page';
 import { GoogleButton } from './google-button';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 const roleWords = { admin: 'an admin', coordinator: 'a coordinator', staff: 'a staff member' } as const;
 

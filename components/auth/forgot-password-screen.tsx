@@ -7,7 +7,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { AuthPage } from './auth-page';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 export function ForgotPasswordScreen() {
   const forgot = useForgotPassword();

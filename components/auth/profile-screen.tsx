@@ -13,7 +13,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from './section';
 import { WorkspaceSwitcher } from './workspace-switcher';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 /** The signed-in person's own account: name, e-mail, password, and their workspaces. */
 export function ProfileScreen() {

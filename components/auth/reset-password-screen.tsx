@@ -10,7 +10,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { AuthPage } from './auth-page';
 import { TextLink } from './text-link';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 /** Opened from the e-mailed link: choose a new password, then straight in. */
 export function ResetPasswordScreen() {

@@ -9,7 +9,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { AuthPage } from './auth-page';
 import { GoogleButton } from './google-button';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 const FIELDS = ['displayName', 'email', 'password', 'workspaceName'];
 

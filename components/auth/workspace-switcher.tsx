@@ -9,7 +9,7 @@ import { useCreateWorkspace } from '@/hooks/api/create-workspace';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
-import { checkForm, fieldError, formError, type FieldErrors } from './form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 /** The user's workspaces with their role in each; choosing one switches every screen to it. */
 export function WorkspaceSwitcher() {

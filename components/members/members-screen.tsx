@@ -15,7 +15,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { RolePicker } from './role-picker';
 import { PersonPicker } from './person-picker';
 import { useLinkMemberPerson } from '@/hooks/api/link-member-person';

@@ -13,7 +13,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { checkForm, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { Chip, CoordinatorsOnly, Tag } from '@/components/people/parts';
 import { PersonPicker, type PickedPerson } from './person-picker';
 

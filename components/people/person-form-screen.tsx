@@ -16,7 +16,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { PersonAbsencesSection } from '@/components/absences/person-absences-section';
 import { Chip, CoordinatorsOnly } from './parts';
 import { TermsSection } from './terms-section';

@@ -12,7 +12,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { CoordinatorsOnly } from './parts';
 
 /** The workspace's skills: seats ask for them, people hold them, CSV files name them. */

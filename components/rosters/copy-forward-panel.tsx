@@ -13,7 +13,7 @@ import { TextField } from '@/components/ui/text-field';
 import { DateField } from '@/components/ui/date-field';
 import { Body } from '@/components/ui/typography';
 import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { Panel } from './parts';
 import { periodWords } from './format';
 

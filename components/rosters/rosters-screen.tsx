@@ -12,7 +12,7 @@ import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-lim
 import { TextField } from '@/components/ui/text-field';
 import { DateField } from '@/components/ui/date-field';
 import { Body, Heading } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { Loadable, Panel, Pill } from './parts';
 import { periodWords } from './format';
 

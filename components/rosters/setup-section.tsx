@@ -16,7 +16,7 @@ import { TextField } from '@/components/ui/text-field';
 import { DateField } from '@/components/ui/date-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { Choices, Loadable, Panel } from './parts';
 import { dayWords, timeOf } from './format';
 

@@ -11,7 +11,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { checkForm, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, type FieldErrors } from '@/components/forms/form-errors';
 import { ChoiceChips } from './choice-chips';
 
 const STATUS_WORDS = { requested: 'Waiting for a coordinator', approved: 'Agreed by a coordinator', declined: 'Not taken up' } as const;

@@ -7,7 +7,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Section } from '@/components/auth/section';
-import { checkForm, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, type FieldErrors } from '@/components/forms/form-errors';
 import { ChoiceChips } from './choice-chips';
 import { WISH_CHOICES, WISH_WORDS } from './wish-kinds';
 

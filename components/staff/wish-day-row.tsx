@@ -8,7 +8,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
-import { checkForm, type FieldErrors } from '@/components/auth/form-errors';
+import { checkForm, type FieldErrors } from '@/components/forms/form-errors';
 import { ApiError } from '@/hooks/api/api-client';
 import { ChoiceChips } from './choice-chips';
 import { plainDay, plainLongDay } from './format';
