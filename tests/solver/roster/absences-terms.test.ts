@@ -9,6 +9,7 @@
 import { describe, expect, it } from 'vitest';
 import { TERM_KINDS, rosterSchema, type Roster, type RosterInput, type Term } from '../../../shared/roster/schema';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
+import { seededRandom } from '../../../shared/demo/make-roster';
 import { compileRoster, OPEN } from '../../../solver/roster/compile';
 import { explainInfeasible } from '../../../solver/roster/explain-infeasible';
 import { solveRoster } from '../../../solver/roster/solve-roster';
@@ -127,21 +128,9 @@ describe('absences', () => {
   });
 });
 
-/** A seeded generator (mulberry32) for the random rosters below. */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** 3 people, 5 shifts of one seat over 3 days (days and nights), random terms and one absence. */
 function randomSmall(seed: number): Roster {
-  const rand = rng(seed);
+  const rand = seededRandom(seed);
   const pick = <T,>(xs: T[]) => xs[Math.floor(rand() * xs.length)]!;
   const shifts: ShiftSpec[] = [
     ['e1', 'early', '2027-01-04T07:00', '2027-01-04T15:00'],
