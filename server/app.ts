@@ -33,6 +33,7 @@ import { useRedis } from './queue/queues';
 import { suggestionRouter } from './learning/router';
 import { mySwapsRouter, swapsRouter } from './swaps/router';
 import { offerRouters } from './offers/router';
+import { ledgerRouters } from './ledger/router';
 
 export interface AppDeps {
   env: Env;
@@ -97,6 +98,9 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/rosters', rosterOffersRouter);
   api.use('/offers', offersRouter);
   api.use('/me', myOffersRouter);
+  const [ledgerRouter, myLedgerRouter] = ledgerRouters();
+  api.use('/ledger', ledgerRouter);
+  api.use('/me', myLedgerRouter);
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/billing', billingRouter(env));

@@ -5,11 +5,12 @@ import { findRoster } from './repository';
 import { rosterIds } from './ids';
 import { absencesForRoster } from '../absences/roster';
 import { termsForPeriod } from '../terms/repository';
+import { ledgerTerms } from '../ledger/terms';
 
 /**
  * Reads one roster with everything the solver needs from the database into the roster JSON
  * format (shared/roster), then validates it so problems come back with the field named.
- * Only approved pairings count.
+ * Only approved pairings count; the ledger of earlier periods adds soft terms (server/ledger/terms.ts).
  */
 export async function assembleRoster(workspaceId: number, rosterId: number): Promise<{ input: RosterInput; parsed: ParseRosterResult; version: number }> {
   const roster = await findRoster(workspaceId, rosterId);
@@ -57,5 +58,10 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
     rules: roster.rules,
     absences: await absencesForRoster(workspaceId, { start: roster.periodStart, end: roster.periodEnd }, people.map((p) => p.id)),
   };
+  const parsed = parseRoster(input);
+  // Earlier periods' nights and weekends (the ledger) become soft per-person terms of this one.
+  const carried = parsed.ok ? await ledgerTerms(workspaceId, parsed.roster) : new Map();
+  if (carried.size === 0) return { input, parsed, version: roster.version };
+  for (const person of input.people) if (carried.has(person.id)) person.terms = [...(person.terms ?? []), ...carried.get(person.id)!];
   return { input, parsed: parseRoster(input), version: roster.version };
 }

@@ -48,10 +48,14 @@ export class OfferRow extends Model<Attrs<OfferRow>, Creation<OfferRow>> {
   declare updatedAt: CreationOptional<Date>;
 }
 
-export class HolidayCalendarRow extends Model<Attrs<HolidayCalendarRow>, Creation<HolidayCalendarRow>> {
+/** Where a workspace's public holidays come from, and the weights the ledger gives the next roster. */
+export class LedgerSettingsRow extends Model<Attrs<LedgerSettingsRow>, Creation<LedgerSettingsRow>> {
   declare id: CreationOptional<number>;
   declare workspaceId: number;
   declare region: CreationOptional<string | null>;
+  declare nightWeight: CreationOptional<number>;
+  declare weekendWeight: CreationOptional<number>;
+  declare lookbackDays: CreationOptional<number>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -118,6 +122,9 @@ export function initSwapModels(sequelize: Sequelize): void {
     },
     opts(sequelize, 'offers'),
   );
-  HolidayCalendarRow.init({ ...common, region: DataTypes.STRING(20), version }, opts(sequelize, 'holiday_calendars'));
+  LedgerSettingsRow.init(
+    { ...common, region: DataTypes.STRING(20), nightWeight: { type: DataTypes.DOUBLE, defaultValue: 3 }, weekendWeight: { type: DataTypes.DOUBLE, defaultValue: 3 }, lookbackDays: { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 91 }, version },
+    opts(sequelize, 'ledger_settings'),
+  );
   HolidayRow.init({ ...common, date: DataTypes.DATEONLY, name: DataTypes.STRING(120) }, opts(sequelize, 'holidays'));
 }

@@ -65,11 +65,16 @@ export async function up(q: QueryInterface): Promise<void> {
   await q.addIndex('offers', ['workspace_id', 'status']);
   await q.addIndex('offers', ['workspace_id', 'roster_id']);
 
-  await q.createTable('holiday_calendars', {
+  // One row per workspace: where public holidays come from, and how much the next roster's
+  // fairness leans on what the ledger counted before it (points per night or weekend shift over).
+  await q.createTable('ledger_settings', {
     id,
     workspace_id: { ...ref('workspaces'), unique: true },
     // a date-holidays region ("GB-ENG", "DE-BY", "FR"); null = only the dates entered
     region: { type: DataTypes.STRING(20), allowNull: true },
+    night_weight: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 3 },
+    weekend_weight: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 3 },
+    lookback_days: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 91 },
     version,
     ...timestamps,
   });
@@ -85,7 +90,7 @@ export async function up(q: QueryInterface): Promise<void> {
 
 export async function down(q: QueryInterface): Promise<void> {
   await q.dropTable('holidays');
-  await q.dropTable('holiday_calendars');
+  await q.dropTable('ledger_settings');
   await q.dropTable('offers');
   await q.dropTable('swaps');
 }
