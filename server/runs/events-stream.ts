@@ -1,5 +1,5 @@
 import type { Request, RequestHandler, Response } from 'express';
-import { notFound } from '../http/errors';
+import { HttpError, notFound } from '../http/errors';
 import { RunRow } from '../rosters/models';
 import { watchRun, type RunSignal } from '../queue/run-events';
 import { FINAL_STATUSES } from './result-cache';
@@ -20,6 +20,11 @@ const MAX_STREAM_MS = 10 * 60_000;
  */
 export function runEventStream(view: (run: RunRow) => Promise<Record<string, unknown>>): RequestHandler {
   return async (req: Request, res: Response) => {
+    // Only for clients that say they read streams (EventSource always sends this Accept, WHATWG HTML
+    // §9.2.4): anything else would wait for an answer that, for an unfinished run, does not end.
+    if (!/\btext\/event-stream\b/i.test(req.get('accept') ?? '')) {
+      throw new HttpError(406, 'bad_request', 'This address answers with a stream of server-sent events; ask for text/event-stream, or read GET /api/runs/:id.', [{ path: 'headers.accept', message: 'must include text/event-stream' }]);
+    }
     const where = { id: Number(req.params.id), workspaceId: req.auth!.workspaceId };
     const first = await RunRow.findOne({ where, attributes: { exclude: ['result'] } });
     if (!first) throw notFound('Run');
@@ -64,7 +69,8 @@ export function runEventStream(view: (run: RunRow) => Promise<Record<string, unk
       return reading;
     };
 
-    await sendRow(first);
+    // The headers are out: from here a failure ends the stream (the browser reconnects) rather than reaching the JSON error handler.
+    await sendRow(first).catch(end);
     if (ended) return;
     const onSignal = (signal: RunSignal) => {
       if (signal.type === 'progress') {

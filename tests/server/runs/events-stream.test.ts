@@ -135,6 +135,11 @@ describe('GET /api/runs/:id/events: live progress as server-sent events', () => 
     await again.done;
     expect(again.events.map((e) => e.event)).toEqual(['run']);
 
+    // A client that does not ask for a stream gets a plain error, not an answer that never ends.
+    const plain = await fetch(`${base}/api/runs/${start.body.id}/events`, { headers: { cookie } });
+    expect(plain.status).toBe(406);
+    expect(((await plain.json()) as { error: { fields: Array<{ path: string }> } }).error.fields[0].path).toBe('headers.accept');
+
     const outsider = await signIn(await makeWorkspace('Thistle Row'));
     const theirs = await open(start.body.id, outsider);
     expect(theirs.res.status).toBe(404);
