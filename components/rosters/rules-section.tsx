@@ -2,7 +2,6 @@ import { useEffect } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Controller, useForm, type Resolver } from 'react-hook-form';
 import { colors, space } from '@/constants/theme';
-import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import { rulesBody } from '@/shared/api/rosters';
 import { RULE_CATALOGUE, type ParamField, type RuleEntry } from '@/solver/roster/rules/catalogue-words';
 import { useRules } from '@/hooks/api/get-rules';
@@ -96,7 +95,6 @@ function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleS
   const errorCount = Object.keys(form.formState.errors).length;
   return (
     <Panel title="Rules" lead="Hard rules can never be broken; a soft rule costs its weight in points each time it is.">
-      <Notice kind="caution">{WORKING_TIME_CAUTION}</Notice>
       {RULE_CATALOGUE.map((r) => (
         <RuleRow key={r.id} rule={r} form={form} rosterId={roster.id} />
       ))}
