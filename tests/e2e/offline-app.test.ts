@@ -85,6 +85,8 @@ describe('an app staff can install and read offline', () => {
       await page.getByTestId('next-shifts').waitFor();
       await serviceWorkerInControl(page);
       // Now under the worker: this visit's answers are the ones it keeps.
+      // Settled first: a reload cuts off whatever is still loading (the calendar's arrow images).
+      await page.waitForLoadState('networkidle');
       const saved = page.waitForResponse((r) => new URL(r.url()).pathname === '/api/me/shifts' && r.status() === 200);
       await page.reload();
       await saved;
@@ -103,6 +105,7 @@ describe('an app staff can install and read offline', () => {
 
       // Cut off, the screen's other reads (the calendar feed) fail as they should: allowed only then.
       const before = problems.length;
+      await page.waitForLoadState('networkidle');
       await context.setOffline(true);
       await page.reload();
       await page.getByText(`You are offline — showing shifts as of ${hhmm}`).waitFor({ timeout: 30_000 });
@@ -116,6 +119,7 @@ describe('an app staff can install and read offline', () => {
       await context.setOffline(false);
       await page.reload();
       await page.getByTestId('next-shifts').waitFor();
+      await page.waitForLoadState('networkidle');
       expect(await page.getByText(/showing shifts as of/).count()).toBe(0);
       await page.getByRole('button', { name: 'Sign out' }).filter({ visible: true }).first().click();
       await page.getByTestId('sign-in-submit').waitFor();
@@ -124,6 +128,7 @@ describe('an app staff can install and read offline', () => {
       // The next person on this browser, cut off, gets no one else's shifts from the worker.
       await signIn(page, 'coordinator@willowmere.example');
       expect(await keptUrls(page)).not.toContain('/api/me/shifts');
+      await page.waitForLoadState('networkidle');
       await context.setOffline(true);
       const before2 = problems.length;
       await page.goto('/my-shifts').catch(() => {});

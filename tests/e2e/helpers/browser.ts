@@ -5,6 +5,9 @@ import path from 'node:path';
 export const PHONE = { width: 390, height: 844 } as const;
 export const WIDE = { width: 1280, height: 800 } as const;
 
+/** The web build's own files (code chunks, images, fonts, icons), never API calls. */
+const STATIC_FILE = /^\/(_expo\/static|assets|icons)\//;
+
 export function baseUrl(): string {
   const url = process.env.ROTALOOM_E2E_URL;
   if (!url) throw new Error('Browser tests need a running app: run them through `npm test` (it sets ROTALOOM_E2E_URL)');
@@ -45,6 +48,9 @@ export async function openPage(browser: Browser, viewport: { width: number; heig
   page.on('requestfailed', (req) => {
     // A run's event stream (server-sent events) ends by the page closing it: that shows as aborted.
     if (/\/api\/runs\/\d+\/events$/.test(new URL(req.url()).pathname) && /ERR_ABORTED/.test(req.failure()?.errorText ?? '')) return;
+    // A navigation cancels the code, images and icon still loading for the page it leaves (each
+    // screen's code is its own file since async routes): the browser moving on, not a failure.
+    if (req.failure()?.errorText === 'net::ERR_ABORTED' && req.method() === 'GET' && STATIC_FILE.test(new URL(req.url()).pathname)) return;
     note(`request failed: ${req.method()} ${req.url()} ${req.failure()?.errorText ?? ''}`);
   });
   page.on('response', (res) => {
