@@ -16,6 +16,8 @@ const envSchema = z.object({
   ROTALOOM_DB_USER: z.string().default('root'),
   ROTALOOM_DB_PASSWORD: z.string().default(''),
   ROTALOOM_DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('rotaloom'),
+  // `npm start` uses a MariaDB already on ROTALOOM_DB_PORT only with 1 (never another checkout's).
+  ROTALOOM_DB_USE_RUNNING: z.enum(['0', '1']).default('0'),
   // A query that hears nothing back from MariaDB for this long fails (503) instead of hanging the request.
   ROTALOOM_DB_TIMEOUT_MS: z.coerce.number().int().min(100).max(600_000).default(30_000),
   ROTALOOM_SESSION_SECRET: z.string().min(16).default('rotaloom-dev-secret-change-me'),
@@ -68,6 +70,8 @@ export interface Env {
   port: number;
   publicUrl: string;
   db: { host: string; port: number; user: string; password: string; database: string; timeoutMs?: number };
+  /** The user asked `npm start` to use a MariaDB that is already running and that no checkout made. */
+  useRunningDb: boolean;
   sessionSecret: string;
   webDir: string;
   dataDir: string;
@@ -119,6 +123,7 @@ export function readEnv(source: NodeJS.ProcessEnv = process.env): Env {
       database: e.ROTALOOM_DB_NAME,
       timeoutMs: e.ROTALOOM_DB_TIMEOUT_MS,
     },
+    useRunningDb: e.ROTALOOM_DB_USE_RUNNING === '1',
     sessionSecret: e.ROTALOOM_SESSION_SECRET,
     webDir: e.ROTALOOM_WEB_DIR,
     dataDir: e.ROTALOOM_DATA_DIR,

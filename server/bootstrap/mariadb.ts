@@ -1,10 +1,11 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, openSync, readFileSync, closeSync } from 'node:fs';
+import { existsSync, openSync, readFileSync, closeSync } from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import mariadb from 'mariadb';
 import { findExecutable } from './system-packages';
+import { claimDataDir, judgeRunningServer, thisCheckout } from './checkout-marker';
 
 export interface MariaDbServer {
   port: number;
@@ -27,13 +28,32 @@ export async function freePort(): Promise<number> {
 }
 
 async function answers(port: number): Promise<boolean> {
+  return (await runningDataDir(port)) !== undefined;
+}
+
+/** The data folder of the MariaDB on the port; undefined when none we can sign in to answers. */
+async function runningDataDir(port: number): Promise<string | null | undefined> {
   try {
     const conn = await mariadb.createConnection({ host: '127.0.0.1', port, user: 'root', password: '', connectTimeout: 1_000 });
-    await conn.end();
-    return true;
+    try {
+      const rows = (await conn.query('SELECT @@datadir AS dir')) as Array<{ dir: string | null }>;
+      return rows[0]?.dir ? path.resolve(rows[0].dir) : null;
+    } finally {
+      await conn.end();
+    }
   } catch {
-    return false;
+    return undefined;
   }
+}
+
+/** Whether anything accepts connections on the loopback port. */
+function portTaken(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const socket = net.connect({ host: '127.0.0.1', port });
+    socket.setTimeout(1_000, () => (socket.destroy(), resolve(true)));
+    socket.once('connect', () => (socket.destroy(), resolve(true)));
+    socket.once('error', (err: NodeJS.ErrnoException) => resolve(err.code !== 'ECONNREFUSED'));
+  });
 }
 
 const isRoot = () => typeof process.getuid === 'function' && process.getuid() === 0;
@@ -44,18 +64,36 @@ function tail(file: string, lines = 15): string {
 }
 
 /**
- * Starts MariaDB on loopback with its own data folder (created on first use) and waits until it
- * accepts connections. The server runs in its own process group so a terminal Ctrl-C reaches us
- * first and we shut it down cleanly.
+ * Starts MariaDB on loopback with its own data folder (created on first use, marked with the
+ * checkout's path) and waits until it accepts connections. A server already on the port is used
+ * only when its folder is this checkout's, or, for one no checkout made, when `useRunning` says so.
+ * The server runs in its own process group so a terminal Ctrl-C reaches us first and we shut it
+ * down cleanly.
  */
-export async function startMariaDb(options: { dataDir: string; port: number; log?: (line: string) => void }): Promise<MariaDbServer> {
+export async function startMariaDb(options: {
+  dataDir: string;
+  port: number;
+  log?: (line: string) => void;
+  /** ROTALOOM_DB_USE_RUNNING=1: the user asked for the MariaDB already on the port. */
+  useRunning?: boolean;
+  /** Whose data folders these are; this checkout unless a test says otherwise. */
+  checkout?: string;
+}): Promise<MariaDbServer> {
   const log = options.log ?? ((line: string) => console.log(`[mariadb] ${line}`));
   const { dataDir, port } = options;
-  if (await answers(port)) {
-    log(`a server already answers on 127.0.0.1:${port}; using it`);
+  const checkout = options.checkout ?? thisCheckout();
+  const runningDir = await runningDataDir(port);
+  if (runningDir !== undefined) {
+    const settings = { portSetting: 'ROTALOOM_DB_PORT', useHint: 'ROTALOOM_DB_USE_RUNNING=1' };
+    log(judgeRunningServer({ what: 'MariaDB', port, runningDir, ownDataDir: dataDir, checkout, useRunning: options.useRunning ?? false, ...settings }));
     return { port, dataDir, reused: true, stop: async () => {} };
   }
-  mkdirSync(dataDir, { recursive: true });
+  if (await portTaken(port)) {
+    throw new Error(
+      `Port ${port} on 127.0.0.1 is taken by a program that is not a MariaDB we can sign in to. Stop it, or choose another port with ROTALOOM_DB_PORT=<port>.`,
+    );
+  }
+  claimDataDir(dataDir, checkout);
   const userArgs = isRoot() ? ['--user=root'] : [];
   if (!existsSync(path.join(dataDir, 'mysql'))) {
     log(`creating a data folder in ${dataDir}`);

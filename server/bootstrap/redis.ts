@@ -1,8 +1,9 @@
 import { spawn, type ChildProcess } from 'node:child_process';
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readFileSync } from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
 import { findExecutable } from './system-packages';
+import { claimDataDir, judgeRunningServer, thisCheckout } from './checkout-marker';
 
 export interface RedisServer {
   port: number;
@@ -34,6 +35,28 @@ export function probeRedisPort(port: number, timeoutMs = 1000): Promise<'free' |
   });
 }
 
+/** The working folder of the Redis on the port (CONFIG GET dir), or null when it will not say. */
+export function redisDataDir(port: number, timeoutMs = 1000): Promise<string | null> {
+  return new Promise((resolve) => {
+    const socket = net.connect({ host: '127.0.0.1', port });
+    let reply = '';
+    const done = (dir: string | null) => {
+      socket.destroy();
+      resolve(dir);
+    };
+    socket.setTimeout(timeoutMs, () => done(null));
+    socket.once('connect', () => socket.write('CONFIG GET dir\r\n'));
+    socket.on('data', (chunk) => {
+      reply += chunk.toString('utf8');
+      if (reply.startsWith('-')) return done(null);
+      // *2 $3 dir $<n> <path>: an array of the name and its value.
+      const m = /^\*2\r\n\$3\r\ndir\r\n\$(\d+)\r\n/.exec(reply);
+      if (m && reply.length >= m[0].length + Number(m[1])) done(reply.slice(m[0].length, m[0].length + Number(m[1])));
+    });
+    socket.once('error', () => done(null));
+  });
+}
+
 function tail(file: string, lines = 15): string {
   if (!existsSync(file)) return '(no log)';
   return readFileSync(file, 'utf8').trimEnd().split('\n').slice(-lines).join('\n');
@@ -45,13 +68,23 @@ function tail(file: string, lines = 15): string {
  * and nothing is written to the folder Redis was started from. Its own process group, so a
  * terminal Ctrl-C reaches us first and we stop it cleanly.
  */
-export async function startRedis(options: { dataDir: string; port: number; log?: (line: string) => void }): Promise<RedisServer> {
+export async function startRedis(options: {
+  dataDir: string;
+  port: number;
+  log?: (line: string) => void;
+  /** Whose data folders these are; this checkout unless a test says otherwise. */
+  checkout?: string;
+}): Promise<RedisServer> {
   const log = options.log ?? ((line: string) => console.log(`[redis] ${line}`));
   const { dataDir, port } = options;
+  const checkout = options.checkout ?? thisCheckout();
   const url = `redis://127.0.0.1:${port}`;
   const seen = await probeRedisPort(port);
   if (seen === 'redis') {
-    log(`a Redis already answers on 127.0.0.1:${port}; using it`);
+    // Another checkout's queue would hand our runs to its workers, which read another database.
+    const runningDir = await redisDataDir(port);
+    const settings = { portSetting: 'ROTALOOM_REDIS_PORT', useHint: `ROTALOOM_REDIS_URL=${url}` };
+    log(judgeRunningServer({ what: 'Redis', port, runningDir, ownDataDir: dataDir, checkout, useRunning: false, ...settings }));
     return { port, url, reused: true, stop: async () => {} };
   }
   if (seen === 'other') {
@@ -59,7 +92,7 @@ export async function startRedis(options: { dataDir: string; port: number; log?:
       `Port ${port} on 127.0.0.1 is taken by a program that is not Redis. Stop it, or choose another port with ROTALOOM_REDIS_PORT=<port>, or point ROTALOOM_REDIS_URL at a Redis you run yourself.`,
     );
   }
-  mkdirSync(dataDir, { recursive: true });
+  claimDataDir(dataDir, checkout);
   const logFile = path.join(dataDir, 'redis.log');
   const out = openSync(logFile, 'a');
   const child: ChildProcess = spawn(
