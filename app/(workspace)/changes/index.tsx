@@ -1,0 +1,3 @@
+import { TeamChangesScreen } from '@/components/swaps/team-changes-screen';
+
+export default TeamChangesScreen;

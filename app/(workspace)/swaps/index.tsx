@@ -1,0 +1,3 @@
+import { MySwapsScreen } from '@/components/swaps/my-swaps-screen';
+
+export default MySwapsScreen;
