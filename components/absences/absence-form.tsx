@@ -1,5 +1,6 @@
-import { useState } from 'react';
+import { useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { useForm, useWatch, type Resolver } from 'react-hook-form';
 import { space } from '@/constants/theme';
 import { ABSENCE_KIND_WORDS, ABSENCE_KINDS, createAbsenceBody, requestAbsenceBody, updateAbsenceBody, type AbsenceDto, type AbsenceKindName } from '@/shared/api/absences';
 import { ApiError } from '@/hooks/api/api-client';
@@ -12,7 +13,8 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
+import { formError } from '@/components/forms/form-errors';
+import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
 import { Choices } from '@/components/rosters/parts';
 
@@ -57,6 +59,24 @@ function toBody(v: Values) {
   };
 }
 
+type Mode = 'coordinator' | 'staff';
+
+/**
+ * Form text → the body of the endpoint the form sends to, checked with that endpoint's shared
+ * schema; a coordinator's new absence also needs a person picked.
+ */
+function absenceResolver(mode: Mode, absence: AbsenceDto | undefined): Resolver<Values> {
+  if (mode === 'staff') return bodyResolver(requestAbsenceBody, toBody) as unknown as Resolver<Values>;
+  const withPerson = (v: Values) => ({ ...toBody(v), personId: v.person?.id, ...(absence ? { version: absence.version } : {}) });
+  if (absence) return bodyResolver(updateAbsenceBody, withPerson) as unknown as Resolver<Values>;
+  const check = bodyResolver(createAbsenceBody, withPerson) as unknown as Resolver<Values>;
+  return async (values, context, options) => {
+    const result = await check(values, context, options);
+    if (values.person) return result;
+    return { values: {}, errors: { ...result.errors, personId: { type: 'required', message: 'Choose a person' } } } as unknown as Awaited<ReturnType<Resolver<Values>>>;
+  };
+}
+
 /**
  * Add or change an absence. `mode` decides who it is for and which endpoint takes it:
  * a coordinator's new or edited absence (approved at once), or the person's own request.
@@ -78,46 +98,45 @@ export function AbsenceForm({
   const create = useCreateAbsence();
   const update = useUpdateAbsence();
   const request = useRequestMyAbsence();
-  const [values, setValues] = useState<Values>(() =>
-    absence ? fromAbsence(absence) : { person: person ?? null, kind: 'annual', startDate: '', endDate: '', partDay: false, startTime: '', endTime: '', creditHours: '', note: '' },
-  );
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const set = (patch: Partial<Values>) => setValues({ ...values, ...patch });
+  const resolver = useMemo(() => absenceResolver(mode, absence), [mode, absence]);
+  const form = useForm<Values>({
+    defaultValues: absence ? fromAbsence(absence) : { person: person ?? null, kind: 'annual', startDate: '', endDate: '', partDay: false, startTime: '', endTime: '', creditHours: '', note: '' },
+    resolver,
+  });
+  // The fields are controlled by the form's values, read as they change.
+  const values = useWatch({ control: form.control }) as Values;
+  const set = (patch: Partial<Values>) => {
+    for (const [k, v] of Object.entries(patch)) form.setValue(k as keyof Values, v as never, { shouldDirty: true });
+  };
+  const errors = form.formState.errors;
   const mutation = mode === 'staff' ? request : absence ? update : create;
   const error = mutation.error;
+  const fieldError = (name: string) => messageFor(errors, error, name);
 
-  const submit = () => {
-    const body = toBody(values);
+  // The parsed body comes from the resolver, so it is already the endpoint's shape.
+  const submit = form.handleSubmit((body) => {
+    const parsed = body as unknown as ReturnType<typeof createAbsenceBody.parse>;
     if (mode === 'staff') {
-      const checked = checkForm(requestAbsenceBody, body);
-      setErrors(checked.errors ?? {});
-      if (checked.data) request.mutate(checked.data, { onSuccess: (a) => { setValues({ ...values, startDate: '', endDate: '', note: '' }); onDone?.(a); } });
-      return;
-    }
-    const withPerson = { ...body, personId: values.person?.id };
-    if (absence) {
-      const checked = checkForm(updateAbsenceBody, { ...withPerson, version: absence.version });
-      setErrors(checked.errors ?? {});
-      if (checked.data) update.mutate({ id: absence.id, ...checked.data }, { onSuccess: (a) => onDone?.(a) });
+      request.mutate(parsed as ReturnType<typeof requestAbsenceBody.parse>, { onSuccess: (a) => { set({ startDate: '', endDate: '', note: '' }); onDone?.(a); } });
+    } else if (absence) {
+      update.mutate({ id: absence.id, ...(parsed as unknown as ReturnType<typeof updateAbsenceBody.parse>) }, { onSuccess: (a) => onDone?.(a) });
     } else {
-      const checked = checkForm(createAbsenceBody, withPerson);
-      setErrors({ ...(checked.errors ?? {}), ...(values.person ? {} : { personId: 'Choose a person' }) });
-      if (checked.data && values.person) create.mutate(checked.data, { onSuccess: (a) => { setValues({ ...values, startDate: '', endDate: '', note: '', creditHours: '' }); onDone?.(a); } });
+      create.mutate(parsed, { onSuccess: (a) => { set({ startDate: '', endDate: '', note: '', creditHours: '' }); onDone?.(a); } });
     }
-  };
+  });
   const conflict = error instanceof ApiError && error.status === 409;
   const prefix = mode === 'staff' ? 'my-absence' : 'absence';
 
   return (
     <View style={styles.form} testID={`${prefix}-form`}>
       {mode === 'coordinator' && !person ? (
-        <PersonPicker label="Person" value={values.person} onChange={(p) => set({ person: p })} error={fieldError(errors, error, 'personId')} testID={`${prefix}-person`} />
+        <PersonPicker label="Person" value={values.person} onChange={(p) => set({ person: p })} error={fieldError('personId')} testID={`${prefix}-person`} />
       ) : null}
       <Body bold>Kind</Body>
       <Choices label="Kind of absence" options={KIND_OPTIONS} value={[values.kind]} onChange={(v) => set({ kind: v[0] })} testID={`${prefix}-kind`} />
       <View style={styles.row}>
-        <DateField label="First day" value={values.startDate} onChange={(startDate) => set({ startDate, endDate: values.endDate || startDate })} error={fieldError(errors, error, 'startDate')} testID={`${prefix}-start`} />
-        <DateField label="Last day" value={values.endDate} onChange={(endDate) => set({ endDate })} minDate={/^\d{4}-\d{2}-\d{2}$/.test(values.startDate) ? values.startDate : undefined} error={fieldError(errors, error, 'endDate')} testID={`${prefix}-end`} />
+        <DateField label="First day" value={values.startDate} onChange={(startDate) => set({ startDate, endDate: values.endDate || startDate })} error={fieldError('startDate')} testID={`${prefix}-start`} />
+        <DateField label="Last day" value={values.endDate} onChange={(endDate) => set({ endDate })} minDate={/^\d{4}-\d{2}-\d{2}$/.test(values.startDate) ? values.startDate : undefined} error={fieldError('endDate')} testID={`${prefix}-end`} />
       </View>
       <Choices
         label="How much of the day"
@@ -129,10 +148,10 @@ export function AbsenceForm({
       {values.partDay ? (
         <View style={styles.row}>
           <View style={styles.cell}>
-            <TimeField label="From (on the first day)" value={values.startTime} onChange={(startTime) => set({ startTime })} error={fieldError(errors, error, 'startTime')} testID={`${prefix}-start-time`} />
+            <TimeField label="From (on the first day)" value={values.startTime} onChange={(startTime) => set({ startTime })} error={fieldError('startTime')} testID={`${prefix}-start-time`} />
           </View>
           <View style={styles.cell}>
-            <TimeField label="Until (on the last day)" value={values.endTime} onChange={(endTime) => set({ endTime })} error={fieldError(errors, error, 'endTime')} testID={`${prefix}-end-time`} />
+            <TimeField label="Until (on the last day)" value={values.endTime} onChange={(endTime) => set({ endTime })} error={fieldError('endTime')} testID={`${prefix}-end-time`} />
           </View>
         </View>
       ) : null}
@@ -144,15 +163,15 @@ export function AbsenceForm({
             onChangeText={(creditHours) => set({ creditHours })}
             inputMode="decimal"
             placeholder="default"
-            error={fieldError(errors, error, 'creditHours')}
+            error={fieldError('creditHours')}
             testID={`${prefix}-credit`}
           />
         </View>
       ) : null}
-      <TextField label="Note (optional)" value={values.note} onChangeText={(note) => set({ note })} maxLength={500} error={fieldError(errors, error, 'note')} testID={`${prefix}-note`} />
+      <TextField label="Note (optional)" value={values.note} onChangeText={(note) => set({ note })} maxLength={500} error={fieldError('note')} testID={`${prefix}-note`} />
       {conflict ? <Notice kind="caution">{`${error.message} Close the form and open it again to see their change; your values are still here.`}</Notice> : formError(error, FIELDS) ? <Notice>{formError(error, FIELDS)!}</Notice> : null}
       <View style={styles.row}>
-        <Button label={mode === 'staff' ? 'Send request' : absence ? 'Save absence' : 'Add absence'} onPress={submit} busy={mutation.isPending} testID={`${prefix}-save`} />
+        <Button label={mode === 'staff' ? 'Send request' : absence ? 'Save absence' : 'Add absence'} onPress={() => void submit()} busy={mutation.isPending} testID={`${prefix}-save`} />
         {onCancel ? <Button kind="quiet" label="Cancel" onPress={onCancel} /> : null}
       </View>
     </View>

@@ -1,6 +1,7 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useState, type ComponentProps } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { router } from 'expo-router';
+import { Controller, useForm, type UseFormReturn } from 'react-hook-form';
 import { colors, space } from '@/constants/theme';
 import { createPersonBody, type PersonDto } from '@/shared/api/people';
 import { ApiError } from '@/hooks/api/api-client';
@@ -16,39 +17,44 @@ import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
+import { formError } from '@/components/forms/form-errors';
+import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { PersonAbsencesSection } from '@/components/absences/person-absences-section';
 import { Chip, CoordinatorsOnly } from './parts';
 import { TermsSection } from './terms-section';
 
+/** As typed: hours are text until the schema reads them; names are the request body's. */
 interface Values {
   name: string;
   email: string;
-  hours: string;
+  contractedHours: string;
   skillIds: number[];
 }
-const fromPerson = (p: PersonDto): Values => ({ name: p.name, email: p.email ?? '', hours: String(p.contractedHours), skillIds: p.skillIds });
-const toBody = (v: Values) => ({ name: v.name, email: v.email.trim() === '' ? null : v.email, contractedHours: v.hours.trim() === '' ? Number.NaN : Number(v.hours.trim().replace(',', '.')), skillIds: v.skillIds });
+const EMPTY: Values = { name: '', email: '', contractedHours: '', skillIds: [] };
+const fromPerson = (p: PersonDto): Values => ({ name: p.name, email: p.email ?? '', contractedHours: String(p.contractedHours), skillIds: p.skillIds });
+const toBody = (v: Values) => ({
+  name: v.name,
+  email: v.email.trim() === '' ? null : v.email,
+  contractedHours: v.contractedHours.trim() === '' ? Number.NaN : Number(v.contractedHours.trim().replace(',', '.')),
+  skillIds: v.skillIds,
+});
+const resolver = bodyResolver(createPersonBody, toBody);
 const FIELDS = ['name', 'email', 'contractedHours', 'skillIds', 'version'];
+type PersonForm = UseFormReturn<Values, unknown, ReturnType<typeof createPersonBody.parse>>;
 
 export function NewPersonScreen() {
   const create = useCreatePerson();
-  const [values, setValues] = useState<Values>({ name: '', email: '', hours: '', skillIds: [] });
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const submit = () => {
-    const checked = checkForm(createPersonBody, toBody(values));
-    setErrors(checked.errors ?? {});
-    // The list says who was added, so the tap is seen to have worked.
-    if (checked.data) create.mutate(checked.data, { onSuccess: (person) => router.replace({ pathname: '/people', params: { added: person.name } }) });
-  };
+  const form = useForm({ defaultValues: EMPTY, resolver });
+  // The list says who was added, so the tap is seen to have worked.
+  const submit = form.handleSubmit((body) => create.mutate(body, { onSuccess: (person) => router.replace({ pathname: '/people', params: { added: person.name } }) }));
   return (
     <CoordinatorsOnly what="people">
       <View style={styles.page}>
         <TextLink href="/people" label="← All people" />
         <Heading>Add a person</Heading>
-        <PersonFields values={values} onChange={setValues} errors={errors} error={create.error} onSubmit={submit} />
+        <PersonFields form={form} error={create.error} onSubmit={() => void submit()} />
         {isBillingRefusal(create.error) ? <PlanLimitPrompt error={create.error} /> : formError(create.error, FIELDS) ? <Notice>{formError(create.error, FIELDS)!}</Notice> : null}
-        <Button label="Add person" onPress={submit} busy={create.isPending} testID="person-save" />
+        <Button label="Add person" onPress={() => void submit()} busy={create.isPending} testID="person-save" />
       </View>
     </CoordinatorsOnly>
   );
@@ -66,18 +72,22 @@ function EditPerson({ id }: { id: number }) {
   const person = usePerson(id);
   const update = useUpdatePerson();
   const remove = useDeletePerson();
-  const [values, setValues] = useState<Values | null>(null);
+  const form = useForm({ defaultValues: EMPTY, resolver });
   // The version the form was filled from; the save sends it, so a newer save elsewhere is a 409.
   const [version, setVersion] = useState<number | null>(null);
-  const [errors, setErrors] = useState<FieldErrors>({});
   const [saved, setSaved] = useState(false);
   const [confirmDelete, setConfirmDelete] = useState(false);
   useEffect(() => {
-    if (person.data && values === null) {
-      setValues(fromPerson(person.data));
+    if (person.data && version === null) {
+      form.reset(fromPerson(person.data));
       setVersion(person.data.version);
     }
-  }, [person.data, values]);
+  }, [person.data, version, form]);
+  // Any change after a save takes the "Saved." away.
+  useEffect(() => {
+    const sub = form.watch(() => setSaved(false));
+    return () => sub.unsubscribe();
+  }, [form]);
 
   if (!Number.isInteger(id) || id <= 0) return <Notice>This is not a person's address.</Notice>;
   if (person.isPending) return <ActivityIndicator color={colors.loom} accessibilityLabel="Loading" />;
@@ -89,43 +99,40 @@ function EditPerson({ id }: { id: number }) {
       </View>
     );
   }
-  if (!values || version === null) return null;
+  if (version === null) return null;
 
   const conflict = update.error instanceof ApiError && update.error.status === 409;
-  const save = (withVersion = version) => {
-    setSaved(false);
-    const checked = checkForm(createPersonBody, toBody(values));
-    setErrors(checked.errors ?? {});
-    if (!checked.data) return;
-    update.mutate(
-      { id, ...checked.data, version: withVersion },
-      {
-        onSuccess: (p) => {
-          setVersion(p.version);
-          setValues(fromPerson(p));
-          setSaved(true);
+  const save = (withVersion: number) =>
+    form.handleSubmit((body) =>
+      update.mutate(
+        { id, ...body, version: withVersion },
+        {
+          onSuccess: (p) => {
+            setVersion(p.version);
+            form.reset(fromPerson(p));
+            setSaved(true);
+          },
         },
-      },
-    );
-  };
+      ),
+    )();
   const takeTheirs = async () => {
     const fresh = await person.refetch();
     if (fresh.data) {
-      setValues(fromPerson(fresh.data));
+      form.reset(fromPerson(fresh.data));
       setVersion(fresh.data.version);
       update.reset();
     }
   };
   const keepMine = async () => {
     const fresh = await person.refetch();
-    if (fresh.data) save(fresh.data.version);
+    if (fresh.data) void save(fresh.data.version);
   };
 
   return (
     <View style={styles.page}>
       <TextLink href="/people" label="← All people" />
       <Heading>{person.data.name}</Heading>
-      <PersonFields values={values} onChange={(v) => { setValues(v); setSaved(false); }} errors={errors} error={conflict ? null : update.error} onSubmit={() => save()} />
+      <PersonFields form={form} error={conflict ? null : update.error} onSubmit={() => void save(version)} />
       {conflict ? (
         <View style={styles.conflict} testID="person-conflict">
           <Notice kind="caution">{update.error!.message}</Notice>
@@ -138,7 +145,7 @@ function EditPerson({ id }: { id: number }) {
         <Notice>{formError(update.error, FIELDS)!}</Notice>
       ) : null}
       {saved ? <Notice kind="info">Saved.</Notice> : null}
-      <Button label="Save changes" onPress={() => save()} busy={update.isPending} testID="person-save" />
+      <Button label="Save changes" onPress={() => void save(version)} busy={update.isPending} testID="person-save" />
 
       <TermsSection personId={id} personName={person.data.name} />
       <PersonAbsencesSection personId={id} personName={person.data.name} />
@@ -158,15 +165,23 @@ function EditPerson({ id }: { id: number }) {
   );
 }
 
-function PersonFields({ values, onChange, errors, error, onSubmit }: { values: Values; onChange: (v: Values) => void; errors: FieldErrors; error: unknown; onSubmit: () => void }) {
+function PersonFields({ form, error, onSubmit }: { form: PersonForm; error: unknown; onSubmit: () => void }) {
   const skills = useSkills();
-  const set = (patch: Partial<Values>) => onChange({ ...values, ...patch });
-  const toggle = (sid: number) => set({ skillIds: values.skillIds.includes(sid) ? values.skillIds.filter((x) => x !== sid) : [...values.skillIds, sid] });
+  const errors = form.formState.errors;
+  const text = (name: 'name' | 'email' | 'contractedHours', label: string, testID: string, extra: Partial<ComponentProps<typeof TextField>> = {}) => (
+    <Controller
+      control={form.control}
+      name={name}
+      render={({ field }) => (
+        <TextField label={label} value={field.value} onChangeText={field.onChange} onBlur={field.onBlur} error={messageFor(errors, error, name)} onSubmitEditing={onSubmit} testID={testID} {...extra} />
+      )}
+    />
+  );
   return (
     <View style={styles.fields}>
-      <TextField label="Name" value={values.name} onChangeText={(name) => set({ name })} error={fieldError(errors, error, 'name')} onSubmitEditing={onSubmit} testID="person-name" />
-      <TextField label="E-mail (optional)" value={values.email} onChangeText={(email) => set({ email })} autoCapitalize="none" inputMode="email" error={fieldError(errors, error, 'email')} onSubmitEditing={onSubmit} testID="person-email" />
-      <TextField label="Contracted hours per week" value={values.hours} onChangeText={(hours) => set({ hours })} inputMode="decimal" placeholder="e.g. 37.5" error={fieldError(errors, error, 'contractedHours')} onSubmitEditing={onSubmit} testID="person-hours" />
+      {text('name', 'Name', 'person-name')}
+      {text('email', 'E-mail (optional)', 'person-email', { autoCapitalize: 'none', inputMode: 'email' })}
+      {text('contractedHours', 'Contracted hours per week', 'person-hours', { inputMode: 'decimal', placeholder: 'e.g. 37.5' })}
       <View style={styles.skills} role="group" aria-label="Skills">
         <Body bold>Skills</Body>
         {skills.isPending ? (
@@ -176,13 +191,25 @@ function PersonFields({ values, onChange, errors, error, onSubmit }: { values: V
         ) : skills.data.length === 0 ? (
           <Body muted>No skills yet. Add them under People → Skills.</Body>
         ) : (
-          <View style={styles.chips}>
-            {skills.data.map((s) => (
-              <Chip key={s.id} label={s.name} selected={values.skillIds.includes(s.id)} onPress={() => toggle(s.id)} testID={`person-skill-${s.name}`} />
-            ))}
-          </View>
+          <Controller
+            control={form.control}
+            name="skillIds"
+            render={({ field }) => (
+              <View style={styles.chips}>
+                {skills.data.map((s) => (
+                  <Chip
+                    key={s.id}
+                    label={s.name}
+                    selected={field.value.includes(s.id)}
+                    onPress={() => field.onChange(field.value.includes(s.id) ? field.value.filter((x) => x !== s.id) : [...field.value, s.id])}
+                    testID={`person-skill-${s.name}`}
+                  />
+                ))}
+              </View>
+            )}
+          />
         )}
-        {fieldError(errors, error, 'skillIds') ? <Notice>{fieldError(errors, error, 'skillIds')!}</Notice> : null}
+        {messageFor(errors, error, 'skillIds') ? <Notice>{messageFor(errors, error, 'skillIds')!}</Notice> : null}
       </View>
     </View>
   );

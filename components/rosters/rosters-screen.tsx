@@ -1,6 +1,6 @@
-import { useState } from 'react';
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { Controller, useForm } from 'react-hook-form';
 import { colors, radius, space } from '@/constants/theme';
 import { createRosterBody } from '@/shared/api/rosters';
 import { useSession } from '@/hooks/api/get-session';
@@ -12,7 +12,8 @@ import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-lim
 import { TextField } from '@/components/ui/text-field';
 import { DateField } from '@/components/ui/date-field';
 import { Body, Heading } from '@/components/ui/typography';
-import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
+import { formError } from '@/components/forms/form-errors';
+import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { Loadable, Panel, Pill } from './parts';
 import { periodWords } from './format';
 
@@ -60,34 +61,44 @@ function RosterList() {
   );
 }
 
+interface NewRoster {
+  name: string;
+  periodStart: string;
+  periodEnd: string;
+  timeZone: string;
+}
+const NAMES = ['name', 'periodStart', 'periodEnd', 'timeZone'] as const;
+const resolver = bodyResolver(createRosterBody, (v: NewRoster) => v);
+
 function CreateRoster({ timeZone }: { timeZone?: string }) {
   const create = useCreateRoster();
-  const [name, setName] = useState('');
-  const [periodStart, setStart] = useState('');
-  const [periodEnd, setEnd] = useState('');
-  const [zone, setZone] = useState(timeZone ?? 'Europe/London');
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const submit = () => {
-    const checked = checkForm(createRosterBody, { name, periodStart, periodEnd, timeZone: zone });
-    setErrors(checked.errors ?? {});
-    if (checked.data) create.mutate(checked.data, { onSuccess: () => { setName(''); setStart(''); setEnd(''); } });
-  };
-  const names = ['name', 'periodStart', 'periodEnd', 'timeZone'];
+  const form = useForm({ defaultValues: { name: '', periodStart: '', periodEnd: '', timeZone: timeZone ?? 'Europe/London' }, resolver });
+  const submit = form.handleSubmit((body) => create.mutate(body, { onSuccess: () => form.reset({ ...form.getValues(), name: '', periodStart: '', periodEnd: '' }) }));
+  const error = (name: (typeof NAMES)[number]) => messageFor(form.formState.errors, create.error, name);
+  const periodStart = form.watch('periodStart');
   return (
     <Panel title="Start a roster" lead="The period's first and last day, and the time zone its shift times are in.">
-      <TextField label="Name" value={name} onChangeText={setName} error={fieldError(errors, create.error, 'name')} testID="roster-name" />
+      <Controller control={form.control} name="name" render={({ field }) => <TextField label="Name" value={field.value} onChangeText={field.onChange} onBlur={field.onBlur} error={error('name')} testID="roster-name" />} />
       <View style={styles.row}>
         <View style={styles.cell}>
-          <DateField label="First day" value={periodStart} onChange={setStart} error={fieldError(errors, create.error, 'periodStart')} testID="roster-start" />
+          <Controller control={form.control} name="periodStart" render={({ field }) => <DateField label="First day" value={field.value} onChange={field.onChange} error={error('periodStart')} testID="roster-start" />} />
         </View>
         <View style={styles.cell}>
-          <DateField label="Last day" value={periodEnd} onChange={setEnd} minDate={/^\d{4}-\d{2}-\d{2}$/.test(periodStart) ? periodStart : undefined} error={fieldError(errors, create.error, 'periodEnd')} testID="roster-end" />
+          <Controller
+            control={form.control}
+            name="periodEnd"
+            render={({ field }) => <DateField label="Last day" value={field.value} onChange={field.onChange} minDate={/^\d{4}-\d{2}-\d{2}$/.test(periodStart) ? periodStart : undefined} error={error('periodEnd')} testID="roster-end" />}
+          />
         </View>
       </View>
-      <TextField label="Time zone (IANA, e.g. Europe/London)" value={zone} onChangeText={setZone} autoCapitalize="none" error={fieldError(errors, create.error, 'timeZone')} testID="roster-zone" />
-      {isBillingRefusal(create.error) ? <PlanLimitPrompt error={create.error} /> : formError(create.error, names) ? <Notice>{formError(create.error, names)!}</Notice> : null}
+      <Controller
+        control={form.control}
+        name="timeZone"
+        render={({ field }) => <TextField label="Time zone (IANA, e.g. Europe/London)" value={field.value} onChangeText={field.onChange} onBlur={field.onBlur} autoCapitalize="none" error={error('timeZone')} testID="roster-zone" />}
+      />
+      {isBillingRefusal(create.error) ? <PlanLimitPrompt error={create.error} /> : formError(create.error, [...NAMES]) ? <Notice>{formError(create.error, [...NAMES])!}</Notice> : null}
       {create.isSuccess ? <Notice kind="info">{`Roster “${create.data.name}” created. Open it above to add shift patterns.`}</Notice> : null}
-      <Button label="Create roster" onPress={submit} busy={create.isPending} testID="roster-create" />
+      <Button label="Create roster" onPress={() => void submit()} busy={create.isPending} testID="roster-create" />
     </Panel>
   );
 }

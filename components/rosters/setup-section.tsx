@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { Controller, useFieldArray, useForm } from 'react-hook-form';
 import { colors, radius, space } from '@/constants/theme';
 import { patternBody, updateShiftBody } from '@/shared/api/rosters';
 import { useSkills } from '@/hooks/api/get-skills';
@@ -17,6 +18,7 @@ import { DateField } from '@/components/ui/date-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
+import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { Choices, Loadable, Panel } from './parts';
 import { dayWords, timeOf } from './format';
 
@@ -54,65 +56,70 @@ function useSkillOptions() {
   return { options, name, skills };
 }
 
+/** As typed: seat counts are text until the shared pattern schema reads them. */
+interface PatternValues {
+  label: string;
+  weekdays: Weekday[];
+  startTime: string;
+  endTime: string;
+  seats: Array<{ skill: string; count: string }>;
+}
+const toPattern = (v: PatternValues): PatternInput => ({ ...v, seats: v.seats.map((s) => ({ skillId: s.skill === 'any' ? null : Number(s.skill), count: Number(s.count) })) });
+const patternResolver = bodyResolver(patternBody, toPattern);
+const NEW_PATTERN: PatternValues = { label: '', weekdays: ['mon', 'tue', 'wed', 'thu', 'fri'], startTime: '07:00', endTime: '15:00', seats: [{ skill: 'any', count: '2' }] };
+
 function PatternForm({ roster }: { roster: RosterDto }) {
   const { options, name } = useSkillOptions();
   const preview = usePreviewPattern();
   const create = useCreatePattern();
-  const [label, setLabel] = useState('');
-  const [weekdays, setWeekdays] = useState<Weekday[]>(['mon', 'tue', 'wed', 'thu', 'fri']);
-  const [startTime, setStart] = useState('07:00');
-  const [endTime, setEnd] = useState('15:00');
-  const [seats, setSeats] = useState<Array<{ skill: string; count: string }>>([{ skill: 'any', count: '2' }]);
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const values = (): PatternInput => ({ label, weekdays, startTime, endTime, seats: seats.map((s) => ({ skillId: s.skill === 'any' ? null : Number(s.skill), count: Number(s.count) })) });
-  const check = () => {
-    const checked = checkForm(patternBody, values());
-    setErrors(checked.errors ?? {});
-    return checked.data;
-  };
+  const form = useForm({ defaultValues: NEW_PATTERN, resolver: patternResolver });
+  const seats = useFieldArray({ control: form.control, name: 'seats' });
   const frozen = roster.status === 'published';
   const names = ['label', 'weekdays', 'startTime', 'endTime', 'seats', 'count', 'skillId'];
   const error = create.error ?? preview.error;
+  const messageOf = (field: string) => messageFor(form.formState.errors, error, field);
+  const seatsError = form.formState.errors.seats?.message ?? form.formState.errors.seats?.root?.message ?? messageOf('seats');
+  // The same check for both buttons: the parsed pattern or the messages on the fields.
+  const showPreview = form.handleSubmit((pattern) => preview.mutate({ rosterId: roster.id, pattern }));
+  const save = form.handleSubmit((pattern) => create.mutate({ rosterId: roster.id, pattern }, { onSuccess: () => { form.setValue('label', ''); preview.reset(); } }));
   // A published roster is frozen: the form would only lead to a refused save.
   if (frozen) return <Panel title="Add a shift pattern" testID="pattern-frozen"><Notice kind="info">The roster is published and frozen. Reopen it (Publish) to add or change shift patterns.</Notice></Panel>;
   return (
     <Panel title="Add a shift pattern" lead="A recurring shift: the weekdays it runs, its times, and how many seats of which skill. It makes dated shifts over the whole period.">
-      <TextField label="Pattern label" value={label} onChangeText={setLabel} placeholder="early, late, night…" error={fieldError(errors, error, 'label')} testID="pattern-label" />
+      <Controller control={form.control} name="label" render={({ field }) => <TextField label="Pattern label" value={field.value} onChangeText={field.onChange} onBlur={field.onBlur} placeholder="early, late, night…" error={messageOf('label')} testID="pattern-label" />} />
       <Body bold>Weekdays</Body>
-      <Choices label="Weekdays" multi options={[...WEEKDAYS]} value={weekdays} onChange={setWeekdays} testID="pattern-weekdays" />
-      {fieldError(errors, error, 'weekdays') ? <Notice>{fieldError(errors, error, 'weekdays')!}</Notice> : null}
+      <Controller control={form.control} name="weekdays" render={({ field }) => <Choices label="Weekdays" multi options={[...WEEKDAYS]} value={field.value} onChange={field.onChange} testID="pattern-weekdays" />} />
+      {messageOf('weekdays') ? <Notice>{messageOf('weekdays')!}</Notice> : null}
       <View style={styles.row}>
         <View style={styles.cell}>
-          <TimeField label="Starts" value={startTime} onChange={setStart} error={fieldError(errors, error, 'startTime')} testID="pattern-start" />
+          <Controller control={form.control} name="startTime" render={({ field }) => <TimeField label="Starts" value={field.value} onChange={field.onChange} error={messageOf('startTime')} testID="pattern-start" />} />
         </View>
         <View style={styles.cell}>
-          <TimeField label="Ends (earlier = next day)" value={endTime} onChange={setEnd} error={fieldError(errors, error, 'endTime')} testID="pattern-end" />
+          <Controller control={form.control} name="endTime" render={({ field }) => <TimeField label="Ends (earlier = next day)" value={field.value} onChange={field.onChange} error={messageOf('endTime')} testID="pattern-end" />} />
         </View>
       </View>
       <Body bold>Seats by skill</Body>
-      {seats.map((s, i) => (
-        <View key={i} style={styles.seatRow}>
+      {seats.fields.map((s, i) => (
+        <View key={s.id} style={styles.seatRow}>
           <View style={{ flex: 1, minWidth: 200 }}>
-            <Choices label={`Skill for seat group ${i + 1}`} options={options} value={[s.skill]} onChange={(v) => setSeats(seats.map((x, j) => (j === i ? { ...x, skill: v[0] } : x)))} />
+            <Controller control={form.control} name={`seats.${i}.skill`} render={({ field }) => <Choices label={`Skill for seat group ${i + 1}`} options={options} value={[field.value]} onChange={(v) => field.onChange(v[0])} />} />
           </View>
           <View style={{ width: 110 }}>
-            <TextField label={`How many (group ${i + 1})`} value={s.count} onChangeText={(count) => setSeats(seats.map((x, j) => (j === i ? { ...x, count } : x)))} inputMode="numeric" />
+            <Controller
+              control={form.control}
+              name={`seats.${i}.count`}
+              render={({ field }) => <TextField label={`How many (group ${i + 1})`} value={field.value} onChangeText={field.onChange} onBlur={field.onBlur} inputMode="numeric" error={form.formState.errors.seats?.[i]?.count?.message} />}
+            />
           </View>
-          {seats.length > 1 ? <Button kind="quiet" label="Remove" onPress={() => setSeats(seats.filter((_, j) => j !== i))} /> : null}
+          {seats.fields.length > 1 ? <Button kind="quiet" label="Remove" onPress={() => seats.remove(i)} /> : null}
         </View>
       ))}
-      {fieldError(errors, error, 'seats') ? <Notice>{fieldError(errors, error, 'seats')!}</Notice> : null}
-      <Button kind="quiet" label="Add seats with another skill" onPress={() => setSeats([...seats, { skill: 'any', count: '1' }])} />
+      {seatsError ? <Notice>{seatsError}</Notice> : null}
+      <Button kind="quiet" label="Add seats with another skill" onPress={() => seats.append({ skill: 'any', count: '1' })} />
       {formError(error, names) ? <Notice>{formError(error, names)!}</Notice> : null}
       <View style={styles.row}>
-        <Button kind="quiet" label="Preview shifts" onPress={() => { const data = check(); if (data) preview.mutate({ rosterId: roster.id, pattern: data }); }} busy={preview.isPending} testID="pattern-preview" />
-        <Button
-          label="Save pattern"
-          disabled={frozen}
-          onPress={() => { const data = check(); if (data) create.mutate({ rosterId: roster.id, pattern: data }, { onSuccess: () => { setLabel(''); preview.reset(); } }); }}
-          busy={create.isPending}
-          testID="pattern-save"
-        />
+        <Button kind="quiet" label="Preview shifts" onPress={() => void showPreview()} busy={preview.isPending} testID="pattern-preview" />
+        <Button label="Save pattern" disabled={frozen} onPress={() => void save()} busy={create.isPending} testID="pattern-save" />
       </View>
       {preview.data ? (
         <View style={styles.preview} testID="pattern-preview-list" aria-label="Preview of generated shifts">
