@@ -34,6 +34,7 @@ import { suggestionRouter } from './learning/router';
 import { mySwapsRouter, swapsRouter } from './swaps/router';
 import { offerRouters } from './offers/router';
 import { ledgerRouters } from './ledger/router';
+import { compareRouter } from './runs/compare-router';
 
 export interface AppDeps {
   env: Env;
@@ -101,6 +102,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   const [ledgerRouter, myLedgerRouter] = ledgerRouters();
   api.use('/ledger', ledgerRouter);
   api.use('/me', myLedgerRouter);
+  api.use('/rosters', compareRouter());
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/billing', billingRouter(env));

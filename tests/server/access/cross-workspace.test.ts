@@ -53,6 +53,7 @@ const bodies: Record<string, unknown> = {
 /** Queries a GET route validates before it looks up the roster (a valid one, so the scope is what answers). */
 const queries: Record<string, string> = {
   'get /api/rosters/:rosterId/publish-preview': 'runId=1',
+  'get /api/rosters/:rosterId/compare': 'a=1&b=2',
 };
 
 /**
