@@ -20,14 +20,15 @@ const MAX_STREAM_MS = 10 * 60_000;
  */
 export function runEventStream(view: (run: RunRow) => Promise<Record<string, unknown>>): RequestHandler {
   return async (req: Request, res: Response) => {
-    // Only for clients that say they read streams (EventSource always sends this Accept, WHATWG HTML
-    // §9.2.4): anything else would wait for an answer that, for an unfinished run, does not end.
-    if (!/\btext\/event-stream\b/i.test(req.get('accept') ?? '')) {
-      throw new HttpError(406, 'bad_request', 'This address answers with a stream of server-sent events; ask for text/event-stream, or read GET /api/runs/:id.', [{ path: 'headers.accept', message: 'must include text/event-stream' }]);
-    }
     const where = { id: Number(req.params.id), workspaceId: req.auth!.workspaceId };
     const first = await RunRow.findOne({ where, attributes: { exclude: ['result'] } });
     if (!first) throw notFound('Run');
+    // Another workspace's id is a 404 first, as everywhere. Then: only for clients that say they
+    // read streams (EventSource always sends this Accept, WHATWG HTML §9.2.4); anything else would
+    // wait for an answer that, for an unfinished run, does not end.
+    if (!/\btext\/event-stream\b/i.test(req.get('accept') ?? '')) {
+      throw new HttpError(406, 'bad_request', 'This address answers with a stream of server-sent events; ask for text/event-stream, or read GET /api/runs/:id.', [{ path: 'headers.accept', message: 'must include text/event-stream' }]);
+    }
     // no-transform keeps compression (server/app.ts) from buffering the stream; X-Accel-Buffering does the same for nginx.
     res.status(200).set({ 'Content-Type': 'text/event-stream; charset=utf-8', 'Cache-Control': 'no-cache, no-transform', 'X-Accel-Buffering': 'no' });
     res.flushHeaders();
