@@ -17,7 +17,7 @@ import {
   type AbsenceDecisionDto,
 } from '../../shared/api/absences';
 import { enforcePlanLimit, requireRunsAllowed } from '../billing/limits';
-import { Roster } from '../rosters/models';
+import { rosterStatus } from '../rosters/repository';
 import { absenceSettings, createAbsence, decideAbsence, deleteAbsence, listAbsences, putAbsenceSettings, updateAbsence } from './repository';
 import { absenceConflicts } from './conflicts';
 import { importAbsences } from './import';
@@ -72,7 +72,7 @@ export function absencesRouter(deps: { env: Env; mailer: Mailer }) {
 }
 
 /** A published roster is reopened by a cover run, and a reopened roster counts as one in progress again (as for /reopen). */
-const reopening = async (req: Request) => ((await Roster.findOne({ where: { id: Number(req.params.rosterId), workspaceId: ws(req) }, attributes: ['status'] }))?.status === 'published' ? 1 : 0);
+const reopening = async (req: Request) => ((await rosterStatus(ws(req), Number(req.params.rosterId))) === 'published' ? 1 : 0);
 
 /** /api/rosters/:rosterId/absence-cover: mounted with the other roster routers. */
 export function absenceCoverRouter() {

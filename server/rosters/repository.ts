@@ -27,6 +27,16 @@ export const toRosterDto = (r: Roster): RosterDto => ({
   version: r.version,
 });
 
+/** The roster's status, or null when the workspace has no such roster (a cheap read for checks before a handler). */
+export async function rosterStatus(workspaceId: number, id: number): Promise<Roster['status'] | null> {
+  return (await Roster.findOne({ where: { id, workspaceId }, attributes: ['status'] }))?.status ?? null;
+}
+
+/** A 404 naming the path's roster id unless the workspace has that roster, so another workspace's id is a plain 404. */
+export async function requireRoster(workspaceId: number, id: number): Promise<void> {
+  if ((await rosterStatus(workspaceId, id)) === null) throw new HttpError(404, 'not_found', 'Roster not found', [{ path: 'params.rosterId', message: 'no such roster in this workspace' }]);
+}
+
 export async function findRoster(workspaceId: number, id: number): Promise<Roster> {
   const r = await Roster.findOne({ where: { id, workspaceId } });
   if (!r) throw notFound('Roster');

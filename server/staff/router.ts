@@ -10,7 +10,7 @@ import { idParams } from '../../shared/api/paging';
 import { rosterChildParams, rosterIdParams } from '../../shared/api/rosters';
 import { myShiftsQuery, myWishBody, pairingRequestBody, weeklyWishBody } from '../../shared/api/staff';
 import { Workspace } from '../db/models';
-import { Roster } from '../rosters/models';
+import { requireRoster } from '../rosters/repository';
 import { calendarForToken, feedStatus, resetFeed, stopFeed } from './feed';
 import { colleagues, myPairingRequests, requestPairing, withdrawPairingRequest } from './pairings';
 import { localToday, myShifts } from './shifts';
@@ -39,9 +39,7 @@ function assertSelf(body: { personId?: number }, person: Person): void {
 }
 
 /** An id in the path is looked up in the caller's workspace first, so another workspace's id is a plain 404. */
-async function rosterInWorkspace(req: Request): Promise<void> {
-  if (!(await Roster.findOne({ where: { id: Number(req.params.rosterId), workspaceId: ws(req) }, attributes: ['id'] }))) throw new HttpError(404, 'not_found', 'Roster not found');
-}
+const rosterInWorkspace = (req: Request) => requireRoster(ws(req), Number(req.params.rosterId));
 
 /** /api/me: a staff member's own shifts, wishes, pairing requests and calendar feed (issue 7). */
 export function staffRouter(deps: { env: Env; mailer: Mailer }) {
