@@ -17,12 +17,16 @@ const log = (line: string) => console.log(`[rotaloom] ${line}`);
 /** `npm start` after its port check: MariaDB, migrations, demo seed, fakes, web build and the server, stopped cleanly on Ctrl-C. */
 export async function startStack(env: Env): Promise<void> {
   ensureDebianPackages(env.redis.external ? MARIADB : [...MARIADB, ...REDIS]);
-  const [db, redis, web] = await Promise.all([
+  const servers = [
     startMariaDb({ dataDir: path.join(env.dataDir, 'mariadb'), port: env.db.port, useRunning: env.useRunningDb }),
     // The queue of solve jobs; ROTALOOM_REDIS_URL means someone else runs it.
     env.redis.external ? Promise.resolve(null) : startRedis({ dataDir: path.join(env.dataDir, 'redis'), port: env.redis.port }),
-    buildWebIfChanged(rootDir, env.webDir),
-  ]);
+  ] as const;
+  const [db, redis, web] = await Promise.all([...servers, buildWebIfChanged(rootDir, env.webDir)]).catch(async (err: unknown) => {
+    // One refused (another checkout's, a busy port): the other, started meanwhile, must not outlive us.
+    for (const settled of await Promise.allSettled(servers)) if (settled.status === 'fulfilled') await settled.value?.stop();
+    throw err;
+  });
   log(`web app ${web}`);
   const cleanups: Array<() => Promise<unknown>> = [() => db.stop()];
   if (redis) cleanups.push(() => redis.stop());
