@@ -7,7 +7,7 @@ import type { Roster } from '../../shared/roster/schema';
 import type { SeatAlternativesAnswer, SeatContestAnswer } from '../../shared/api/seat-alternatives';
 import { finite } from './execute';
 import { computeInThread, stopAlternativesThread } from './alternatives-pool';
-import { loadContest, type RunContest } from './contest';
+import { loadContest, type RunContest } from './seat-contention';
 import { runAssignment } from './run-view';
 
 /** Finished answers per run, seat and roster state (the same roster state gives the same answer). */
@@ -29,7 +29,7 @@ export function forgetSeatAlternatives(): void {
 // a no-break space keeps "17 %" on one line
 const pct = (p: number) => (p >= 0.995 ? 'over 99\u00a0%' : p < 0.01 ? 'under 1\u00a0%' : `${Math.round(p * 100)}\u00a0%`);
 
-/** "How contested" in words, from the marginals the run worker kept (server/runs/contest.ts). */
+/** "How contested" in words, from the marginals the run worker kept (server/runs/seat-contention.ts). */
 function contestOf(contest: RunContest | null, seatKey: string, pinnedInRun: boolean, holderName: string | null, name: (id: string | null) => string | null): { words: string; detail: SeatContestAnswer | null; method: string | null } {
   const c = contest?.seats[seatKey];
   if (!contest || !c) return { words: 'How contested this seat is was not worked out for this run (a hand-edited save, a run from before this was added, or a roster too large to weigh in the time allowed).', detail: null, method: null };

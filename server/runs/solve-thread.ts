@@ -1,13 +1,13 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { computeMarginals } from '../../solver/inference/marginals';
 import { executeRun } from './execute';
-import { summariseContest } from './contest';
+import { summariseContest } from './seat-contention';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 
 /**
  * Runs one solve off the server's event loop. Messages out: progress, then done or failed; after
  * done, when asked for (`marginalsMs`), a 'contest' message with the run's sum-product marginals
- * (server/runs/contest.ts). The run worker waits a bounded time for it and then ends the thread,
+ * (server/runs/seat-contention.ts). The run worker waits a bounded time for it and then ends the thread,
  * so a model too large for one sum-product pass simply has none.
  * Message in: 'cancel', which stops the solver at its next step with the best roster so far.
  */

@@ -5,7 +5,7 @@ import { manualRunBody, priceConcessionBody, rosterIdParams, runIdParams, seatAl
 import { refuseWhenPublished } from '../rosters/publish';
 import { saveManualRun } from './manual';
 import { refuseUnfinished } from './alternatives';
-import { concessionsOf } from './price';
+import { concessionsOf } from './concession-price';
 import { RunRow } from '../rosters/models';
 import { computeOnWorker } from '../queue/queues';
 import { findRun } from './run-view';

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { rosterSchema, type Roster, type RosterAssignment } from '../../../shared/roster/schema';
 import { scoreRoster } from '../../../solver/roster/score-roster';
-import { enforce, type StoredViolation } from '../../../server/runs/price';
+import { enforce, type StoredViolation } from '../../../server/runs/concession-price';
 import { days, roster } from '../../solver/roster/rule-helpers';
 
 function* fillings(r: Roster): Generator<RosterAssignment> {
