@@ -144,7 +144,11 @@ async function shownAt(page: Page, selector: string, timeoutMs = 120_000): Promi
     },
     selector,
     { timeout: timeoutMs, polling: 'raf' },
-  );
+  ).catch(async (err: unknown) => {
+    const shot = path.join(os.tmpdir(), `rotaloom-web-bench-${Date.now()}.png`);
+    await page.screenshot({ path: shot }).catch(() => {});
+    throw new Error(`${page.url()}: ${selector} not shown (screenshot ${shot}): ${err instanceof Error ? err.message : String(err)}`);
+  });
   return Number(await handle.jsonValue());
 }
 
@@ -238,7 +242,8 @@ async function main(): Promise<number> {
   const tmp = mkdtempSync(path.join(os.tmpdir(), 'rotaloom-web-bench-'));
   const cleanups: Array<() => Promise<unknown>> = [];
   try {
-    const webDir = argValue('web-dir') ?? path.join(rootDir, '.data', 'bench-web');
+    // Not under .data/: express.static will not serve from a folder whose name starts with a dot.
+    const webDir = path.resolve(argValue('web-dir') ?? path.join(os.tmpdir(), 'rotaloom-bench-web'));
     if (!argValue('web-dir')) console.log(`web app ${await buildWebIfChanged(rootDir, webDir)} (${webDir})`);
     const dbPort = await freePort();
     const db = await startMariaDb({ dataDir: path.join(tmp, 'mariadb'), port: dbPort, log: () => {} });
