@@ -144,13 +144,14 @@ export class AssignmentRow extends Model<Attrs<AssignmentRow>, Creation<Assignme
 }
 
 const pk = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const int = DataTypes.INTEGER.UNSIGNED;
+/** Column helpers shared by the workspace-scoped models (here and server/swaps/models.ts). */
+export const int = DataTypes.INTEGER.UNSIGNED;
 // Defaults repeated from the migration so a freshly created instance carries them without a reload.
-const version = { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 };
-const common = { id: pk, workspaceId: int, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
-const opts = (sequelize: Sequelize, tableName: string) => ({ sequelize, tableName, underscored: true });
+export const version = { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 };
+export const common = { id: pk, workspaceId: int, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
+export const opts = (sequelize: Sequelize, tableName: string) => ({ sequelize, tableName, underscored: true });
 /** The driver hands JSON columns back as strings on MariaDB (JSON is LONGTEXT there). */
-const json = (name: string) => ({
+export const json = (name: string) => ({
   type: DataTypes.JSON,
   get(this: Model) {
     const raw = this.getDataValue(name) as unknown;

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { ChangeCheck } from '../../shared/api/swaps';
+import { common, int, json, opts, version } from '../rosters/models';
 
 type Attrs<M extends Model> = InferAttributes<M>;
 type Creation<M extends Model> = InferCreationAttributes<M>;
@@ -69,20 +70,6 @@ export class HolidayRow extends Model<Attrs<HolidayRow>, Creation<HolidayRow>> {
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
-
-const pk = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const int = DataTypes.INTEGER.UNSIGNED;
-const version = { type: DataTypes.INTEGER.UNSIGNED, defaultValue: 1 };
-const common = { id: pk, workspaceId: int, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
-const opts = (sequelize: Sequelize, tableName: string) => ({ sequelize, tableName, underscored: true });
-/** MariaDB keeps JSON as LONGTEXT and the driver hands it back as a string. */
-const json = (name: string) => ({
-  type: DataTypes.JSON,
-  get(this: Model) {
-    const raw = this.getDataValue(name) as unknown;
-    return typeof raw === 'string' ? JSON.parse(raw) : raw;
-  },
-});
 
 export function initSwapModels(sequelize: Sequelize): void {
   SwapRow.init(
