@@ -9,7 +9,6 @@ import * as m0007 from './0007-absences-terms';
 import * as m0008 from './0008-nothing-lost';
 import * as m0010 from './0010-preferences';
 import * as m0011 from './0011-swaps-offers-ledger';
-import * as m0011 from './0011-swaps-offers-ledger';
 import * as m0012 from './0012-sign-in-counters';
 
 export interface Migration {
@@ -30,7 +29,6 @@ export const migrations: Migration[] = [
   { name: '0008-nothing-lost', ...m0008 },
   // kept last: migrations others add (0009…) go before it
   { name: '0010-preferences', ...m0010 },
-  { name: '0011-swaps-offers-ledger', ...m0011 },
   { name: '0011-swaps-offers-ledger', ...m0011 },
   { name: '0012-sign-in-counters', ...m0012 },
 ];
