@@ -17,6 +17,7 @@ import { ResultSection } from './result-section';
 import { EditSection } from './edit-section';
 import { PublishSection } from './publish-section';
 import { CopyForwardPanel } from './copy-forward-panel';
+import { LinkButton } from '@/components/people/parts';
 import { Button } from '@/components/ui/button';
 import { CautionLine } from '@/components/ui/caution-line';
 
@@ -59,6 +60,7 @@ export function RosterScreen() {
             </View>
             <Pill tone={r.status === 'published' ? 'good' : r.status === 'solved' ? 'warn' : 'plain'}>{r.status}</Pill>
             {!copying ? <Button kind="quiet" label="Copy forward…" onPress={() => setCopying(true)} testID="copy-forward-open-panel" /> : null}
+            <LinkButton href={`/compare?roster=${r.id}`} label="Compare runs" testID="compare-runs-link" />
           </View>
           {copying ? <CopyForwardPanel key={r.id} roster={r} onClose={() => setCopying(false)} /> : null}
           {/* Once for every tab of the roster (fix 13), instead of a band on each. */}

@@ -1,0 +1,3 @@
+import { CompareScreen } from '@/components/compare/compare-screen';
+
+export default CompareScreen;

@@ -1,0 +1,3 @@
+import { LedgerScreen } from '@/components/ledger/ledger-screen';
+
+export default LedgerScreen;
