@@ -124,7 +124,8 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
   // free" test or a soft −weight), so dropping them only raises the maximum: still a bound.
   const nSeatVars = compiled.seatIds.length;
   const domains = compiled.domains.slice(0, nSeatVars);
-  const touchesAux = (f: Model['factors'][number]) => ('v' in f ? (f as { v: number }).v >= nSeatVars : 'vars' in f ? (f as { vars: ArrayLike<number> }).vars.length > 0 && Array.from((f as { vars: ArrayLike<number> }).vars).some((v) => v >= nSeatVars) : false);
+  // compile.ts makes aux variables only in unaries and counting factors
+  const touchesAux = (f: Model['factors'][number]) => (f.kind === 'unary' ? f.v >= nSeatVars : f.kind === 'counting' ? f.vars.some((v) => v >= nSeatVars) : false);
   const maxLookback = opts.maxLookback ?? 6;
   const maxTransitions = opts.maxTransitions ?? 12_000_000;
   const nSeats = domains.length;
