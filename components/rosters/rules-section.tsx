@@ -112,7 +112,7 @@ function RuleRow({ rule, form, rosterId }: { rule: RuleEntry; form: ReturnType<t
   return (
     <View style={styles.rule} testID={`rule-${rule.id}`}>
       <Body bold>{rule.name}</Body>
-      <Body muted>{`${rule.description.replace(/`/g, '')} Source: ${rule.sourceText}.`}</Body>
+      <Body muted>{`${describe(rule, form.watch(rule.id))} Source: ${rule.sourceText}.`}</Body>
       <Controller
         control={form.control}
         name={`${rule.id}.mode`}
@@ -141,6 +141,16 @@ function RuleRow({ rule, form, rosterId }: { rule: RuleEntry; form: ReturnType<t
       ) : null}
     </View>
   );
+}
+
+/** The catalogue's description with each `field` read as its value in the form ("In every 7 consecutive days"). */
+function describe(rule: RuleEntry, draft: RuleDraft): string {
+  return rule.description.replace(/`(\w+)`/g, (_, name: string) => {
+    if (!rule.fields.some((f) => f.name === name)) return 'the required number of';
+    const v = text(draft?.[name]).trim();
+    if (!v) return name === 'referenceDays' ? 'a reference period' : 'the value below';
+    return /hours/i.test(name) ? `${v} h` : v;
+  });
 }
 
 function NumberField({ form, name, label, error }: { form: ReturnType<typeof useForm<FormValues>>; name: string; label: string; error?: string }) {
