@@ -99,10 +99,12 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
       if (account.subscriptionId === sub.id && account.subscriptionEventAt !== null && event.created < account.subscriptionEventAt) {
         return { workspaceId, outcome: 'ignored: older than the state already applied' };
       }
-      // Event times have whole seconds: within one second, the subscription's own life decides
-      // (incomplete → trialing → active → past due → unpaid → canceled), so it never steps back.
+      // Event times have whole seconds: within one second, arrival order stands unless the
+      // subscription's life rules the step out (nothing follows cancelled; once started, a
+      // subscription never goes back to incomplete or trial). Past due → active is a payment
+      // recovered and stands.
       const incoming = event.type === 'customer.subscription.deleted' ? 'canceled' : sub.status;
-      if (account.subscriptionId === sub.id && event.created === account.subscriptionEventAt && lifeStage(incoming) < lifeStage(account.status)) {
+      if (account.subscriptionId === sub.id && event.created === account.subscriptionEventAt && cannotFollow(account.status, incoming)) {
         return { workspaceId, outcome: 'ignored: same second as the state already applied, and earlier in the subscription\'s life' };
       }
       const item = sub.items.data[0];
@@ -153,5 +155,10 @@ async function apply(event: Stripe.Event, transaction: Transaction): Promise<{ w
 }
 
 const PAYMENT_TROUBLE: SubscriptionStatus[] = ['past_due', 'unpaid'];
-const LIFE: Partial<Record<SubscriptionStatus, number>> = { incomplete: 0, incomplete_expired: 1, trialing: 1, active: 2, past_due: 3, paused: 3, unpaid: 4, canceled: 5 };
-const lifeStage = (status: string) => LIFE[status as SubscriptionStatus] ?? 0;
+const BEFORE_START: string[] = ['incomplete', 'incomplete_expired', 'trialing'];
+const STARTED: string[] = ['active', 'past_due', 'unpaid', 'paused'];
+function cannotFollow(current: string, incoming: string): boolean {
+  if (current === incoming) return false;
+  if (current === 'canceled') return true;
+  return STARTED.includes(current) && BEFORE_START.includes(incoming);
+}

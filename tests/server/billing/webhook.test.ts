@@ -141,8 +141,19 @@ describe('payment webhook', () => {
     const res = await post(incomplete, signed(incomplete));
     expect(res.body.outcome).toMatch(/same second/);
     expect((await BillingAccount.findByPk(ws.id))?.status).toBe('active');
+    // A failed renewal and the card fixed in the portal within the same second: past due → active stands.
+    const pastDue = JSON.stringify(subscriptionEvent(ws.id, { status: 'past_due', created: t }));
+    await post(pastDue, signed(pastDue));
+    expect((await BillingAccount.findByPk(ws.id))?.status).toBe('past_due');
+    const recovered = JSON.stringify(subscriptionEvent(ws.id, { status: 'active', created: t }));
+    await post(recovered, signed(recovered));
+    expect((await BillingAccount.findByPk(ws.id))?.status).toBe('active');
     const deleted = JSON.stringify(subscriptionEvent(ws.id, { status: 'canceled', type: 'customer.subscription.deleted', created: t }));
     await post(deleted, signed(deleted));
+    expect((await BillingAccount.findByPk(ws.id))?.status).toBe('canceled');
+    // Nothing follows cancelled within its second.
+    const revived = JSON.stringify(subscriptionEvent(ws.id, { status: 'active', created: t }));
+    expect((await post(revived, signed(revived))).body.outcome).toMatch(/same second/);
     expect((await BillingAccount.findByPk(ws.id))?.status).toBe('canceled');
   });
 
