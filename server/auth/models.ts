@@ -33,6 +33,26 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   declare updatedAt: CreationOptional<Date>;
 }
 
+/**
+ * A sign-up waiting for its e-mailed link. `existingUserId` marks one made for an address that
+ * already had an account: its token is never sent, so it can never be finished.
+ */
+export class SignUpRequest extends Model<InferAttributes<SignUpRequest>, InferCreationAttributes<SignUpRequest>> {
+  declare id: CreationOptional<number>;
+  declare email: string;
+  declare tokenHash: string;
+  declare existingUserId: CreationOptional<number | null>;
+  declare displayName: CreationOptional<string | null>;
+  declare workspaceName: CreationOptional<string | null>;
+  declare timeZone: CreationOptional<string | null>;
+  declare passwordHash: CreationOptional<string | null>;
+  declare expiresAt: Date;
+  declare usedAt: CreationOptional<Date | null>;
+  declare userId: CreationOptional<number | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
 export class SignInAttempt extends Model<InferAttributes<SignInAttempt>, InferCreationAttributes<SignInAttempt>> {
   declare id: CreationOptional<number>;
   declare email: string;
@@ -79,6 +99,23 @@ export function initAccountModels(sequelize: Sequelize): ModelStatic<Model> {
         ...timestamps,
       },
       { sequelize, tableName: 'invitations', underscored: true },
+    );
+    SignUpRequest.init(
+      {
+        id: pk,
+        email: DataTypes.STRING(254),
+        tokenHash: DataTypes.CHAR(64),
+        existingUserId: DataTypes.INTEGER.UNSIGNED,
+        displayName: DataTypes.STRING(120),
+        workspaceName: DataTypes.STRING(120),
+        timeZone: DataTypes.STRING(64),
+        passwordHash: DataTypes.STRING(100),
+        expiresAt: DataTypes.DATE,
+        usedAt: DataTypes.DATE,
+        userId: DataTypes.INTEGER.UNSIGNED,
+        ...timestamps,
+      },
+      { sequelize, tableName: 'sign_up_requests', underscored: true },
     );
     SignInAttempt.init(
       { id: { ...pk, type: DataTypes.BIGINT.UNSIGNED }, email: DataTypes.STRING(254), address: DataTypes.STRING(64), succeeded: DataTypes.BOOLEAN, createdAt: DataTypes.DATE },

@@ -6,14 +6,16 @@ import { sharedRateLimit } from '../http/rate-limit';
 import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
 import type { Mailer } from '../mail/mailer';
-import { confirmEmailMail, passwordChangedMail, passwordResetMail } from '../mail/templates';
+import { confirmEmailMail, finishSignUpMail, passwordChangedMail, passwordResetMail, signUpAttemptMail } from '../mail/templates';
 import {
   changeEmailSchema,
   changePasswordSchema,
   confirmEmailSchema,
+  finishSignUpSchema,
   forgotPasswordSchema,
   resetPasswordSchema,
   signInSchema,
+  signUpPreviewQuerySchema,
   signUpSchema,
   updateProfileSchema,
 } from '../../shared/auth/schemas';
@@ -36,8 +38,8 @@ import {
   resolveMembership,
   sessionView,
   setPassword,
-  signUp,
 } from './service';
+import { SIGN_UP_VALID_MS, findOpenSignUp, finishSignUp, requestSignUp } from './sign-up';
 
 export interface AuthDeps {
   env: Env;
@@ -115,12 +117,41 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
     res.json(await currentSession(req));
   });
 
+  // Sign-up waits for the e-mailed link and answers the same whether or not the address has an
+  // account (issue 13 item 6): a new address gets the link, a taken one a note to its owner.
   routes.post('/sign-up', 'public', perAddress, validate({ body: signUpSchema }), async (req, res) => {
     await requireStrongPassword(req.body.password, 'body.password', [req.body.email, req.body.displayName, req.body.workspaceName]);
-    const { user, workspace } = await signUp(req.body);
+    const requested = await requestSignUp(req.body);
+    // Remembered for both kinds, so the answer (its cookie too) is the same; lets this browser finish without the password again.
+    req.session.signUpRequests = [...(req.session.signUpRequests ?? []).slice(-4), requested.requestId];
+    res.status(202).json({
+      email: requested.email,
+      message: `Check your e-mail to finish signing up. We sent a message to ${requested.email}; its link works once, within ${SIGN_UP_VALID_MS / 3_600_000} hours.`,
+    });
+    if (!requested.mail) return;
+    if (requested.kind === 'new') {
+      const { displayName, workspaceName } = req.body as { displayName: string; workspaceName: string };
+      sendLater(mailer, finishSignUpMail({ to: requested.email, displayName, workspaceName, url: `${env.publicUrl}/finish-sign-up?token=${requested.token}`, validForMs: SIGN_UP_VALID_MS }), 'finish sign-up');
+    } else {
+      const owner = requested.user;
+      firstWorkspaceName(owner.id).then(
+        (workspaceName) =>
+          sendLater(mailer, signUpAttemptMail({ to: owner.email, displayName: owner.displayName, workspaceName, hasPassword: Boolean(owner.passwordHash), hasGoogle: Boolean(owner.googleId), signInUrl: `${env.publicUrl}/`, resetUrl: `${env.publicUrl}/forgot-password` }), 'sign-up attempt'),
+        (err: unknown) => console.error(`Could not send the sign-up attempt e-mail: ${err instanceof Error ? err.message : String(err)}`),
+      );
+    }
+  });
+
+  const inThisBrowser = (req: Request) => (requestId: number) => (req.session.signUpRequests ?? []).includes(requestId);
+
+  routes.get('/sign-up/preview', 'public', validate({ query: signUpPreviewQuerySchema }), async (req, res) => {
+    const row = await findOpenSignUp((req.query as unknown as { token: string }).token, 'query.token');
+    res.json({ email: row.email, displayName: row.displayName, workspaceName: row.workspaceName, passwordNeeded: !inThisBrowser(req)(row.id) });
+  });
+
+  routes.post('/sign-up/finish', 'public', perAddress, validate({ body: finishSignUpSchema }), async (req, res) => {
+    const { user, workspace } = await finishSignUp(req.body.token, req.body.password, inThisBrowser(req));
     await logIn(req, user, workspace.id);
-    const token = await issueToken(user.id, 'confirm-email', CONFIRM_VALID_MS, user.email);
-    sendLater(mailer, confirmEmailMail({ to: user.email, displayName: user.displayName, workspaceName: workspace.name, url: `${env.publicUrl}/confirm-email?token=${token}`, validForMs: CONFIRM_VALID_MS, change: false }), 'address confirmation');
     res.status(201).json(await currentSession(req));
   });
 

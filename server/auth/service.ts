@@ -128,26 +128,6 @@ function validTimeZone(zone: string | undefined): string {
   }
 }
 
-export async function signUp(input: { displayName: string; email: string; password: string; workspaceName: string; timeZone?: string }): Promise<{ user: Express.User; workspace: Workspace }> {
-  const email = normalizeEmail(input.email);
-  const passwordHash = await hashPassword(input.password);
-  const sequelize = User.sequelize!;
-  try {
-    return await sequelize.transaction(async (transaction) => {
-      const user = await User.create({ email, displayName: input.displayName, passwordHash, emailVerified: false }, { transaction });
-      const workspace = await createWorkspaceFor(user.id, input.workspaceName, input.timeZone, transaction);
-      return { user: userView(user), workspace };
-    });
-  } catch (err) {
-    if ((err as { name?: string }).name === 'SequelizeUniqueConstraintError') {
-      throw new HttpError(409, 'conflict', 'An account with this e-mail address already exists', [
-        { path: 'body.email', message: 'Already has an account: sign in, or choose "Forgot password"' },
-      ]);
-    }
-    throw err;
-  }
-}
-
 export interface GoogleIdentity {
   googleId: string;
   displayName: string;

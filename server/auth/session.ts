@@ -15,6 +15,8 @@ declare module 'express-session' {
     /** Where to go after Google sign-in (a path on our own site only). */
     returnTo?: string;
     passport?: { user?: number };
+    /** Sign-ups asked for in this browser (the last five): their links finish here without the password again. */
+    signUpRequests?: number[];
   }
 }
 

@@ -77,6 +77,38 @@ export function confirmEmailMail(input: { to: string; displayName: string; works
   });
 }
 
+/** The link that finishes a sign-up: it makes the account and the workspace, and signs in. */
+export function finishSignUpMail(input: { to: string; displayName: string; workspaceName: string; url: string; validForMs: number }): OutgoingMail {
+  return render(input.to, 'Finish signing up to Rotaloom', {
+    greeting: `Hello ${input.displayName},`,
+    paragraphs: [
+      `Welcome to Rotaloom. Open the link to finish signing up: it makes the workspace ${input.workspaceName}, with you as its admin, and signs you in.`,
+      `The link works once, within ${hours(input.validForMs)} hours. Opened on another device than the one you signed up on, it asks for the password you chose.`,
+    ],
+    action: { label: 'Finish signing up', url: input.url },
+    after: ['If you did not sign up, ignore this message: no account is made unless the link is opened.'],
+  });
+}
+
+/**
+ * To the owner of an address someone tried to sign up with: the sign-up answered as for a new
+ * address, so this message is the only place that says an account exists.
+ */
+export function signUpAttemptMail(input: { to: string; displayName: string; workspaceName: string | null; hasPassword: boolean; hasGoogle: boolean; signInUrl: string; resetUrl: string }): OutgoingMail {
+  const where = input.workspaceName ? ` (you work in ${input.workspaceName})` : '';
+  const how = input.hasPassword
+    ? 'Sign in with this address and your password.'
+    : input.hasGoogle
+      ? 'Your account signs in with Google: choose "Sign in with Google" on the sign-in page.'
+      : 'Your account has no password yet: choose one with the link below.';
+  return render(input.to, 'Someone tried to sign up to Rotaloom with your address', {
+    greeting: `Hello ${input.displayName},`,
+    paragraphs: [`Someone, perhaps you, tried to make a new Rotaloom account with this address. You already have one${where}, so nothing was made and your account is as it was.`, how],
+    action: { label: 'Sign in', url: input.signInUrl },
+    after: [`Forgot your password? Choose a new one here: ${input.resetUrl}`, 'If it was not you, you can ignore this message.'],
+  });
+}
+
 export function passwordChangedMail(input: { to: string; displayName: string; workspaceName: string | null }): OutgoingMail {
   return render(input.to, 'Your Rotaloom password was changed', {
     greeting: `Hello ${input.displayName},`,

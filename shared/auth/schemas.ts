@@ -46,6 +46,16 @@ export const signUpSchema = z.object({
 });
 export type SignUpInput = z.infer<typeof signUpSchema>;
 
+/** Opening the e-mailed link to finish signing up: the preview of what it makes. */
+export const signUpPreviewQuerySchema = z.object({ token: tokenSchema });
+
+/** Finishing a sign-up; the password chosen at sign-up is asked for only in another browser. */
+export const finishSignUpSchema = z.object({
+  token: tokenSchema,
+  password: z.string().min(1, 'Enter the password you chose when you signed up').max(200, 'At most 200 characters').optional(),
+});
+export type FinishSignUpInput = z.infer<typeof finishSignUpSchema>;
+
 export const forgotPasswordSchema = z.object({ email: emailSchema });
 export type ForgotPasswordInput = z.infer<typeof forgotPasswordSchema>;
 

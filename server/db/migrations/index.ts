@@ -10,6 +10,7 @@ import * as m0008 from './0008-nothing-lost';
 import * as m0010 from './0010-preferences';
 import * as m0011 from './0011-swaps-offers-ledger';
 import * as m0012 from './0012-sign-in-counters';
+import * as m0013 from './0013-sign-up-requests';
 
 export interface Migration {
   name: string;
@@ -31,4 +32,5 @@ export const migrations: Migration[] = [
   { name: '0010-preferences', ...m0010 },
   { name: '0011-swaps-offers-ledger', ...m0011 },
   { name: '0012-sign-in-counters', ...m0012 },
+  { name: '0013-sign-up-requests', ...m0013 },
 ];

@@ -185,6 +185,7 @@ describe('route fuzz: no 5xx and only the JSON error shape, for every route, rol
       'post /api/me/absences': { kind: 'annual', startDate: '2027-03-02', endDate: '2027-03-03' },
       'post /api/invitations': { email: 'new@example.test', role: 'staff' },
       'post /api/auth/sign-up': { email: 'n@example.test', password: 'a long enough password', displayName: 'N' },
+      'post /api/auth/sign-up/finish': { token: 'x'.repeat(43), password: 'a long enough password' },
       'post /api/workspaces': { name: 'W', timeZone: 'Europe/London' },
     };
     type Body = { json?: unknown; raw?: string };

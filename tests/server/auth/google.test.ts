@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import http from 'node:http';
 import { createTestDb, type TestDb } from '../helpers/test-db';
-import { PASSWORD, agent, linkIn, makeApp, makeUser, makeWorkspace } from './helpers';
+import { PASSWORD, agent, linkIn, makeApp, makeUser, makeWorkspace, waitForMail } from './helpers';
 import { startGoogleFake, FAKE_GOOGLE_ACCOUNTS, type GoogleFake } from '../../../fakes/google/oauth-fake';
 import { readEnv } from '../../../server/env';
 import { Membership, User } from '../../../server/db/models';
@@ -79,12 +79,15 @@ describe('Google sign-in through the local OAuth 2 fake', () => {
     expect((await agent(app).post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
   });
 
-  it('a Google-first account refuses a second sign-up but gets a password through the reset link: still one user', async () => {
+  it('a Google-first account is not signed up twice (its owner is mailed instead) but gets a password through the reset link: still one user', async () => {
     const a = agent(app);
     await googleSignIn(a, fake, { name: 'Ottilie Marsh', email: 'ottilie.marsh@example.test', verified: '1' });
     const id = (await a.get('/api/auth/session')).body.user.id;
+    const since = mailer.outbox.length;
     const dup = await agent(app).post('/api/auth/sign-up').send({ displayName: 'Ottilie', email: 'ottilie.marsh@example.test', password: 'a second account please', workspaceName: 'Dup' });
-    expect(dup.status).toBe(409);
+    expect(dup.status).toBe(202);
+    const notice = await waitForMail(mailer, 'ottilie.marsh@example.test', '/forgot-password', since);
+    expect(notice.text).toContain('Your account signs in with Google');
     expect((await agent(app).post('/api/auth/sign-in').send({ email: 'ottilie.marsh@example.test', password: 'a second account please' })).status).toBe(401);
     await agent(app).post('/api/auth/forgot-password').send({ email: 'ottilie.marsh@example.test' });
     await new Promise((r) => setTimeout(r, 50));
@@ -102,6 +105,21 @@ describe('Google sign-in through the local OAuth 2 fake', () => {
     await googleSignIn(a, fake, { name: 'Real Owner', email, verified: '1' });
     expect((await a.get('/api/auth/session')).body.user).toMatchObject({ id: squatter.id, emailVerified: true, hasPassword: false });
     expect((await agent(app).post('/api/auth/sign-in').send({ email, password: PASSWORD })).status).toBe(401);
+  });
+
+  it('a Google sign-in while a password sign-up waits for its link makes one account; the link then says so (409)', async () => {
+    const email = 'waiting.signup@example.test';
+    const since = mailer.outbox.length;
+    const asker = agent(app);
+    expect((await asker.post('/api/auth/sign-up').send({ displayName: 'Wanda Reed', email, password: 'tern lichen barometer', workspaceName: 'Reed Rooms' })).status).toBe(202);
+    const token = linkIn(await waitForMail(mailer, email, '/finish-sign-up', since), '/finish-sign-up').searchParams.get('token');
+    const a = agent(app);
+    await googleSignIn(a, fake, { name: 'Wanda Reed', email, verified: '1' });
+    expect((await a.get('/api/auth/session')).body.user).toMatchObject({ email, hasGoogle: true, hasPassword: false });
+    const finish = await asker.post('/api/auth/sign-up/finish').send({ token });
+    expect(finish.status).toBe(409);
+    expect(finish.body.error.fields[0].path).toBe('body.token');
+    expect(await User.count({ where: { email } })).toBe(1);
   });
 
   it('refuses an unverified Google address that matches an existing account', async () => {

@@ -76,3 +76,36 @@ export function linkIn(mail: OutgoingMail | undefined, path: string): URL {
   if (!found) throw new Error(`no ${path} link in ${mail ? `"${mail.subject}"` : 'any mail'}`);
   return new URL(found);
 }
+
+/** The newest mail to this address with a link containing `path`, waiting for it: mail goes out after the answer. */
+export async function waitForMail(mailer: Mailer, to: string, path: string, since = 0): Promise<OutgoingMail> {
+  for (let i = 0; i < 100; i++) {
+    const found = mailer.outbox.slice(since).reverse().find((m) => m.to === to && m.text.includes(path));
+    if (found) return found;
+    await new Promise((r) => setTimeout(r, 20));
+  }
+  throw new Error(`no mail to ${to} with ${path}`);
+}
+
+export interface SignUpFields {
+  displayName: string;
+  email: string;
+  password: string;
+  workspaceName: string;
+  timeZone?: string;
+}
+
+/**
+ * Signs up as a person does: asks, opens the link from the mail, finishes. One agent does all
+ * three, as one browser would, so the finish needs no password; the agent ends signed in.
+ */
+export async function signUpThroughMail(app: Express, mailer: Mailer, fields: SignUpFields, a = agent(app)) {
+  const since = mailer.outbox.length;
+  const asked = await a.post('/api/auth/sign-up').send(fields);
+  if (asked.status !== 202) throw new Error(`fixture sign-up failed: ${asked.status} ${JSON.stringify(asked.body)}`);
+  const mail = await waitForMail(mailer, fields.email.trim().toLowerCase(), '/finish-sign-up', since);
+  const token = linkIn(mail, '/finish-sign-up').searchParams.get('token')!;
+  const finished = await a.post('/api/auth/sign-up/finish').send({ token });
+  if (finished.status !== 201) throw new Error(`fixture sign-up finish failed: ${finished.status} ${JSON.stringify(finished.body)}`);
+  return { agent: a, session: finished.body, token, mail };
+}
