@@ -1,21 +1,24 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { useRouter } from 'expo-router';
 import { space } from '@/constants/theme';
 import { signUpSchema } from '@/shared/auth/schemas';
 import { useSignUp } from '@/hooks/api/sign-up';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
+import { Body } from '@/components/ui/typography';
 import { AuthPage } from './auth-page';
 import { GoogleButton } from './google-button';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 
 const FIELDS = ['displayName', 'email', 'password', 'workspaceName'];
 
-/** A new account and a new workspace with it, whose admin the new person is. */
+/**
+ * A new account and a new workspace with it, whose admin the new person is. Nothing is made until
+ * the e-mailed link is opened, and the screen says "check your e-mail" whether or not the address
+ * already has an account: the owner of a taken address hears about it by mail instead.
+ */
 export function SignUpScreen() {
-  const router = useRouter();
   const signUp = useSignUp();
   const [values, setValues] = useState({ displayName: '', email: '', password: '', workspaceName: '' });
   const [errors, setErrors] = useState<FieldErrors>({});
@@ -25,10 +28,23 @@ export function SignUpScreen() {
     const timeZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
     const checked = checkForm(signUpSchema, { ...values, timeZone });
     setErrors(checked.errors ?? {});
-    if (checked.data) signUp.mutate(checked.data, { onSuccess: () => router.replace('/home') });
+    if (checked.data) signUp.mutate(checked.data);
   };
   const err = (name: string) => fieldError(errors, signUp.error, name);
   const message = formError(signUp.error, FIELDS);
+
+  if (signUp.isSuccess) {
+    return (
+      <AuthPage title="Check your e-mail">
+        <View style={styles.form} testID="sign-up-check-email">
+          <Notice kind="info">{signUp.data.message}</Notice>
+          <Body>{`Open the link in that message to make ${values.workspaceName.trim()} and sign in. If you open it on another device, it asks for the password you just chose.`}</Body>
+          <Body muted>Nothing after a few minutes? Look in your spam folder, or check the address and send it again.</Body>
+          <Button kind="quiet" label="Change the address" onPress={() => signUp.reset()} testID="sign-up-again" />
+        </View>
+      </AuthPage>
+    );
+  }
 
   return (
     <AuthPage title="Make a workspace" lead="Your team's rosters live in a workspace. You will be its admin and can invite coordinators and staff.">

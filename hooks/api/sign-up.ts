@@ -1,12 +1,8 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import type { SignUpInput } from '@/shared/auth/schemas';
 import { apiFetch } from './api-client';
-import type { Session } from './get-session';
-import { replaceSession } from './session-cache';
 
-export const signUp = (input: SignUpInput) => apiFetch<Session>('/auth/sign-up', { method: 'POST', body: input });
+/** Asks for a sign-up; the e-mailed link finishes it. The answer is the same whether or not the address has an account. */
+export const signUp = (input: SignUpInput) => apiFetch<{ email: string; message: string }>('/auth/sign-up', { method: 'POST', body: input });
 
-export function useSignUp() {
-  const queryClient = useQueryClient();
-  return useMutation({ mutationFn: signUp, onSuccess: (session) => replaceSession(queryClient, session) });
-}
+export const useSignUp = () => useMutation({ mutationFn: signUp });

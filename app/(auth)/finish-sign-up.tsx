@@ -1,0 +1,3 @@
+import { FinishSignUpScreen } from '@/components/auth/finish-sign-up-screen';
+
+export default FinishSignUpScreen;
