@@ -3,15 +3,18 @@ import { useLocalSearchParams } from 'expo-router';
 import { colors, space } from '@/constants/theme';
 import { Body } from '@/components/ui/typography';
 import { Notice } from '@/components/ui/notice';
+import { useHydrated } from '@/hooks/use-hydrated';
 import { GoogleButton } from './google-button';
 import { TextLink } from './text-link';
 
 /** Under the sign-in form: Google, a forgotten password, a new account; and why a Google sign-in came back. */
 export function SignInAlternatives() {
   const { signInError } = useLocalSearchParams<{ signInError?: string }>();
+  // The landing page's HTML is written at build time without a query: the reason shows after hydration.
+  const hydrated = useHydrated();
   return (
     <View style={styles.box}>
-      {signInError ? <Notice>{signInError}</Notice> : null}
+      {hydrated && signInError ? <Notice>{signInError}</Notice> : null}
       <View style={styles.or}>
         <View style={styles.rule} />
         <Body muted>or</Body>

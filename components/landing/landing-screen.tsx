@@ -1,6 +1,7 @@
 import { ScrollView, StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
 import { useIsWide } from '@/hooks/use-is-wide';
+import { useHydrated } from '@/hooks/use-hydrated';
 import { Body, Heading } from '@/components/ui/typography';
 import { LoomMark } from '@/components/nav/loom-mark';
 import { SignInForm } from './sign-in-form';
@@ -15,6 +16,9 @@ const PROMISES = [
 /** The signed-out front page: what Rotaloom does, and the way in. */
 export function LandingScreen() {
   const wide = useIsWide();
+  // The build writes this page as HTML, so the form is drawn before the code arrives; it takes
+  // input once the code has hydrated it (until then typing would be lost and a tap do nothing).
+  const ready = useHydrated();
   return (
     <ScrollView style={styles.page} contentContainerStyle={[styles.inner, wide && styles.innerWide]}>
       <View style={[styles.story, wide && styles.storyWide]}>
@@ -41,8 +45,10 @@ export function LandingScreen() {
         <Body muted style={styles.cardLead}>
           For coordinators, staff and admins of a workspace.
         </Body>
-        <SignInForm />
-        <SignInAlternatives />
+        <View aria-disabled={!ready} aria-busy={!ready} pointerEvents={ready ? 'auto' : 'none'} style={styles.way}>
+          <SignInForm />
+          <SignInAlternatives />
+        </View>
       </View>
     </ScrollView>
   );
@@ -64,4 +70,5 @@ const styles = StyleSheet.create({
   card: { backgroundColor: colors.card, borderRadius: radius.lg, padding: space.xl, gap: space.md, borderWidth: 1, borderColor: colors.line },
   cardWide: { width: 400, padding: 32 },
   cardLead: { marginBottom: space.sm },
+  way: { gap: space.md },
 });

@@ -11,6 +11,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { explore } from 'source-map-explorer';
+import { WEB_BUILD_ENV } from '../bootstrap/web-build';
 import { shellScripts } from '../bootstrap/web-finish';
 
 const rootDir = path.resolve(import.meta.dirname, '..', '..');
@@ -65,7 +66,7 @@ async function main(): Promise<void> {
       console.log('exporting the web app with source maps …');
       const out = spawnSync(path.join(rootDir, 'node_modules', '.bin', 'expo'), ['export', '-p', 'web', '--output-dir', dir, '--source-maps'], {
         cwd: rootDir,
-        env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1', EXPO_OFFLINE: '1' },
+        env: { ...process.env, ...WEB_BUILD_ENV },
         encoding: 'utf8',
       });
       if (out.status !== 0) throw new Error(`expo export failed:\n${(out.stdout + out.stderr).slice(-3000)}`);

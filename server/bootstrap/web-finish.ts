@@ -12,8 +12,65 @@ import { HASHED_FILE } from '../web/hashed';
  * `npm test` serve the same app a visitor gets.
  */
 export async function finishWebBuild(outDir: string): Promise<void> {
+  dropEmptyTitle(outDir);
   declareFonts(outDir);
+  writeAppShell(outDir);
   await writeServiceWorker(outDir);
+}
+
+/**
+ * The static renderer writes the (empty) title of expo-router's Head before app/+html.tsx's own,
+ * and a browser shows the first one: the page would have no name until the code runs.
+ */
+export function dropEmptyTitle(outDir: string): void {
+  const indexFile = path.join(outDir, 'index.html');
+  writeFileSync(indexFile, readFileSync(indexFile, 'utf8').replace(/<title data-rh="true"><\/title>/, ''));
+}
+
+/** The page every address but the landing page gets (server/web/static.ts, the service worker). */
+export const APP_SHELL = 'app-shell.html';
+
+const HYDRATE_FLAG = /<script[^>]*>\s*globalThis\.__EXPO_ROUTER_HYDRATE__\s*=\s*true;?\s*<\/script>/;
+
+/** The inner HTML of `<div id="root">…</div>`, found by counting the divs opened and closed in it. */
+function rootContent(html: string): { start: number; end: number } {
+  const open = html.indexOf('<div id="root">');
+  if (open < 0) throw new Error('web build: index.html has no <div id="root">');
+  const start = open + '<div id="root">'.length;
+  const tags = /<div[\s>]|<\/div>/g;
+  tags.lastIndex = start;
+  let depth = 1;
+  for (let m = tags.exec(html); m; m = tags.exec(html)) {
+    depth += m[0] === '</div>' ? -1 : 1;
+    if (depth === 0) return { start, end: m.index };
+  }
+  throw new Error('web build: <div id="root"> is not closed in index.html');
+}
+
+/**
+ * Expo Router's static output writes each route's HTML at build time and the client hydrates it.
+ * Only the landing page is served that way: its sign-in form is drawn from the HTML alone, before
+ * the code arrives on a slow line. Every other address is rendered by the client as before, from
+ * `app-shell.html`: the same page without the prerendered markup (the boot screen in its place)
+ * and without the hydration flag, since a signed-in screen, a query string (`?token=`) or a window
+ * size would otherwise differ from markup written at build time without them.
+ * A single-page export (web.output "single") has nothing to hydrate: the shell is index.html as is.
+ */
+export function writeAppShell(outDir: string): void {
+  const html = readFileSync(path.join(outDir, 'index.html'), 'utf8');
+  let shell = html;
+  if (HYDRATE_FLAG.test(html)) {
+    const template = readFileSync(path.resolve(import.meta.dirname, '..', '..', 'public', 'index.html'), 'utf8');
+    const boot = rootContent(template);
+    const rendered = rootContent(html);
+    shell = html.slice(0, rendered.start) + template.slice(boot.start, boot.end) + html.slice(rendered.end);
+    shell = shell.replace(HYDRATE_FLAG, '');
+    // The landing page's own chunks, listed so its hydration need not wait for them, are not the shell's.
+    shell = shell.replace(/<script src="\/_expo\/static\/js\/web\/([^"]+)"[^>]*><\/script>/g, (tag, name: string) =>
+      /^(__expo-metro-runtime|__common|entry)-/.test(name) ? tag : '',
+    );
+  }
+  writeFileSync(path.join(outDir, APP_SHELL), shell);
 }
 
 /**
@@ -76,9 +133,10 @@ export async function writeServiceWorker(outDir: string): Promise<{ count: numbe
   const { count, size, warnings } = await generateSW({
     swDest: path.join(outDir, 'sw.js'),
     globDirectory: outDir,
-    globPatterns: ['index.html', 'manifest.webmanifest', 'icons/*.{png,svg}', 'assets/fonts/*.ttf', ...shellScripts(outDir)],
-    // The export is a single-page app: every page offline is index.html, the client router decides.
-    navigateFallback: '/index.html',
+    globPatterns: ['index.html', APP_SHELL, 'manifest.webmanifest', 'icons/*.{png,svg}', 'assets/fonts/*.ttf', ...shellScripts(outDir)],
+    // As the server answers: the landing page its own prerendered HTML ('/' is index.html), every
+    // other page the app shell, and the client router decides.
+    navigateFallback: `/${APP_SHELL}`,
     navigateFallbackDenylist: [/^\/api\//, /^\/dev\//],
     dontCacheBustURLsMatching: HASHED_FILE,
     cleanupOutdatedCaches: true,

@@ -3,14 +3,21 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { HASHED_FILE } from './hashed';
 
+/** As server/bootstrap/web-finish.ts names it (not imported: that module pulls in workbox-build). */
+const APP_SHELL = 'app-shell.html';
+
 /**
- * Serves the exported web app. The export is a single-page app, so any GET that is not a file
- * or an API call gets index.html and the client router decides (including its not-found page).
+ * Serves the exported web app. The landing page gets index.html, which the build rendered with its
+ * sign-in form (the client hydrates it); any other GET that is not a file or an API call gets the
+ * app shell and the client router decides (including its not-found page). An export without a
+ * shell (older builds, tests) answers everything with index.html.
  */
 export function webRouter(webDir: string): Router {
   const router = Router();
   const indexFile = path.join(webDir, 'index.html');
-  router.use(express.static(webDir, { index: false, setHeaders: cacheHeaders }));
+  const shellFile = path.join(webDir, APP_SHELL);
+  // redirect: false — the static export has folders named like routes (rosters/), which must not become /rosters/
+  router.use(express.static(webDir, { index: false, redirect: false, setHeaders: cacheHeaders }));
   router.get('/{*splat}', (req, res, next) => {
     if (req.path.startsWith('/api/')) return next();
     if (!existsSync(indexFile)) {
@@ -18,7 +25,7 @@ export function webRouter(webDir: string): Router {
       return;
     }
     res.setHeader('Cache-Control', 'no-cache');
-    res.sendFile(indexFile);
+    res.sendFile(req.path === '/' || !existsSync(shellFile) ? indexFile : shellFile);
   });
   return router;
 }
