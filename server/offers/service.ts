@@ -3,7 +3,7 @@ import { Person, Skill } from '../db/models';
 import { HttpError } from '../http/errors';
 import { rosterIds } from '../rosters/ids';
 import { Roster, SeatRow, ShiftRow } from '../rosters/models';
-import { notifyPublished } from '../staff/notices';
+import { notifyApprovedChange } from '../swaps/approval-mail';
 import { localDateTimeToInstant } from '../../shared/roster/time';
 import type { OpenSeatDto } from '../../shared/api/swaps';
 import { checkChange } from '../swaps/check';
@@ -155,7 +155,7 @@ export async function decideOffer(workspaceId: number, id: number, body: { decis
   const { shift } = await seatOnRoster(workspaceId, row.seatId, 'params.id');
   const roster = (await Roster.findOne({ where: { id: row.rosterId, workspaceId } }))!;
   assertFuture(shift, roster.timeZone, 'params.id');
-  const applied = await applyChange(
+  await applyChange(
     workspaceId,
     row.rosterId,
     {
@@ -165,7 +165,7 @@ export async function decideOffer(workspaceId: number, id: number, body: { decis
     },
     async (transaction, result) => move(row, ['taken'], 'approved', body.version, { decidedAt: new Date(), resultRunId: result.runId, checkResult: result.check }, transaction),
   );
-  const mail = await notifyPublished(workspaceId, row.rosterId, applied.previousRunId);
+  const mail = await notifyApprovedChange(workspaceId, row.rosterId, { kind: 'offer', takerId: row.takerPersonId, seatId: row.seatId }, null);
   return { offer: await dto(workspaceId, id), mail: { sent: mail.sent.length, noAddress: mail.noAddress.map((p) => p.name), failed: mail.failed.length } };
 }
 

@@ -20,6 +20,11 @@ export function registerNoticeMailer(mailer: Mailer, env: Pick<Env, 'publicUrl'>
   registered = { mailer, publicUrl: env.publicUrl };
 }
 
+/** The mailer and public address registered by the app (swap and offer approvals mail through it too). */
+export function registeredNoticeMailer(): { mailer: Mailer; publicUrl: string } | null {
+  return registered;
+}
+
 export interface NoticeReport {
   sent: Array<{ personId: number; to: string }>;
   noAddress: Array<{ personId: number; name: string }>;

@@ -3,7 +3,7 @@ import { Person } from '../db/models';
 import { HttpError } from '../http/errors';
 import { rosterIds } from '../rosters/ids';
 import { Roster, SeatRow } from '../rosters/models';
-import { notifyPublished } from '../staff/notices';
+import { notifyApprovedChange } from './approval-mail';
 import { localDateTimeToInstant } from '../../shared/roster/time';
 import type { ChangeCheck, SwapOptions, SwapProposal } from '../../shared/api/swaps';
 import { checkChange } from './check';
@@ -129,7 +129,7 @@ export async function listSwaps(workspaceId: number, status?: SwapRow['status'])
 /**
  * The coordinator's one tap. Approving makes the change on the published roster (a new run,
  * the snapshot moved on, checked again under the roster's lock) and mails both people what
- * changed through the publish notices, which tell only those whose shifts differ.
+ * changed, in words of the swap or giveaway (approval-mail.ts).
  */
 export async function decideSwap(workspaceId: number, userId: number, id: number, body: { decision: 'approve' | 'refuse'; version: number }) {
   const row = await findSwap(workspaceId, id);
@@ -155,10 +155,17 @@ export async function decideSwap(workspaceId: number, userId: number, id: number
     const { shift } = await seatOnRoster(workspaceId, m.seatId, 'params.id');
     assertFuture(shift, roster.timeZone, 'params.id');
   }
-  const applied = await applyChange(workspaceId, row.rosterId, change, async (transaction, result) => {
+  await applyChange(workspaceId, row.rosterId, change, async (transaction, result) => {
     await move(row, ['accepted'], 'approved', body.version, { decidedAt: new Date(), decidedByUserId: userId, resultRunId: result.runId, checkResult: result.check }, transaction);
   });
-  const mail = await notifyPublished(workspaceId, row.rosterId, applied.previousRunId);
+  const mail = await notifyApprovedChange(
+    workspaceId,
+    row.rosterId,
+    row.kind === 'swap' && row.colleagueSeatId
+      ? { kind: 'swap', proposerId: row.proposerPersonId, colleagueId: row.colleaguePersonId, proposerSeatId: row.proposerSeatId, colleagueSeatId: row.colleagueSeatId }
+      : { kind: 'giveaway', proposerId: row.proposerPersonId, colleagueId: row.colleaguePersonId, proposerSeatId: row.proposerSeatId },
+    userId,
+  );
   return { swap: (await swapDtos(workspaceId, [await findSwap(workspaceId, id)]))[0], mail: { sent: mail.sent.length, noAddress: mail.noAddress.map((p) => p.name), failed: mail.failed.length } };
 }
 

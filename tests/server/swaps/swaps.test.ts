@@ -131,7 +131,7 @@ describe('swaps and giveaways on a published roster', () => {
     // Both are mailed, no one else.
     const sent = mailer.outbox.slice(outboxBefore);
     expect(sent.map((m) => m.to).sort()).toEqual([w.emails.a, w.emails.c].sort());
-    expect(sent.find((m) => m.to === w.emails.a)!.text).toMatch(/Now on:\n- Wed 3 Mar: early/);
+    expect(sent.find((m) => m.to === w.emails.a)!.text).toContain('You work Wed 3 Mar 2027, early 07:00–15:00 instead'); // wording: tests/server/swaps/approval-mail.test.ts
     // The roster's CSV comes from the moved-on snapshot: the swap shows, the later rename does not.
     const csv = parseCsv((await w.coordinator.get(`/api/rosters/${w.roster.id}/roster.csv`)).text) as string[][];
     const rows = csv.slice(1).map((r) => r.join(' '));
