@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
 import { useSeatAlternatives } from '@/hooks/api/get-seat-alternatives';
+import { useRecordPickedAlternative } from '@/hooks/api/record-picked-alternative';
 import { usePutPin } from '@/hooks/api/put-pin';
 import { useDeletePin } from '@/hooks/api/delete-pin';
 import type { RosterDto, SeatAlternative, SeatContestAnswer } from '@/hooks/api/roster-types';
@@ -59,6 +60,8 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
   const details = useSeatAlternatives(runId, seatId);
   const pin = usePutPin();
   const unpin = useDeletePin();
+  // picking an alternative is an edit the weight suggestion learns from (server/learning)
+  const picked = useRecordPickedAlternative();
   const [all, setAll] = useState(false);
   const frozen = roster.status === 'published';
   const error = pin.error ?? unpin.error;
@@ -107,7 +110,7 @@ export function SeatPanel({ roster, runId, seatId }: { roster: RosterDto; runId:
                 ) : (
                   <Pill>not tried</Pill>
                 )}
-                {a.feasible && !frozen ? <Button kind="quiet" label={a.name ? `Pin ${a.name}` : 'Pin it open'} onPress={() => pin.mutate({ rosterId: roster.id, seatId, personId: a.personId })} disabled={pin.isPending} /> : null}
+                {a.feasible && !frozen ? <Button kind="quiet" label={a.name ? `Pin ${a.name}` : 'Pin it open'} onPress={() => { pin.mutate({ rosterId: roster.id, seatId, personId: a.personId }); picked.mutate({ rosterId: roster.id, runId, seatId, personId: a.personId }); }} disabled={pin.isPending} /> : null}
                 <Body muted style={{ width: '100%', fontSize: 13 }}>{words}</Body>
               </View>
             );

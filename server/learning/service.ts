@@ -5,11 +5,14 @@
  * request.
  */
 import { HttpError } from '../http/errors';
-import { Roster } from '../rosters/models';
+import { Roster, RunRow } from '../rosters/models';
 import { User } from '../db/models';
 import { runAssignment, currentRoster } from '../runs/run-view';
 import { MIN_EDITS_FOR_SUGGESTION, type SuggestionAnswer, type SuggestionDto } from '../../shared/api/suggestion';
 import type { RosterAssignment, RuleSet } from '../../shared/roster/schema';
+import type { SeatAlternativesAnswer } from '../../shared/api/seat-alternatives';
+import { rosterIds } from '../rosters/ids';
+import { computeOnWorker } from '../queue/queues';
 import { PreferenceRow, SuggestionRow } from './models';
 import { computeSuggestion, DEFAULT_COMPUTE_OPTIONS, type ComputeOptions, type StoredEdit } from './compute';
 
@@ -39,6 +42,47 @@ export async function recordManualPreferenceQuietly(...args: Parameters<typeof r
   } catch (err) {
     console.error('[learning] could not record the edit as a preference:', err);
   }
+}
+
+/**
+ * A seat alternative the coordinator picked, as a preference: the roster behind the alternative
+ * (the seat with the picked person and the other seats it moves, as the seat panel showed it) kept
+ * over the run's roster. `alternatives` gives the seat's alternatives for that run as computed for
+ * the panel (a job on the worker, whose cache answers with the figures the panel showed).
+ */
+export async function recordPickedAlternative(
+  workspaceId: number,
+  rosterId: number,
+  userId: number,
+  pick: { runId: number; seatId: number; personId: number | null },
+  alternatives: () => Promise<SeatAlternativesAnswer> = async () =>
+    (await computeOnWorker(PreferenceRow.sequelize!, { kind: 'alternatives', workspaceId, runId: pick.runId, seatId: pick.seatId }, 150_000, 'the alternatives for this seat')) as SeatAlternativesAnswer,
+): Promise<PreferenceRow> {
+  await findRosterRow(workspaceId, rosterId);
+  const run = await RunRow.findOne({ where: { id: pick.runId, workspaceId }, attributes: ['id', 'rosterId'] });
+  if (!run) throw new HttpError(404, 'not_found', 'Run not found', [{ path: 'body.runId', message: 'no such run in this workspace' }]);
+  const proposed = await runAssignment(workspaceId, pick.runId);
+  if (proposed.run.rosterId !== rosterId) throw new HttpError(422, 'unprocessable', 'That run belongs to another roster.', [{ path: 'body.runId', message: 'not a run of this roster' }]);
+  if (!proposed.roster.seats.some((s) => s.id === rosterIds.seat(pick.seatId))) throw new HttpError(422, 'unprocessable', 'That seat is not in this roster.', [{ path: 'body.seatId', message: 'not a seat of this roster' }]);
+  const answer = await alternatives();
+  if (answer.current.personId === pick.personId) throw new HttpError(422, 'unprocessable', 'That person already holds this seat in the run: picking them changes nothing.', [{ path: 'body.personId', message: 'already in this seat' }]);
+  const alt = answer.alternatives.find((a) => a.personId === pick.personId);
+  if (!alt) throw new HttpError(422, 'unprocessable', 'That person may not take this seat (skill, pin or a "cannot" wish).', [{ path: 'body.personId', message: 'not an alternative for this seat' }]);
+  if (!alt.feasible) throw new HttpError(422, 'unprocessable', 'No roster with that choice keeps every hard rule, so there is nothing to keep.', [{ path: 'body.personId', message: 'breaks a hard rule' }]);
+  const kept: RosterAssignment = { ...proposed.assignment, [rosterIds.seat(pick.seatId)]: pick.personId === null ? null : rosterIds.person(pick.personId) };
+  for (const o of alt.otherSeats) kept[rosterIds.seat(o.seatId)] = o.personId === null ? null : rosterIds.person(o.personId);
+  return PreferenceRow.create({
+    workspaceId,
+    rosterId,
+    source: 'alternative',
+    keptRunId: null,
+    proposedRunId: pick.runId,
+    rosterJson: proposed.roster,
+    kept,
+    proposed: proposed.assignment,
+    seatsChanged: changedSeats(kept, proposed.assignment),
+    createdByUserId: userId,
+  });
 }
 
 async function editCounts(workspaceId: number): Promise<{ edits: number; rosters: number }> {

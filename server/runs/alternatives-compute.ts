@@ -28,6 +28,8 @@ export interface ComputedAlternative {
   atMost: number | null;
   exact: boolean;
   moved: number;
+  /** The other seats that roster changes, with their new holders (empty unless feasible). */
+  movedTo: Array<[string, string | null]>;
   breaks: string[];
   impossible: boolean;
 }
@@ -93,11 +95,12 @@ export async function computeSeatAlternatives(input: ComputeInput): Promise<Comp
       return change === null ? a : Math.max(a, change);
     };
     if (!f.evaluated || f.assignment === null) {
-      return { personKey, evaluated: false, feasible: false, change: null, atMost: atMostOf(null), exact: false, moved: 0, breaks: [], impossible: f.bound === -Infinity };
+      return { personKey, evaluated: false, feasible: false, change: null, atMost: atMostOf(null), exact: false, moved: 0, movedTo: [], breaks: [], impossible: f.bound === -Infinity };
     }
     const next = decodeAssignment(compiled, f.assignment).assignment;
     const check = score(next);
     const change = check.feasible ? check.total - base.total : null;
+    const movedTo: Array<[string, string | null]> = check.feasible ? Object.keys({ ...next, ...assignment }).filter((s) => s !== seatKey && (next[s] ?? null) !== (assignment[s] ?? null)).map((s) => [s, next[s] ?? null]) : [];
     return {
       personKey,
       evaluated: true,
@@ -105,7 +108,8 @@ export async function computeSeatAlternatives(input: ComputeInput): Promise<Comp
       change,
       atMost: atMostOf(change),
       exact: f.how === 'exact',
-      moved: check.feasible ? Object.keys(next).filter((s) => s !== seatKey && (next[s] ?? null) !== (assignment[s] ?? null)).length : 0,
+      moved: movedTo.length,
+      movedTo,
       breaks: check.feasible ? [] : check.violations.filter((v) => v.hard).slice(0, 3).map((v) => v.message),
       impossible: (f.how === 'exact' && !check.feasible) || f.bound === -Infinity,
     };

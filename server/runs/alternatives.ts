@@ -112,6 +112,7 @@ export async function seatAlternatives(workspaceId: number, runId: number, seatI
       scoreChangeAtMost: a.atMost === null ? null : finite(a.atMost),
       exact: a.exact,
       otherSeatsMoved: a.moved,
+      otherSeats: a.movedTo.map(([s, p]) => ({ seatId: parseRosterId('st', s), personId: p === null ? null : parseRosterId('p', p) })),
       breaks: a.breaks,
       impossible: a.impossible,
     }))

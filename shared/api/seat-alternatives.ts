@@ -17,6 +17,8 @@ export interface SeatAlternative {
   exact: boolean;
   /** Seats other than this one that the roster behind scoreChange changes. */
   otherSeatsMoved: number;
+  /** Those seats with their holders in that roster (what picking this choice keeps, server/learning records it). */
+  otherSeats: Array<{ seatId: number; personId: number | null }>;
   /** Hard rules the best roster found with this choice breaks (when not feasible). */
   breaks: string[];
   /** Proven (exactly, or by the dual bound): no roster with this choice keeps every hard rule. */

@@ -65,3 +65,13 @@ export type SuggestionAnswer = {
   rosters: number;
   minEdits: number;
 };
+
+/** A seat alternative the coordinator picked (POST /api/rosters/:rosterId/preferences/alternative): recorded as a preference. */
+export const pickedAlternativeBody = z.object({
+  runId: z.number().int().min(1),
+  seatId: z.number().int().min(1),
+  /** The person picked for the seat; null to leave it open. */
+  personId: z.number().int().min(1).nullable(),
+});
+
+export type PickedAlternativeAnswer = { preference: { id: number; seatsChanged: number } };
