@@ -18,6 +18,9 @@ const { createPortal } = require('react-dom') as { createPortal: (node: ReactNod
 /**
  * On screen the sheet is not shown; in print only the sheet is (everything else out of the flow), A4
  * landscape, a page per week or fortnight, each with the legend and the working-time caution.
+ * Each sheet is exactly one page box tall (194 mm inside 8 mm margins, less 2 mm so rounding never
+ * spills a pixel onto a blank page) and clips what does not fit, so the page count is the sheet
+ * count whatever fonts the printing machine has; the rows inside share the height left over.
  */
 const PRINT_CSS = `
 @media screen { #rotaloom-print { display: none; } }
@@ -27,7 +30,7 @@ const PRINT_CSS = `
   /* The app itself leaves the flow entirely: hidden but laid out, it would print as blank pages. */
   body > *:not(#rotaloom-print) { display: none !important; }
   #rotaloom-print { position: static; width: 100%; }
-  #rotaloom-print .rotaloom-page { break-after: page; page-break-after: always; }
+  #rotaloom-print .rotaloom-page { height: 192mm; overflow: hidden; box-sizing: border-box; break-inside: avoid; page-break-inside: avoid; break-after: page; page-break-after: always; }
   #rotaloom-print .rotaloom-page:last-child { break-after: auto; page-break-after: auto; }
   * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
 }`;
@@ -67,8 +70,12 @@ export function PrintButton({ roster, run, model, skillName }: { roster: RosterD
   );
 }
 
-/** Rows of 24 px under the title, header, foot, legend and caution of an A4 landscape sheet (733 px tall at 8 mm margins). */
-const ROWS_PER_SHEET = 20;
+/**
+ * A sheet is 192 mm (725 px) tall. Title and line below (36 px), header (30), a foot of up to four
+ * skills (56), legend and caution of up to three lines each (72) and the gaps (24) leave about
+ * 500 px: 30 rows at no less than PRINT_ROW_MIN (15 px) fit with room to spare for wider fonts.
+ */
+const ROWS_PER_SHEET = 30;
 
 export function PrintSheet({ roster, run, model, skillName, span }: { roster: RosterDto; run: RunDetail; model: GridModel; skillName: (id: number | null) => string; span: number }) {
   const rows = [...model.rows].filter((r) => r.hours > 0 || [...r.cells.values()].some((c) => c.seats.length || c.absence)).sort((a, b) => a.person.name.localeCompare(b.person.name));
@@ -85,11 +92,13 @@ export function PrintSheet({ roster, run, model, skillName, span }: { roster: Ro
         <View key={i} style={styles.page}>
           {/* react-native-web has no className prop; PageClass sets the page-break class through a ref. */}
           <PageClass />
-          <Text style={styles.title}>{`${roster.name} · ${periodWords(days[0], days[days.length - 1])}`}</Text>
-          <Text style={styles.sub}>{`${runName(run)}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
+          <Text style={styles.title} numberOfLines={1}>{`${roster.name} · ${periodWords(days[0], days[days.length - 1])}`}</Text>
+          <Text style={styles.sub} numberOfLines={1}>{`${runName(run)}${roster.status === 'published' ? ' · published' : ' · draft, not yet published'} · page ${i + 1} of ${pages.length}`}</Text>
           <GridTable model={model} days={days} rows={sheetRows} sizes={sizes} skillName={skillName} print />
-          <GridLegend compact />
-          <Text style={styles.caution}>{WORKING_TIME_CAUTION}</Text>
+          <View style={styles.bottom}>
+            <GridLegend compact />
+            <Text style={styles.caution} testID="print-caution">{WORKING_TIME_CAUTION}</Text>
+          </View>
         </View>
       ))}
     </View>
@@ -103,8 +112,10 @@ function PageClass() {
 
 const styles = StyleSheet.create({
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
-  page: { padding: space.sm, gap: space.sm, backgroundColor: colors.white },
-  title: { fontFamily: fonts.heading, fontSize: 18, color: colors.ink },
-  sub: { fontFamily: fonts.body, fontSize: 12, color: colors.inkSoft },
-  caution: { fontFamily: fonts.body, fontSize: 10, color: colors.ink, borderLeftWidth: 3, borderLeftColor: colors.thread, paddingLeft: space.sm },
+  page: { paddingHorizontal: space.xs, gap: 6, backgroundColor: colors.white },
+  title: { fontFamily: fonts.heading, fontSize: 17, lineHeight: 22, color: colors.ink },
+  sub: { fontFamily: fonts.body, fontSize: 11, lineHeight: 14, color: colors.inkSoft },
+  // Legend and caution keep their own height; the table above gives way.
+  bottom: { flexShrink: 0, gap: 4 },
+  caution: { fontFamily: fonts.body, fontSize: 9, lineHeight: 12, color: colors.ink, borderLeftWidth: 3, borderLeftColor: colors.thread, paddingLeft: space.sm },
 });

@@ -36,9 +36,9 @@ export async function removePersonAndRoster(page: Page, personName: string, rost
 export async function solveThroughApi(page: Page, rosterId: number): Promise<{ id: number; score: number; assignments: Array<{ seatId: number; personId: number | null }> }> {
   const start = await api<{ id: number }>(page, 'POST', `/rosters/${rosterId}/runs`, { timeLimitSeconds: 2 });
   for (let i = 0; i < 240; i++) {
-    const r = await api<{ id: number; status: string; score: number; assignments: Array<{ seatId: number; personId: number | null }> }>(page, 'GET', `/runs/${start.id}`);
+    const r = await api<{ id: number; status: string; score: number; error?: string | null; assignments: Array<{ seatId: number; personId: number | null }> }>(page, 'GET', `/runs/${start.id}`);
     if (r.status === 'done') return r;
-    if (r.status === 'failed' || r.status === 'cancelled') throw new Error(`run ${start.id} ${r.status}`);
+    if (r.status === 'failed' || r.status === 'cancelled') throw new Error(`run ${start.id} ${r.status}: ${r.error ?? 'no reason given'}`);
     await page.waitForTimeout(500);
   }
   throw new Error(`run ${start.id} did not finish`);
