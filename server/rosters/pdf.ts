@@ -3,7 +3,8 @@
  * totals, seats filled and legend as the screen's print sheet, and the working-time caution.
  */
 import { z } from 'zod';
-import { PDFDocument, StandardFonts, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
+import { PDFDict, PDFDocument, PDFName, PDFNumber, StandardFonts, rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
+import { runNumber as numberOfRun } from '../runs/numbering';
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { HttpError } from '../http/errors';
@@ -28,10 +29,58 @@ const INK = hex('#1D2B2A');
 const SOFT = hex('#4A5857');
 const LINE = hex('#D8D0C0');
 
-/** The standard PDF fonts only encode WinAnsi; other characters become close ASCII or "?" instead of failing the file. */
+/**
+ * The standard PDF fonts only encode WinAnsi; other characters become close ASCII, their letter
+ * without its accent ("ř" → "r"), or "?" instead of failing the file.
+ */
 export function winAnsi(s: string): string {
   const map: Record<string, string> = { '−': '-', '–': '-', '—': '-', '×': 'x', '’': "'", '‘': "'", '“': '"', '”': '"', '…': '...', '\u00a0': ' ' };
-  return [...s].map((c) => map[c] ?? (c.charCodeAt(0) < 256 ? c : '?')).join('');
+  const fits = (c: string) => c.charCodeAt(0) < 256 && !(c.charCodeAt(0) >= 0x80 && c.charCodeAt(0) < 0xa0);
+  return [...s]
+    .map((c) => {
+      if (map[c]) return map[c];
+      if (fits(c)) return c;
+      const base = c.normalize('NFD')[0];
+      return base && fits(base) ? base : '?';
+    })
+    .join('');
+}
+
+/** Windows-1252 (WinAnsiEncoding) codes 128–159; 32–127 and 160–255 are Latin-1's own. */
+const CP1252_HIGH = '€\u0081‚ƒ„…†‡ˆ‰Š‹Œ\u008DŽ\u008F\u0090‘’“”•–—˜™š›œ\u009DžŸ';
+
+/**
+ * Writes each glyph's advance (Adobe's Helvetica metrics, as pdf-lib measured the lines with)
+ * into the font dictionaries. Without /Widths a viewer or printer lacking Helvetica lays the text
+ * out with its stand-in font's own, often wider, advances: lines that fitted ran off the page
+ * (seen in Chromium's viewer on a machine with only DejaVu Sans). Called after the last text is
+ * drawn: embedding then is final (pdf-lib re-embeds a font only after new text).
+ */
+export async function fixStandardFontWidths(doc: PDFDocument, fonts: PDFFont[]): Promise<void> {
+  for (const font of fonts) {
+    await font.embed();
+    const widths: number[] = [];
+    for (let code = 32; code <= 255; code++) {
+      const c = code >= 128 && code < 160 ? CP1252_HIGH[code - 128] : String.fromCharCode(code);
+      let w = 0;
+      try {
+        w = font.widthOfTextAtSize(c, 1000);
+      } catch {
+        w = 0; // a code WinAnsi leaves undefined
+      }
+      widths.push(Math.round(w));
+    }
+    const dict = doc.context.lookup(font.ref, PDFDict);
+    dict.set(PDFName.of('FirstChar'), PDFNumber.of(32));
+    dict.set(PDFName.of('LastChar'), PDFNumber.of(255));
+    dict.set(PDFName.of('Widths'), doc.context.obj(widths));
+  }
+}
+
+/** "Mon 6 Dec – Sun 12 Dec 2027", as the print sheet says it. */
+function spanWords(from: string, to: string): string {
+  const day = (d: string, year: boolean) => new Date(`${d}T12:00:00Z`).toLocaleDateString('en-GB', { weekday: 'short', day: 'numeric', month: 'short', ...(year ? { year: 'numeric' } : {}), timeZone: 'UTC' }).replace(',', '');
+  return `${day(from, from.slice(0, 4) !== to.slice(0, 4))} – ${day(to, true)}`;
 }
 
 /** Which run to print: the one named, else the published one, else the newest finished. */
@@ -114,6 +163,9 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
   const nameW = 110;
   const totalW = 40;
   const caution = wrap(font, WORKING_TIME_CAUTION, 7, PAGE.w - 2 * PAGE.margin);
+  const shownNumber = runNumber ?? (await numberOfRun({ id: runId, workspaceId, rosterId }));
+  // "sheet k of n" is written once every sheet exists.
+  const subLines: Array<{ page: PDFPage; words: string }> = [];
   const footerH = 16 + 14 + caution.length * 9;
   pages.forEach((days, pi) => {
     const dayW = (PAGE.w - 2 * PAGE.margin - nameW - 4 * totalW) / days.length;
@@ -127,8 +179,8 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
     for (let start = 0; start < Math.max(1, rows.length); start += perSheet) {
       const slice = rows.slice(start, start + perSheet);
       const page = doc.addPage([PAGE.w, PAGE.h]);
-      text(page, bold, `${rosterName} · ${days[0]} to ${days[days.length - 1]}`, PAGE.margin, PAGE.h - PAGE.margin - 12, 13);
-      text(page, font, `${runNumber ? `Run ${runNumber}` : 'Run'}${published ? ' · published' : ' · draft, not yet published'} · sheet ${doc.getPageCount()}`, PAGE.margin, PAGE.h - PAGE.margin - 26, 8, SOFT);
+      text(page, bold, `${rosterName} · ${spanWords(days[0], days[days.length - 1])}`, PAGE.margin, PAGE.h - PAGE.margin - 12, 13, INK, PAGE.w - 2 * PAGE.margin);
+      subLines.push({ page, words: `Run ${shownNumber}${published ? ' · published' : ' · draft, not yet published'}` });
       let y = top;
       // Header row.
       text(page, bold, 'Person', PAGE.margin + 2, y - 13, 8);
@@ -147,22 +199,29 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
       // Foot: seats filled against needed, per skill.
       text(page, bold, 'Filled / needed', PAGE.margin + 2, y - 9, 7);
       days.forEach((d, i) => {
-        (model.foot.get(d) ?? []).forEach((f, j) => text(page, f.filled < f.needed ? bold : font, `${skillName(f.skillId).slice(0, 8)} ${f.filled}/${f.needed}`, PAGE.margin + nameW + i * dayW + 2, y - 9 - j * 8, 6.5, f.filled < f.needed ? hex(gridColors.breach) : INK, dayW - 3));
+        // "Any" for seats any skill may fill, as on screen; a gap before the next day's column.
+        (model.foot.get(d) ?? []).forEach((f, j) => text(page, f.filled < f.needed ? bold : font, `${f.skillId === null ? 'Any' : skillName(f.skillId).slice(0, 8)} ${f.filled}/${f.needed}`, PAGE.margin + nameW + i * dayW + 2, y - 9 - j * 8, 6.5, f.filled < f.needed ? hex(gridColors.breach) : INK, dayW - 6));
       });
       page.drawLine({ start: { x: PAGE.margin, y }, end: { x: PAGE.w - PAGE.margin, y }, thickness: 0.5, color: LINE });
       // Legend and caution.
       let ly = PAGE.margin + caution.length * 9 + 18;
       let lx = PAGE.margin;
+      // The screen legend's words: the colour tells when the shift starts, the letters its name.
+      const bandWords = { morning: 'starts 04:00-10:59', afternoon: 'starts 11:00-15:59', evening: 'starts 16:00-19:59', night: 'night shift' } as const;
       for (const band of ['morning', 'afternoon', 'evening', 'night'] as const) {
         page.drawRectangle({ x: lx, y: ly - 2, width: 16, height: 9, color: hex(gridColors[band].fill) });
-        text(page, font, band === 'night' ? 'night' : `starts in the ${band}`, lx + 19, ly, 7, SOFT);
-        lx += 105;
+        text(page, bold, 'Ab', lx + 3, ly, 6.5, hex(gridColors[band].ink));
+        text(page, font, bandWords[band], lx + 19, ly, 7, SOFT);
+        lx += 95;
       }
+      text(page, font, "Ab: first letters of the shift's name", lx, ly, 7, SOFT);
       text(page, font, `Away: ${Object.entries(ABSENCE_MARKS).map(([k, m]) => `${m} ${ABSENCE_KIND_WORDS[k as keyof typeof ABSENCE_KIND_WORDS].toLowerCase()}`).join(', ')}. Wishes ${WISH_MARKS.prefer} prefer ${WISH_MARKS.avoid} avoid ${WISH_MARKS.cannot} cannot (* = not honoured). ! = a rule broken or given up.`, PAGE.margin, ly - 12, 7, SOFT);
       caution.forEach((line, i) => text(page, font, line, PAGE.margin, PAGE.margin + (caution.length - 1 - i) * 9, 7));
       if (rows.length === 0) break;
     }
   });
+  subLines.forEach(({ page, words }, i) => text(page, font, `${words} · sheet ${i + 1} of ${subLines.length}`, PAGE.margin, PAGE.h - PAGE.margin - 26, 8, SOFT));
+  await fixStandardFontWidths(doc, [font, bold]);
   const bytes = await doc.save();
   const slug = rosterName.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'roster';
   return { filename: `${slug}.pdf`, body: Buffer.from(bytes) };
@@ -171,7 +230,11 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
 function drawRow(page: PDFPage, font: PDFFont, bold: PDFFont, row: GridRow, days: string[], y: number, h: number, nameW: number, dayW: number, totalW: number) {
   const x0 = PAGE.margin;
   page.drawLine({ start: { x: x0, y }, end: { x: PAGE.w - PAGE.margin, y }, thickness: 0.5, color: LINE });
-  text(page, bold, row.person.name, x0 + 2, y - h / 2 - 3, 7.5, INK, nameW - 4);
+  // Rules broken over the whole period (rest, hours) mark the name, as the print sheet's "!n".
+  const note = row.rowBreaches.length ? `!${row.rowBreaches.length}` : '';
+  const noteW = note ? bold.widthOfTextAtSize(note, 7) + 3 : 0;
+  text(page, bold, row.person.name, x0 + 2, y - h / 2 - 3, 7.5, INK, nameW - 4 - noteW);
+  if (note) text(page, bold, note, x0 + nameW - 2 - noteW + 3, y - h / 2 - 3, 7, hex(gridColors.breach));
   days.forEach((d, i) => {
     const cell = row.cells.get(d)!;
     const x = x0 + nameW + i * dayW;
