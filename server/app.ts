@@ -35,6 +35,7 @@ import { mySwapsRouter, swapsRouter } from './swaps/router';
 import { offerRouters } from './offers/router';
 import { ledgerRouters } from './ledger/router';
 import { compareRouter } from './runs/compare-router';
+import { exportsRouter } from './exports/router';
 
 export interface AppDeps {
   env: Env;
@@ -105,6 +106,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/rosters', compareRouter());
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
+  api.use('/exports', exportsRouter());
   api.use('/billing', billingRouter(env));
   api.use('/health', healthRouter({ sequelize, version: env.version }));
   api.use(apiNotFound);

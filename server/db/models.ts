@@ -6,6 +6,7 @@ import { initTermModels } from '../terms/models';
 import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type CreationOptional, type Sequelize } from 'sequelize';
 import { initLearningModels } from '../learning/models';
 import { initSwapModels } from '../swaps/models';
+import { initExportModels } from '../exports/models';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
 
@@ -128,4 +129,5 @@ export function initModels(sequelize: Sequelize): void {
   initTermModels(sequelize);
   initLearningModels(sequelize);
   initSwapModels(sequelize);
+  initExportModels(sequelize);
 }

@@ -6,7 +6,7 @@ import * as repo from './repository';
 import { enforcePlanLimit } from '../billing/limits';
 import { peopleChanged } from '../billing/seat-sync';
 import { commitImport, csvUpload, previewImport } from './import';
-import { exportPeopleCsv } from './export';
+import { answerExport } from '../exports/jobs';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
 
@@ -39,10 +39,8 @@ export function peopleRouter() {
   });
   // Declared before '/:id' so the words are not read as ids.
   routes.get('/export', COORDINATOR_UP, async (req, res) => {
-    const csv = await exportPeopleCsv(ws(req));
-    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-    res.setHeader('Content-Disposition', 'attachment; filename="people.csv"');
-    res.send(csv);
+    // A very long list is written by a worker (202, server/exports/jobs.ts).
+    await answerExport(req, res, { kind: 'people-csv' });
   });
   routes.post('/import/preview', COORDINATOR_UP, csvUpload(), async (req, res) => {
     res.json(await previewImport(ws(req), req.file));

@@ -3,15 +3,25 @@ import { Op, type Sequelize } from 'sequelize';
 import { readEnv } from '../env';
 import { HttpError } from '../http/errors';
 import { RunRow } from '../rosters/models';
+import { ExportFile } from '../exports/models';
 import { producerOptions, queuePrefix, workerOptions } from './connection';
 
 /** Solve runs: one job per run row, id `run-<row id>` (BullMQ refuses custom ids that are plain integers). */
 export const RUNS_QUEUE = 'runs';
 /** Request-and-answer computations an API request waits for: a concession's price, seat alternatives. */
 export const COMPUTE_QUEUE = 'compute';
+/** Large exports (grid PDF, CSV, iCalendar): one job per exports row, id `export-<row id>`; the file goes to the row. */
+export const EXPORTS_QUEUE = 'exports';
 
 export const runJobId = (runId: number) => `run-${runId}`;
 export const runIdOfJob = (jobId: string | undefined) => Number(String(jobId ?? '').replace(/^run-/, ''));
+
+export const exportJobId = (exportId: number) => `export-${exportId}`;
+
+export interface ExportJobData {
+  exportId: number;
+  workspaceId: number;
+}
 
 export interface RunJobData {
   runId: number;
@@ -35,6 +45,7 @@ interface Hub {
   prefix: string;
   runs: Queue<RunJobData>;
   compute: Queue<ComputeJobData, ComputeJobResult>;
+  exports: Queue<ExportJobData>;
   events: Promise<QueueEvents> | null;
   runEvents: Promise<QueueEvents> | null;
 }
@@ -73,9 +84,11 @@ export function queues(sequelize: Sequelize): Hub {
   const { url, prefix } = queueSettings(sequelize);
   const runs = new Queue<RunJobData>(RUNS_QUEUE, { connection: producerOptions(url), prefix });
   const compute = new Queue<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, { connection: producerOptions(url), prefix });
+  const exports = new Queue<ExportJobData>(EXPORTS_QUEUE, { connection: producerOptions(url), prefix });
   runs.on('error', quietErrors('runs queue'));
   compute.on('error', quietErrors('compute queue'));
-  hub = { url, prefix, runs, compute, events: null, runEvents: null };
+  exports.on('error', quietErrors('exports queue'));
+  hub = { url, prefix, runs, compute, exports, events: null, runEvents: null };
   hubs.set(sequelize, hub);
   return hub;
 }
@@ -85,7 +98,7 @@ export async function closeQueues(sequelize: Sequelize): Promise<void> {
   if (!hub) return;
   hubs.delete(sequelize);
   const [events, runEvents] = await Promise.all([hub.events?.catch(() => null), hub.runEvents?.catch(() => null)]);
-  await Promise.allSettled([hub.runs.close(), hub.compute.close(), events?.close(), runEvents?.close()]);
+  await Promise.allSettled([hub.runs.close(), hub.compute.close(), hub.exports.close(), events?.close(), runEvents?.close()]);
 }
 
 export class QueueUnavailableError extends HttpError {
@@ -117,7 +130,7 @@ async function computeWorkers(hub: Hub): Promise<number> {
 const WORKER_CHECK_MS = 3000;
 
 /** Resolves when the queue's Redis connection is up; a Redis that is down answers within about two seconds. */
-async function ready(queue: Queue<never, never> | Queue<RunJobData> | Queue<ComputeJobData, ComputeJobResult>): Promise<void> {
+async function ready(queue: Queue<never, never> | Queue<RunJobData> | Queue<ComputeJobData, ComputeJobResult> | Queue<ExportJobData>): Promise<void> {
   let timer: ReturnType<typeof setTimeout> | undefined;
   const client = await Promise.race([queue.client.catch(() => null), new Promise<null>((r) => (timer = setTimeout(() => r(null), 2000)))]);
   clearTimeout(timer);
@@ -229,4 +242,52 @@ export async function computeOnWorker(sequelize: Sequelize, data: ComputeJobData
   }
   if (!result.ok) throw new HttpError(result.status, result.code as never, result.message, result.fields);
   return result.value;
+}
+
+/** Attempts per export: a second try after a crash or a killed worker, then the row says it failed, in words. */
+export const EXPORT_ATTEMPTS = 2;
+
+/**
+ * Throws a 503 with Retry-After (in words) when no export job could be worked now: Redis away, or
+ * no worker process serving the exports queue. Called before an export row is written, so a
+ * refused request leaves nothing behind.
+ */
+export async function requireExportWorker(sequelize: Sequelize): Promise<void> {
+  const hub = queues(sequelize);
+  await ready(hub.exports);
+  let workers: number;
+  try {
+    workers = await hub.exports.getWorkersCount();
+  } catch {
+    throw new QueueUnavailableError('The file queue cannot be reached just now, so nothing was started. Try again in a few seconds.');
+  }
+  if (workers === 0) {
+    throw new QueueUnavailableError(
+      'No worker is running just now to prepare a file this large, so nothing was started. Try again in a minute (a worker is started with npm run worker); smaller files are answered at once.',
+      NO_WORKER_RETRY_AFTER_S,
+    );
+  }
+}
+
+/** How many worker processes serve the exports queue now; null when Redis cannot say. */
+export async function exportWorkers(sequelize: Sequelize): Promise<number | null> {
+  return queues(sequelize)
+    .exports.getWorkersCount()
+    .catch(() => null);
+}
+
+/** As runPriority: 1 + the workspace's exports already waiting or being made, so one workspace's many files interleave with the others'. */
+export async function exportPriority(workspaceId: number, exportId: number): Promise<number> {
+  const ahead = await ExportFile.count({ where: { workspaceId, status: { [Op.in]: ['queued', 'running'] }, id: { [Op.lt]: exportId } } });
+  return Math.min(MAX_PRIORITY, 1 + ahead);
+}
+
+/** Adds the job of an export whose row is committed; the job id is the row's, so a second add (the reconciler) keeps one job. */
+export async function enqueueExport(sequelize: Sequelize, row: { id: number; workspaceId: number }): Promise<Job<ExportJobData>> {
+  const priority = await exportPriority(row.workspaceId, row.id);
+  return queues(sequelize).exports.add(
+    'export',
+    { exportId: row.id, workspaceId: row.workspaceId },
+    { jobId: exportJobId(row.id), priority, attempts: EXPORT_ATTEMPTS, backoff: { type: 'fixed', delay: 500 }, removeOnComplete: { age: 3600, count: 5000 }, removeOnFail: { age: 86_400 } },
+  );
 }

@@ -17,6 +17,7 @@ import { gridColors } from '../../constants/grid-colors';
 import { runAssignment } from '../runs/run-view';
 import { findRoster } from './repository';
 import { RunRow } from './models';
+import { answerExport } from '../exports/jobs';
 
 export const rosterPdfQuery = z.object({
   runId: z.coerce.number().int().min(1, 'must be a positive id').optional(),
@@ -84,7 +85,7 @@ function spanWords(from: string, to: string): string {
 }
 
 /** Which run to print: the one named, else the published one, else the newest finished. */
-async function pickRun(workspaceId: number, rosterId: number, runId?: number): Promise<number> {
+export async function pickRun(workspaceId: number, rosterId: number, runId?: number): Promise<number> {
   if (runId) {
     const run = await RunRow.findOne({ where: { id: runId, workspaceId, rosterId }, attributes: ['id'] });
     if (!run) throw new HttpError(404, 'not_found', 'Run not found for this roster', [{ path: 'query.runId', message: 'not a run of this roster' }]);
@@ -98,7 +99,7 @@ async function pickRun(workspaceId: number, rosterId: number, runId?: number): P
 }
 
 /** The grid model of a run, built from the roster as it stands (the same builder the screen uses). */
-export async function runGrid(workspaceId: number, rosterId: number, runId: number): Promise<{ model: GridModel; rosterName: string; runNumber: number | null; published: boolean; skillName: (id: number | null) => string }> {
+export async function runGrid(workspaceId: number, rosterId: number, runId: number): Promise<{ model: GridModel; rosterName: string; runNumber: number | null; published: boolean; skillName: (id: number | null) => string; stamp: Date }> {
   const roster = await findRoster(workspaceId, rosterId);
   const { run, roster: json, assignment } = await runAssignment(workspaceId, runId);
   const skills = new Map(json.skills.map((s) => [dbId(s.id), s.name]));
@@ -119,7 +120,8 @@ export async function runGrid(workspaceId: number, rosterId: number, runId: numb
     totals: result?.people ?? [],
     skillName,
   });
-  return { model, rosterName: roster.name, runNumber: (run as RunRow & { number?: number | null }).number ?? null, published: roster.publishedRunId === run.id, skillName };
+  // The run row's last write (its finish) dates the file, so two downloads of one run give the same bytes.
+  return { model, rosterName: roster.name, runNumber: (run as RunRow & { number?: number | null }).number ?? null, published: roster.publishedRunId === run.id, skillName, stamp: new Date(run.updatedAt) };
 }
 
 const PAGE = { w: 841.89, h: 595.28, margin: 24 };
@@ -151,10 +153,15 @@ function wrap(font: PDFFont, s: string, size: number, width: number): string[] {
 
 export async function rosterPdf(workspaceId: number, rosterId: number, q: { runId?: number; days: number }): Promise<{ filename: string; body: Buffer }> {
   const runId = await pickRun(workspaceId, rosterId, q.runId);
-  const { model, rosterName, runNumber, published, skillName } = await runGrid(workspaceId, rosterId, runId);
-  const doc = await PDFDocument.create();
+  const { model, rosterName, runNumber, published, skillName, stamp } = await runGrid(workspaceId, rosterId, runId);
+  // pdf-lib would stamp the file with the clock (CreationDate, ModDate); the run's own time keeps
+  // the bytes the same whether the API process or a worker makes them, and between downloads.
+  const doc = await PDFDocument.create({ updateMetadata: false });
   doc.setTitle(winAnsi(`${rosterName} - roster`));
   doc.setCreator('Rotaloom');
+  doc.setProducer('pdf-lib (https://github.com/Hopding/pdf-lib)');
+  doc.setCreationDate(stamp);
+  doc.setModificationDate(stamp);
   const font = await doc.embedFont(StandardFonts.Helvetica);
   const bold = await doc.embedFont(StandardFonts.HelveticaBold);
   const rows = model.rows.filter((r) => [...r.cells.values()].some((c) => c.seats.length || c.absence)).sort((a, b) => a.person.name.localeCompare(b.person.name));
@@ -167,7 +174,10 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
   // "sheet k of n" is written once every sheet exists.
   const subLines: Array<{ page: PDFPage; words: string }> = [];
   const footerH = 16 + 14 + caution.length * 9;
-  pages.forEach((days, pi) => {
+  for (const days of pages) {
+    // A year for 200 people is seconds of drawing: letting other work in between sheets keeps a
+    // worker's job locks renewed (a blocked process would look dead to the queue).
+    await new Promise((r) => setImmediate(r));
     const dayW = (PAGE.w - 2 * PAGE.margin - nameW - 4 * totalW) / days.length;
     // A long staff list continues on further sheets for the same days.
     const top = PAGE.h - PAGE.margin - 34;
@@ -219,7 +229,7 @@ export async function rosterPdf(workspaceId: number, rosterId: number, q: { runI
       caution.forEach((line, i) => text(page, font, line, PAGE.margin, PAGE.margin + (caution.length - 1 - i) * 9, 7));
       if (rows.length === 0) break;
     }
-  });
+  }
   subLines.forEach(({ page, words }, i) => text(page, font, `${words} · sheet ${i + 1} of ${subLines.length}`, PAGE.margin, PAGE.h - PAGE.margin - 26, 8, SOFT));
   await fixStandardFontWidths(doc, [font, bold]);
   const bytes = await doc.save();
@@ -268,10 +278,8 @@ export function rosterPdfRouter() {
   const r = new ApiRoutes('/rosters');
   r.get('/:rosterId/roster.pdf', COORDINATOR_UP, validate({ params: rosterIdParams, query: rosterPdfQuery }), async (req, res) => {
     const q = req.query as unknown as { runId?: number; days: number };
-    const file = await rosterPdf(req.auth!.workspaceId, Number(req.params.rosterId), q);
-    res.setHeader('Content-Type', 'application/pdf');
-    res.setHeader('Content-Disposition', `attachment; filename="${file.filename}"`);
-    res.send(file.body);
+    // Small grids are drawn at once; large ones by a worker (202, server/exports/jobs.ts).
+    await answerExport(req, res, { kind: 'roster-pdf', rosterId: Number(req.params.rosterId), ...(q.runId ? { runId: q.runId } : {}), days: q.days });
   });
   return r.router;
 }

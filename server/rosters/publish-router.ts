@@ -3,7 +3,8 @@ import type { Mailer } from '../mail/mailer';
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { publishBody, reopenBody, rosterExportQuery, rosterIdParams } from '../../shared/api/rosters';
-import { exportCsv, exportIcs, publishRoster, reopenRoster } from './publish';
+import { publishRoster, reopenRoster } from './publish';
+import { answerExport } from '../exports/jobs';
 import { enforcePlanLimit } from '../billing/limits';
 
 const ws = (req: { auth?: { workspaceId: number } }) => req.auth!.workspaceId;
@@ -19,17 +20,14 @@ export function publishRouter(deps: { env: Env; mailer: Mailer }) {
   r.post('/:rosterId/reopen', COORDINATOR_UP, validate({ params: rosterIdParams, body: reopenBody }), enforcePlanLimit('activeRosters'), async (req, res) => {
     res.json(await reopenRoster(ws(req), rid(req), req.body.version));
   });
+  // Small files are sent at once; large ones are made by a worker (202, server/exports/jobs.ts).
   r.get('/:rosterId/roster.csv', COORDINATOR_UP, validate({ params: rosterIdParams, query: rosterExportQuery }), async (req, res) => {
-    const file = await exportCsv(ws(req), rid(req), req.query as { runId?: number; personId?: number });
-    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-    res.setHeader('Content-Disposition', `attachment; filename="${file.filename}"`);
-    res.send(file.body);
+    const q = req.query as { runId?: number; personId?: number };
+    await answerExport(req, res, { kind: 'roster-csv', rosterId: rid(req), ...(q.runId ? { runId: q.runId } : {}), ...(q.personId ? { personId: q.personId } : {}) });
   });
   r.get('/:rosterId/roster.ics', COORDINATOR_UP, validate({ params: rosterIdParams, query: rosterExportQuery }), async (req, res) => {
-    const file = await exportIcs(ws(req), rid(req), req.query as { runId?: number; personId?: number });
-    res.setHeader('Content-Type', 'text/calendar; charset=utf-8');
-    res.setHeader('Content-Disposition', `attachment; filename="${file.filename}"`);
-    res.send(file.body);
+    const q = req.query as { runId?: number; personId?: number };
+    await answerExport(req, res, { kind: 'roster-ics', rosterId: rid(req), ...(q.runId ? { runId: q.runId } : {}), ...(q.personId ? { personId: q.personId } : {}) });
   });
   return r.router;
 }

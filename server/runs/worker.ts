@@ -17,7 +17,8 @@ import { coverPinnedSeats, withCoverPins } from '../absences/cover-pins';
 import { admitRun } from './admission';
 import { priceConcession } from './concession-price';
 import { seatAlternatives } from './alternatives';
-import { COMPUTE_QUEUE, RUN_ATTEMPTS, RUNS_QUEUE, queueSettings, quietErrors, useRedis, type ComputeJobData, type ComputeJobResult, type RunJobData } from '../queue/queues';
+import { COMPUTE_QUEUE, EXPORTS_QUEUE, RUN_ATTEMPTS, RUNS_QUEUE, queueSettings, quietErrors, useRedis, type ComputeJobData, type ComputeJobResult, type ExportJobData, type RunJobData } from '../queue/queues';
+import { markExportGivenUp, reconcileExports, workExport } from '../exports/jobs';
 import { workerOptions } from '../queue/connection';
 import { failureInWords, markGivenUp, reconcileRuns } from '../queue/reconcile';
 import type { RosterAssignment } from '../../shared/roster/schema';
@@ -82,6 +83,7 @@ export class RunWorker {
   private readonly capDelayMs: number;
   private runs: Worker<RunJobData> | null = null;
   private compute: Worker<ComputeJobData, ComputeJobResult> | null = null;
+  private exports: Worker<ExportJobData> | null = null;
   private manual: Worker<RunJobData> | null = null;
   private reconcileTimer: ReturnType<typeof setInterval> | null = null;
   private reconciling = false;
@@ -126,16 +128,25 @@ export class RunWorker {
     }
   }
 
-  /** Only the compute queue (prices, alternatives): for tests that solve runs one tick at a time. */
+  /** Only the compute queues (prices, alternatives, large exports): for tests that solve runs one tick at a time. */
   startCompute(): void {
-    if (this.compute) return;
-    this.compute = new Worker<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, (job) => this.processCompute(job), this.workerOpts(1));
-    this.compute.on('error', quietErrors('compute worker'));
+    if (!this.compute) {
+      this.compute = new Worker<ComputeJobData, ComputeJobResult>(COMPUTE_QUEUE, (job) => this.processCompute(job), this.workerOpts(1));
+      this.compute.on('error', quietErrors('compute worker'));
+    }
+    if (!this.exports) {
+      // A queue of its own, so a person waiting on a price is not held up behind a year's PDF.
+      this.exports = new Worker<ExportJobData>(EXPORTS_QUEUE, (job, token) => this.processExport(job, token), this.workerOpts(1));
+      this.exports.on('error', quietErrors('export worker'));
+      this.exports.on('failed', (job) => {
+        if (job?.deferredFailure) void markExportGivenUp(job.data.exportId, job.failedReason).catch(() => {});
+      });
+    }
   }
 
   /** Resolves once this worker's queues are connected, so other processes count it (Queue.getWorkersCount). */
   async ready(): Promise<void> {
-    await Promise.all([this.runs?.waitUntilReady(), this.compute?.waitUntilReady()]);
+    await Promise.all([this.runs?.waitUntilReady(), this.compute?.waitUntilReady(), this.exports?.waitUntilReady()]);
   }
 
   /** Runs the reconciler once (never two at once in this process); a Redis that is down is tried again next time. */
@@ -146,6 +157,9 @@ export class RunWorker {
       const report = await reconcileRuns(this.sequelize);
       if (report.enqueued.length) this.log(`reconciler: enqueued runs ${report.enqueued.join(', ')} that had no job`);
       if (report.failed.length) this.log(`reconciler: marked runs ${report.failed.join(', ')} failed`);
+      const files = await reconcileExports(this.sequelize);
+      if (files.enqueued.length) this.log(`reconciler: enqueued exports ${files.enqueued.join(', ')} that had no job`);
+      if (files.failed.length) this.log(`reconciler: marked exports ${files.failed.join(', ')} failed`);
     } catch (err) {
       this.log(`reconciler: ${err instanceof Error ? err.message : String(err)}`);
     } finally {
@@ -198,8 +212,8 @@ export class RunWorker {
     if (this.reconcileTimer) clearInterval(this.reconcileTimer);
     this.reconcileTimer = null;
     await Promise.all([...this.threads].map((t) => t.terminate()));
-    await Promise.allSettled([this.runs?.close(), this.compute?.close(), this.manual?.close()]);
-    this.runs = this.compute = this.manual = null;
+    await Promise.allSettled([this.runs?.close(), this.compute?.close(), this.exports?.close(), this.manual?.close()]);
+    this.runs = this.compute = this.manual = this.exports = null;
   }
 
   /** The BullMQ processor: a run over its workspace's cap waits (delayed, keeping its priority) and is offered again. */
@@ -212,6 +226,14 @@ export class RunWorker {
       if (!(err instanceof HandedBack)) throw err;
       await job.moveToDelayed(Date.now(), token);
     }
+    throw new DelayedError();
+  }
+
+  /** An export job (server/exports/jobs.ts); one over its workspace's cap waits, keeping its priority, and is offered again. */
+  private async processExport(job: Job<ExportJobData>, token?: string): Promise<string> {
+    const end = await workExport(this.sequelize, job, this.name);
+    if (end !== 'deferred') return end;
+    await job.moveToDelayed(Date.now() + this.capDelayMs, token);
     throw new DelayedError();
   }
 

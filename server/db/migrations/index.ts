@@ -11,6 +11,7 @@ import * as m0010 from './0010-preferences';
 import * as m0011 from './0011-swaps-offers-ledger';
 import * as m0012 from './0012-sign-in-counters';
 import * as m0013 from './0013-sign-up-requests';
+import * as m0014 from './0014-exports';
 
 export interface Migration {
   name: string;
@@ -33,4 +34,5 @@ export const migrations: Migration[] = [
   { name: '0011-swaps-offers-ledger', ...m0011 },
   { name: '0012-sign-in-counters', ...m0012 },
   { name: '0013-sign-up-requests', ...m0013 },
+  { name: '0014-exports', ...m0014 },
 ];
