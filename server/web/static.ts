@@ -1,10 +1,11 @@
-import express, { Router } from 'express';
+import express, { Router, type Request, type Response } from 'express';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { HASHED_FILE } from './hashed';
 
-/** As server/bootstrap/web-finish.ts names it (not imported: that module pulls in workbox-build). */
+/** As server/bootstrap/web-finish.ts names them (not imported: that module pulls in workbox-build). */
 const APP_SHELL = 'app-shell.html';
+const PRECOMPRESSED = /\.(js|html|css|json|webmanifest|svg|ttf)$/;
 
 /**
  * Serves the exported web app. The landing page gets index.html, which the build rendered with its
@@ -16,6 +17,10 @@ export function webRouter(webDir: string): Router {
   const router = Router();
   const indexFile = path.join(webDir, 'index.html');
   const shellFile = path.join(webDir, APP_SHELL);
+  router.use((req, res, next) => {
+    if ((req.method === 'GET' || req.method === 'HEAD') && !req.path.startsWith('/api/') && sendBrotli(req, res, webDir, req.path)) return;
+    next();
+  });
   // redirect: false — the static export has folders named like routes (rosters/), which must not become /rosters/
   router.use(express.static(webDir, { index: false, redirect: false, setHeaders: cacheHeaders }));
   router.get('/{*splat}', (req, res, next) => {
@@ -24,8 +29,10 @@ export function webRouter(webDir: string): Router {
       res.status(503).type('text/plain').send('The web app has not been built yet: run `npm start`, which builds it.');
       return;
     }
+    const page = req.path === '/' || !existsSync(shellFile) ? 'index.html' : APP_SHELL;
+    if (sendBrotli(req, res, webDir, `/${page}`)) return;
     res.setHeader('Cache-Control', 'no-cache');
-    res.sendFile(req.path === '/' || !existsSync(shellFile) ? indexFile : shellFile);
+    res.sendFile(path.join(webDir, page));
   });
   return router;
 }
@@ -40,4 +47,27 @@ export function cacheControlFor(filePath: string): string {
 
 function cacheHeaders(res: express.Response, filePath: string): void {
   res.setHeader('Cache-Control', cacheControlFor(filePath));
+}
+
+/**
+ * The build's Brotli copy of a file (server/bootstrap/web-finish.ts `precompress`), for a browser
+ * that accepts it; the compression middleware leaves an answer that already has an encoding alone.
+ */
+function sendBrotli(req: Request, res: Response, webDir: string, urlPath: string): boolean {
+  if (!PRECOMPRESSED.test(urlPath) || req.acceptsEncodings('br') !== 'br') return false;
+  let rel: string;
+  try {
+    rel = decodeURIComponent(urlPath);
+  } catch {
+    return false;
+  }
+  const root = path.resolve(webDir);
+  const file = path.resolve(root, `.${rel}`);
+  if (!file.startsWith(root + path.sep) || !existsSync(`${file}.br`)) return false;
+  res.setHeader('Content-Encoding', 'br');
+  res.setHeader('Vary', 'Accept-Encoding');
+  res.setHeader('Cache-Control', cacheControlFor(file));
+  res.type(path.extname(file));
+  res.sendFile(`${file}.br`);
+  return true;
 }
