@@ -20,9 +20,10 @@ import { peopleRouter, skillsRouter } from './people/router';
 import { rostersRouter } from './rosters/router';
 import { pairingsRouter } from './pairings/router';
 import { runsRouter } from './runs/router';
+import { rosterRunsRouter } from './runs/roster-runs-router';
 import { billingRouter } from './billing/router';
 import { feedsRouter, staffRouter } from './staff/router';
-import { runWorkflowRouters } from './runs/workflow-router';
+import { runWorkflowRouter } from './runs/workflow-router';
 import { publishRouter } from './rosters/publish-router';
 import { rosterPdfRouter } from './rosters/pdf';
 import { publishPreviewRouter } from './rosters/mail-preview';
@@ -32,8 +33,11 @@ import { staffAbsencesRouter } from './absences/staff-router';
 import { useRedis } from './queue/queues';
 import { suggestionRouter } from './learning/router';
 import { mySwapsRouter, swapsRouter } from './swaps/router';
-import { offerRouters } from './offers/router';
-import { ledgerRouters } from './ledger/router';
+import { offersRouter } from './offers/router';
+import { rosterOffersRouter } from './offers/roster-router';
+import { myOffersRouter } from './offers/staff-router';
+import { ledgerRouter } from './ledger/router';
+import { myLedgerRouter } from './ledger/staff-router';
 import { compareRouter } from './runs/compare-router';
 import { exportsRouter } from './exports/router';
 
@@ -89,21 +93,26 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use('/invitations', invitationsRouter({ env, mailer }));
   api.use('/skills', skillsRouter());
   api.use('/people', peopleRouter(), termsRouter());
-  const [rosterRunsRouter, runRouter] = runsRouter();
-  const [rosterWorkflowRouter, runWorkflowRouter] = runWorkflowRouters();
-  api.use('/rosters', rostersRouter(), rosterRunsRouter, rosterWorkflowRouter, publishRouter({ env, mailer }), absenceCoverRouter(), rosterPdfRouter(), publishPreviewRouter(), copyForwardRouter(), suggestionRouter());
-  api.use('/runs', runRouter, runWorkflowRouter);
+  // One router per file; each prefix is mounted once.
+  api.use(
+    '/rosters',
+    rostersRouter(),
+    rosterRunsRouter(),
+    publishRouter({ env, mailer }),
+    absenceCoverRouter(),
+    rosterPdfRouter(),
+    publishPreviewRouter(),
+    copyForwardRouter(),
+    suggestionRouter(),
+    rosterOffersRouter(),
+    compareRouter(),
+  );
+  api.use('/runs', runsRouter(), runWorkflowRouter());
   api.use('/pairings', pairingsRouter());
-  api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter(), mySwapsRouter());
+  api.use('/me', staffRouter({ env, mailer }), staffAbsencesRouter(), mySwapsRouter(), myOffersRouter(), myLedgerRouter());
   api.use('/swaps', swapsRouter());
-  const [rosterOffersRouter, offersRouter, myOffersRouter] = offerRouters();
-  api.use('/rosters', rosterOffersRouter);
-  api.use('/offers', offersRouter);
-  api.use('/me', myOffersRouter);
-  const [ledgerRouter, myLedgerRouter] = ledgerRouters();
-  api.use('/ledger', ledgerRouter);
-  api.use('/me', myLedgerRouter);
-  api.use('/rosters', compareRouter());
+  api.use('/offers', offersRouter());
+  api.use('/ledger', ledgerRouter());
   api.use('/absences', absencesRouter({ env, mailer }));
   api.use('/feeds', feedsRouter());
   api.use('/exports', exportsRouter());

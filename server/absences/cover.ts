@@ -2,9 +2,9 @@ import { HttpError } from '../http/errors';
 import { AssignmentRow } from '../rosters/models';
 import { findRoster } from '../rosters/repository';
 import { reopenRoster } from '../rosters/publish';
-import { queueRun } from '../runs/router';
+import { queueRun } from '../runs/start';
 import { absenceConflicts, baseRunOf } from './conflicts';
-import { withCoverPins, type CoverParameters } from './cover-pins';
+import type { CoverParameters } from './cover-pins';
 
 /**
  * "Find cover": a re-solve that keeps every seat of the roster people are working from (the
@@ -30,12 +30,12 @@ export async function startAbsenceCover(workspaceId: number, rosterId: number, p
       freed: [...freed].map(([seatId, personId]) => ({ seatId, personId })),
     },
   };
-  const prepare = (r: Parameters<typeof withCoverPins>[0]) => withCoverPins(r, parameters);
+  // queueRun lays the cover pins in `parameters` over the roster before its checks (server/runs/start.ts).
   if (roster.status === 'published') {
-    await queueRun(workspaceId, rosterId, parameters, { prepare, dryRun: true });
+    await queueRun(workspaceId, rosterId, parameters, { dryRun: true });
     await reopenRoster(workspaceId, rosterId, roster.version);
   }
-  const run = (await queueRun(workspaceId, rosterId, parameters, { prepare }))!;
+  const run = (await queueRun(workspaceId, rosterId, parameters))!;
   return { runId: run.id, freedSeatIds: [...freed.keys()] };
 }
 

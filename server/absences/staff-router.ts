@@ -4,7 +4,8 @@ import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
 import { requestAbsenceBody } from '../../shared/api/absences';
-import { Person } from '../db/models';
+import type { Person } from '../db/models';
+import { findPerson } from '../people/repository';
 import { createAbsence, myAbsences, withdrawMyAbsence } from './repository';
 
 const ws = (req: Request) => req.auth!.workspaceId;
@@ -12,7 +13,7 @@ const ws = (req: Request) => req.auth!.workspaceId;
 /** The caller's linked person in this workspace, or null. */
 async function linkedPerson(req: Request): Promise<Person | null> {
   const personId = req.auth!.personId;
-  return personId ? Person.findOne({ where: { id: personId, workspaceId: ws(req) }, attributes: ['id'] }) : null;
+  return personId ? findPerson(ws(req), personId) : null;
 }
 
 /** /api/me/absences: a staff member's own absences and requests; never anyone else's. */

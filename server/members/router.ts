@@ -1,6 +1,5 @@
 import type { Router } from 'express';
 import type { Env } from '../env';
-import { User } from '../db/models';
 import { ADMIN_ONLY, ApiRoutes } from '../http/routes';
 import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
@@ -13,10 +12,12 @@ import { normalizeEmail } from '../auth/service';
 import { currentSession, logIn, sendLater } from '../auth/router';
 import {
   INVITATION_VALID_MS,
+  accountExists,
   changeRole,
   createInvitation,
   findUsableInvitation,
   joinByInvitation,
+  joinAsNewAccount,
   linkPerson,
   listInvitations,
   listMembers,
@@ -103,7 +104,7 @@ export function invitationsRouter({ env, mailer }: { env: Env; mailer: Mailer })
       res.json(await currentSession(req));
       return;
     }
-    if (await User.findOne({ where: { email: invitation.email }, attributes: ['id'] })) {
+    if (await accountExists(invitation.email)) {
       throw new HttpError(401, 'unauthenticated', `Sign in as ${invitation.email} to accept this invitation`, [{ path: 'body.password', message: 'Sign in first' }]);
     }
     const missing = [
@@ -115,8 +116,7 @@ export function invitationsRouter({ env, mailer }: { env: Env; mailer: Mailer })
     const passwordHash = await hashPassword(password!);
     let userId: number;
     try {
-      // The invitee proved the address by opening the e-mailed link.
-      userId = await joinByInvitation(invitation, async (transaction) => (await User.create({ email: invitation.email, displayName: displayName!, passwordHash, emailVerified: true }, { transaction })).id);
+      userId = await joinAsNewAccount(invitation, { displayName: displayName!, passwordHash });
     } catch (err) {
       if ((err as { name?: string }).name === 'SequelizeUniqueConstraintError') {
         throw new HttpError(409, 'conflict', `An account for ${invitation.email} was just made; sign in to accept`, [{ path: 'body.token', message: 'Sign in first' }]);

@@ -250,3 +250,16 @@ export async function joinByInvitation(invitation: Invitation, who: number | ((t
     return userId;
   });
 }
+
+/** Whether an account already uses this (normalised) address: its owner must sign in to accept. */
+export async function accountExists(email: string): Promise<boolean> {
+  return (await User.findOne({ where: { email }, attributes: ['id'] })) !== null;
+}
+
+/**
+ * A new account made by accepting an invitation, inside the join's transaction (joinByInvitation);
+ * the invitee proved the address by opening the e-mailed link.
+ */
+export async function joinAsNewAccount(invitation: Invitation, account: { displayName: string; passwordHash: string }): Promise<number> {
+  return joinByInvitation(invitation, async (transaction) => (await User.create({ email: invitation.email, displayName: account.displayName, passwordHash: account.passwordHash, emailVerified: true }, { transaction })).id);
+}

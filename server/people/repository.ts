@@ -184,3 +184,8 @@ export async function restorePerson(workspaceId: number, id: number, version: nu
 export async function activePerson(workspaceId: number, id: number, transaction?: Transaction): Promise<Person | null> {
   return Person.findOne({ where: { id, workspaceId, archivedAt: null }, transaction });
 }
+
+/** A person of the workspace by id, archived or not (the person a member is linked to); null when there is none. */
+export async function findPerson(workspaceId: number, id: number): Promise<Person | null> {
+  return Person.findOne({ where: { id, workspaceId } });
+}

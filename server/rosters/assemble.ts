@@ -1,11 +1,12 @@
 import { Person, Skill } from '../db/models';
-import { parseRoster, type ParseRosterResult, type RosterInput } from '../../shared/roster/schema';
+import { parseRoster, type ParseRosterResult, type Roster as RosterJson, type RosterInput } from '../../shared/roster/schema';
 import { PairingRow, PinRow, SeatRow, ShiftRow, WishRow } from './models';
 import { findRoster } from './repository';
 import { rosterIds } from './ids';
 import { absencesForRoster } from '../absences/roster';
 import { termsForPeriod } from '../terms/repository';
 import { ledgerTerms } from '../ledger/terms';
+import { HttpError } from '../http/errors';
 
 /**
  * Reads one roster with everything the solver needs from the database into the roster JSON
@@ -64,4 +65,13 @@ export async function assembleRoster(workspaceId: number, rosterId: number): Pro
   if (carried.size === 0) return { input, parsed, version: roster.version };
   for (const person of input.people) if (carried.has(person.id)) person.terms = [...(person.terms ?? []), ...carried.get(person.id)!];
   return { input, parsed: parseRoster(input), version: roster.version };
+}
+
+/** The roster as it stands now, valid, or a 422 naming every problem (the message leads with the first). */
+export async function assembleValidRoster(workspaceId: number, rosterId: number): Promise<{ roster: RosterJson; version: number }> {
+  const { parsed, version } = await assembleRoster(workspaceId, rosterId);
+  if (!parsed.ok) {
+    throw new HttpError(422, 'unprocessable', `The roster has problems to fix first: ${parsed.issues[0].path}: ${parsed.issues[0].message}`, parsed.issues.map((i) => ({ path: `roster.${i.path}`, message: i.message })));
+  }
+  return { roster: parsed.roster, version };
 }

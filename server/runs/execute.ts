@@ -35,8 +35,8 @@ export interface RunOutcome {
 export const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
- * One solve of a validated roster: infeasibility explained in words up front, then max-product
- * MAP with progress and cancellation, decoded and re-scored independently.
+ * One solve of a roster prepared by server/runs/start.ts: max-product MAP with progress and
+ * cancellation, decoded and re-scored independently.
  */
 export async function executeRun(
   roster: Roster,
@@ -46,9 +46,9 @@ export async function executeRun(
   /** The roster to start from (server/runs/previous-start.ts); the greedy one when it scores better. */
   start?: RosterAssignment,
 ): Promise<{ ok: true; outcome: RunOutcome; compiled: CompiledRoster } | { ok: false; reasons: string[] }> {
-  if (roster.seats.length === 0) return { ok: false, reasons: ['This roster has no shifts yet: add a shift pattern or a shift first.'] };
-  // solveRoster checks feasibility in words first, then starts max-product from the better of the
-  // given start and a greedy roster.
+  // The roster was checked when its run was started (server/runs/start.ts: shifts, feasibility in
+  // words); solveRoster repeats only its own explainInfeasible guard, then starts max-product from
+  // the better of the given start and a greedy roster.
   const solved = await solveRoster(
     roster,
     {

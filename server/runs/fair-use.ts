@@ -5,6 +5,8 @@ import { transactionWithRetry } from '../db/sequelize';
 import { RunRow } from '../rosters/models';
 import { standingOf } from '../billing/limits';
 import type { PlanId } from '../../shared/billing/plans';
+import type { Roster as RosterJson } from '../../shared/roster/schema';
+import { saveRunRoster } from './repository';
 
 /**
  * Fair use of the solve workers, by plan: how many runs a workspace may have waiting or solving
@@ -28,9 +30,9 @@ export async function requireTimeLimitWithinPlan(workspaceId: number, seconds: n
 /**
  * Creates the run row unless the workspace already has its plan's number of runs waiting or
  * solving: then 429 with Retry-After. The workspace row is locked while counting and creating, so
- * simultaneous starts cannot pass the cap together.
+ * simultaneous starts cannot pass the cap together. The roster the run solves is stored with it.
  */
-export async function createRunWithinAllowance(workspaceId: number, values: CreationAttributes<RunRow>): Promise<RunRow> {
+export async function createRunWithinAllowance(workspaceId: number, values: CreationAttributes<RunRow>, roster: RosterJson): Promise<RunRow> {
   const { plan } = await standingOf(workspaceId);
   const { waitingOrSolving } = RUN_ALLOWANCE[plan];
   return transactionWithRetry(RunRow.sequelize!, async (transaction: Transaction) => {
@@ -45,6 +47,8 @@ export async function createRunWithinAllowance(workspaceId: number, values: Crea
         { 'Retry-After': '30' },
       );
     }
-    return RunRow.create(values, { transaction });
+    const run = await RunRow.create(values, { transaction });
+    await saveRunRoster(run.id, roster, transaction);
+    return run;
   });
 }

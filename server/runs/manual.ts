@@ -5,7 +5,7 @@ import { scoreRoster } from '../../solver/roster';
 import type { Roster as RosterJson, RosterAssignment } from '../../shared/roster/schema';
 import { shiftFacts, contractedTarget, periodDays } from '../../shared/roster/derive';
 import { finite } from './execute';
-import { currentRoster } from './run-view';
+import { assembleValidRoster } from '../rosters/assemble';
 
 /** Per-person shifts, hours, nights and weekend shifts of a filled roster (the same summary a solved run keeps). */
 export function peopleSummary(roster: RosterJson, assignment: RosterAssignment) {
@@ -38,7 +38,7 @@ export function peopleSummary(roster: RosterJson, assignment: RosterAssignment) 
  * hard rule is refused in words.
  */
 export async function saveManualRun(workspaceId: number, rosterId: number, body: { assignment: Record<string, number | null>; version: number; basedOnRunId?: number | null }) {
-  const { roster, version } = await currentRoster(workspaceId, rosterId);
+  const { roster, version } = await assembleValidRoster(workspaceId, rosterId);
   const row = (await Roster.findOne({ where: { id: rosterId, workspaceId } }))!;
   if (row.status === 'published') throw new HttpError(409, 'conflict', 'This roster is published. Reopen it for changes before saving edits.', [{ path: 'body.version', message: 'roster is published' }]);
   if (version !== body.version) {

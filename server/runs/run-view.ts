@@ -1,23 +1,12 @@
-import { HttpError, notFound } from '../http/errors';
-import { assembleRoster } from '../rosters/assemble';
+import { HttpError } from '../http/errors';
+import { assembleValidRoster } from '../rosters/assemble';
 import { rosterIds } from '../rosters/ids';
-import { AssignmentRow, RunRow } from '../rosters/models';
+import { AssignmentRow, type RunRow } from '../rosters/models';
+import { findRun } from './repository';
 import type { Roster as RosterJson, RosterAssignment } from '../../shared/roster/schema';
 
-export async function findRun(workspaceId: number, id: number): Promise<RunRow> {
-  const run = await RunRow.findOne({ where: { id, workspaceId } });
-  if (!run) throw notFound('Run');
-  return run;
-}
-
-/** The roster as it stands now, valid, or a 422 naming the first problem. */
-export async function currentRoster(workspaceId: number, rosterId: number): Promise<{ roster: RosterJson; version: number }> {
-  const { parsed, version } = await assembleRoster(workspaceId, rosterId);
-  if (!parsed.ok) {
-    throw new HttpError(422, 'unprocessable', `The roster has problems to fix first: ${parsed.issues[0].path}: ${parsed.issues[0].message}`, parsed.issues.map((i) => ({ path: `roster.${i.path}`, message: i.message })));
-  }
-  return { roster: parsed.roster, version };
-}
+/** The roster as it stands now, valid, or a 422 naming the problems (server/rosters/assemble.ts). */
+export const currentRoster = assembleValidRoster;
 
 /**
  * A finished run's roster (seat → person, in roster JSON ids) next to the roster as it stands

@@ -5,7 +5,6 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { DelayedError, UnrecoverableError, Worker, type Job } from 'bullmq';
 import type { Sequelize } from 'sequelize';
-import { assembleRoster } from '../rosters/assemble';
 import { parseRosterId } from '../rosters/ids';
 import { Roster, RunRow, AssignmentRow, PinRow } from '../rosters/models';
 import { HttpError } from '../http/errors';
@@ -13,7 +12,9 @@ import { finite, type RunOutcome, type RunProgress } from './execute';
 import { summariseOutcome } from './summary';
 import { saveContest, type RunContest } from './seat-contention';
 import { previousStart } from './previous-start';
-import { coverPinnedSeats, withCoverPins } from '../absences/cover-pins';
+import { coverPinnedSeats } from '../absences/cover-pins';
+import { loadRunRoster } from './repository';
+import { prepareRun } from './start';
 import { admitRun } from './admission';
 import { priceConcession } from './concession-price';
 import { seatAlternatives } from './alternatives';
@@ -268,14 +269,9 @@ export class RunWorker {
     const started = Date.now();
     const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? RUN_ATTEMPTS);
     try {
-      const { parsed } = await assembleRoster(run.workspaceId, run.rosterId);
-      if (!parsed.ok) {
-        const text = parsed.issues.slice(0, 10).map((i) => `${i.path}: ${i.message}`).join('\n');
-        await this.finish(id, { status: 'failed', error: `The roster has problems to fix first:\n${text}` });
-        return { worked: true, ended: 'failed: roster problems' };
-      }
-      // A cover run (server/absences/cover.ts) keeps the seats its parameters pin.
-      const roster = withCoverPins(parsed.roster, run.parameters);
+      // The roster assembled and checked when the run was started (server/runs/start.ts); a run
+      // written before rosters were kept with their runs gets the same preparation now.
+      const roster = (await loadRunRoster(id)) ?? (await prepareRun(run.workspaceId, run.rosterId, run.parameters)).roster;
       const start = await previousStart(run.workspaceId, run.rosterId, id, roster);
       const result = await this.runThread(id, job, roster, run.parameters, start);
       if (this.stopping) throw new HandedBack();
@@ -292,6 +288,10 @@ export class RunWorker {
         throw err;
       }
       if (err instanceof HttpError && err.status === 404) return { worked: false, ended: 'the roster was deleted' };
+      if (err instanceof HttpError && err.status === 422) {
+        await this.finish(id, { status: 'failed', error: err.message });
+        return { worked: true, ended: 'failed: roster problems' };
+      }
       if (!(await RunRow.findByPk(id, { attributes: ['id'] }))) return { worked: false, ended: 'the run was deleted while it ran (its roster was deleted)' };
       const reason = err instanceof Error ? err.message : String(err);
       if (lastAttempt) await this.finish(id, { status: 'failed', error: failureInWords(reason) });

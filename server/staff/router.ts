@@ -2,14 +2,15 @@ import type { Request } from 'express';
 import { z } from 'zod';
 import type { Env } from '../env';
 import type { Mailer } from '../mail/mailer';
-import { Person } from '../db/models';
+import type { Person } from '../db/models';
+import { findPerson } from '../people/repository';
+import { workspaceTimeZone } from '../workspaces/service';
 import { ApiRoutes, STAFF_UP } from '../http/routes';
 import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
 import { rosterChildParams, rosterIdParams } from '../../shared/api/rosters';
 import { myShiftsQuery, myWishBody, pairingRequestBody, weeklyWishBody } from '../../shared/api/staff';
-import { Workspace } from '../db/models';
 import { requireRoster } from '../rosters/repository';
 import { calendarForToken, feedStatus, resetFeed, stopFeed } from './feed';
 import { colleagues, myPairingRequests, requestPairing, withdrawPairingRequest } from './pairings';
@@ -22,7 +23,7 @@ const ws = (req: Request) => req.auth!.workspaceId;
 /** The person linked to the signed-in user; everything under /me acts for them and no one else. */
 export async function me(req: Request): Promise<Person> {
   const personId = req.auth!.personId;
-  const person = personId ? await Person.findOne({ where: { id: personId, workspaceId: ws(req) } }) : null;
+  const person = personId ? await findPerson(ws(req), personId) : null;
   if (!person) {
     throw new HttpError(409, 'conflict', 'Your account is not linked to a person on this workspace’s roster yet. Ask an admin to link it (Members), then try again.', [
       { path: 'auth.personId', message: 'no linked person' },
@@ -53,8 +54,7 @@ export function staffRouter(deps: { env: Env; mailer: Mailer }) {
 
   r.get('/rosters', STAFF_UP, async (req, res) => {
     await me(req);
-    const workspace = await Workspace.findByPk(ws(req));
-    res.json({ items: await myRosters(ws(req), localToday(workspace?.timeZone ?? 'UTC')) });
+    res.json({ items: await myRosters(ws(req), localToday(await workspaceTimeZone(ws(req)))) });
   });
   r.get('/rosters/:rosterId/wishes', STAFF_UP, validate({ params: rosterIdParams }), async (req, res) => {
     await rosterInWorkspace(req);

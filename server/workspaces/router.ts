@@ -1,10 +1,10 @@
 import type { Request, Router } from 'express';
-import { Membership, Workspace } from '../db/models';
 import { ADMIN_ONLY, ApiRoutes } from '../http/routes';
 import { HttpError } from '../http/errors';
 import { validate } from '../http/validate';
 import { createWorkspaceSchema, renameWorkspaceSchema, switchWorkspaceSchema } from '../../shared/auth/schemas';
-import { createWorkspaceFor, listUserWorkspaces, resolveMembership } from '../auth/service';
+import { listUserWorkspaces, resolveMembership } from '../auth/service';
+import { createWorkspace, isMember, renameWorkspace } from './service';
 import { currentSession } from '../auth/router';
 
 /** `/api/workspaces`: the user's workspaces, making a new one, switching, and renaming the current one. */
@@ -17,7 +17,7 @@ export function workspacesRouter(): Router {
   });
 
   routes.post('/', 'signed-in', validate({ body: createWorkspaceSchema }), async (req, res) => {
-    const workspace = await Workspace.sequelize!.transaction((transaction) => createWorkspaceFor(req.user!.id, req.body.name, req.body.timeZone, transaction));
+    const workspace = await createWorkspace(req.user!.id, req.body.name, req.body.timeZone);
     await switchTo(req, workspace.id);
     res.status(201).json(await currentSession(req));
   });
@@ -29,7 +29,7 @@ export function workspacesRouter(): Router {
   });
 
   routes.patch('/current', ADMIN_ONLY, validate({ body: renameWorkspaceSchema }), async (req, res) => {
-    await Workspace.update({ name: req.body.name }, { where: { id: req.auth!.workspaceId } });
+    await renameWorkspace(req.auth!.workspaceId, req.body.name);
     res.json(await currentSession(req));
   });
 
@@ -37,8 +37,7 @@ export function workspacesRouter(): Router {
 }
 
 async function switchTo(req: Request, workspaceId: number): Promise<void> {
-  const member = await Membership.findOne({ where: { userId: req.user!.id, workspaceId }, attributes: ['id'] });
-  if (!member) throw new HttpError(404, 'not_found', 'Workspace not found', [{ path: 'body.workspaceId', message: 'You are not a member of this workspace' }]);
+  if (!(await isMember(req.user!.id, workspaceId))) throw new HttpError(404, 'not_found', 'Workspace not found', [{ path: 'body.workspaceId', message: 'You are not a member of this workspace' }]);
   const membership = await resolveMembership(req.user!.id, workspaceId);
   req.session.workspaceId = workspaceId;
   if (membership) req.auth = { userId: req.user!.id, ...membership };

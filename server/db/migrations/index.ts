@@ -12,6 +12,7 @@ import * as m0011 from './0011-swaps-offers-ledger';
 import * as m0012 from './0012-sign-in-counters';
 import * as m0013 from './0013-sign-up-requests';
 import * as m0014 from './0014-exports';
+import * as m0015 from './0015-run-roster';
 
 export interface Migration {
   name: string;
@@ -35,4 +36,5 @@ export const migrations: Migration[] = [
   { name: '0012-sign-in-counters', ...m0012 },
   { name: '0013-sign-up-requests', ...m0013 },
   { name: '0014-exports', ...m0014 },
+  { name: '0015-run-roster', ...m0015 },
 ];
