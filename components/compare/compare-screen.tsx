@@ -13,6 +13,12 @@ import { Body, Heading } from '@/components/ui/typography';
 import { runName } from '@/components/rosters/format';
 import { shiftWords } from '@/components/swaps/parts';
 
+/** One run's standing on a per-person term, in words: honoured, or broken with its units and points. */
+function outcome(o: RunCompare['personRuleTerms'][number]['a'], hard: boolean): string {
+  if (o.honoured) return 'honoured';
+  return hard ? `broken ${o.units} time${o.units === 1 ? '' : 's'} (hard)` : `not honoured, ${Math.round(o.units * 100) / 100} over, ${pts(o.points ?? 0)} points`;
+}
+
 const pts = (x: number) => `${x > 0 ? '+' : x < 0 ? '−' : ''}${Math.abs(Math.round(x * 100) / 100)}`;
 
 /** Any two finished runs of a roster side by side: seats, people, score terms and concessions that differ. */
@@ -74,9 +80,21 @@ function CompareResult({ c }: { c: RunCompare }) {
         {c.terms.map((t) => (
           <Body key={t.term}>{`${t.label}: ${Math.round(t.a * 100) / 100} → ${Math.round(t.b * 100) / 100} (${pts(t.change)})`}</Body>
         ))}
-        {c.personTerms.length ? <Body bold>Per person</Body> : null}
+        {c.personTerms.length ? <Body bold>Per person (rules, wishes and pairings)</Body> : null}
         {c.personTerms.map((t) => (
           <Body key={`${t.id}-${t.term}`} muted>{`${t.name}, ${t.label}: ${pts(t.change)}`}</Body>
+        ))}
+      </Section>
+      <Section title={`Per-person terms (${c.personRuleTerms.length})`} testID="compare-person-terms">
+        {c.personRuleTerms.length === 0 ? <Body muted>Nobody on this roster has a term of their own.</Body> : null}
+        {c.personRuleTerms.map((t) => (
+          <View key={`${t.id}-${t.index}`} style={styles.term} role="group" aria-label={`${t.name}: ${t.words}`} testID={`compare-person-term-${t.id}-${t.index}`}>
+            <Body bold>{`${t.name}: ${t.words}`}</Body>
+            <Body>{`A ${outcome(t.a, t.hard)} · B ${outcome(t.b, t.hard)}${t.change !== null && Math.abs(t.change) > 1e-9 ? ` (${pts(t.change)} points)` : ''}`}</Body>
+            {t.b.breaches.slice(0, 2).map((m, i) => (
+              <Body key={i} muted style={{ fontSize: 13 }}>{`In B: ${m}`}</Body>
+            ))}
+          </View>
         ))}
       </Section>
       <Section title="Concessions" testID="compare-concessions">
@@ -92,4 +110,7 @@ function CompareResult({ c }: { c: RunCompare }) {
   );
 }
 
-const styles = StyleSheet.create({ page: { gap: space.lg, maxWidth: 860, width: '100%' } });
+const styles = StyleSheet.create({
+  page: { gap: space.lg, maxWidth: 860, width: '100%' },
+  term: { gap: 2, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.xs },
+});

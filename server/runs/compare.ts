@@ -4,18 +4,59 @@ import { ShiftRow, SeatRow } from '../rosters/models';
 import { scoreRoster, type RosterScore } from '../../solver/roster';
 import { TERM_LABELS } from '../../shared/api/rosters';
 import type { RunCompare } from '../../shared/api/compare';
+import { describeTerm } from '../../shared/api/terms';
+import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { runAssignment } from './run-view';
 
 const round = (x: number) => Math.round(x * 1e6) / 1e6;
 
-/** Soft points per person and term: each penalty counted in full for every person it names. */
-function byPerson(score: RosterScore): Map<string, number> {
+/**
+ * Soft points per person and term: each penalty counted in full for every person it names; wishes
+ * and pairings, which also score points when honoured (no penalty names those), are each
+ * person's own wishes and pairings scored by scoreRoster alone, gains and losses together.
+ */
+function byPerson(roster: Roster, assignment: RosterAssignment, score: RosterScore): Map<string, number> {
   const out = new Map<string, number>();
   for (const v of score.violations) {
-    if (v.hard) continue;
+    if (v.hard || v.term === 'wishes' || v.term === 'pairings') continue;
     for (const p of v.people) out.set(`${p}|${v.term}`, (out.get(`${p}|${v.term}`) ?? 0) + v.points);
   }
+  const off = rulesOff(roster);
+  const people = roster.people.map((q) => ({ ...q, terms: [] }));
+  for (const person of roster.people) {
+    const wishes = roster.wishes.filter((w) => w.person === person.id);
+    const pairings = roster.pairings.filter((x) => x.a === person.id || x.b === person.id);
+    if (!wishes.length && !pairings.length) continue;
+    const alone = scoreRoster({ ...roster, rules: off, people, pins: [], wishes, pairings }, assignment).terms as Record<string, number>;
+    if (wishes.length) out.set(`${person.id}|wishes`, alone.wishes ?? 0);
+    if (pairings.length) out.set(`${person.id}|pairings`, alone.pairings ?? 0);
+  }
   return out;
+}
+
+/** The rule set with every roster-wide rule off (to score one person's part alone). */
+const rulesOff = (roster: Roster) =>
+  Object.fromEntries(Object.entries(roster.rules).map(([k, v]) => [k, typeof v === 'object' && v !== null && 'enabled' in v ? { ...v, enabled: false } : v])) as Roster['rules'];
+
+type TermOutcome = RunCompare['personRuleTerms'][number]['a'];
+
+/**
+ * Every per-person term of the roster (DESIGN.md "term") in one filling: honoured or not, its
+ * units and points. Each term is scored by scoreRoster alone (every roster-wide rule off, no
+ * wishes or pairings, nobody else's terms, the same absences since they credit hours), so two
+ * terms of one kind for one person, or a roster-wide rule of the same name, are never mixed up.
+ */
+function termOutcomes(roster: Roster, assignment: RosterAssignment): TermOutcome[][] {
+  const off = rulesOff(roster);
+  return roster.people.map((person) =>
+    person.terms.map((term) => {
+      const alone: Roster = { ...roster, rules: off, wishes: [], pairings: [], pins: [], people: roster.people.map((q) => ({ ...q, terms: q.id === person.id ? [term] : [] })) };
+      const breaches = scoreRoster(alone, assignment).violations.filter((v) => v.term === term.kind && v.people.includes(person.id));
+      const points = term.hard ? null : round(breaches.reduce((m, v) => m + v.points, 0));
+      const units = term.hard ? breaches.length : term.weight > 0 ? round(-(points ?? 0) / term.weight) : 0;
+      return { honoured: breaches.length === 0, units, points, breaches: breaches.map((v) => v.message) };
+    }),
+  );
 }
 
 /**
@@ -67,8 +108,8 @@ export async function compareRuns(workspaceId: number, rosterId: number, aId: nu
       return { term, label: TERM_LABELS[term] ?? term, a: round(av), b: round(bv), change: round(bv - av) };
     })
     .filter((t) => Math.abs(t.change) > 1e-9);
-  const pa = byPerson(sa);
-  const pb = byPerson(sb);
+  const pa = byPerson(roster, a.assignment, sa);
+  const pb = byPerson(roster, b.assignment, sb);
   const personTerms = [...new Set([...pa.keys(), ...pb.keys()])]
     .map((key) => {
       const [p, term] = key.split('|');
@@ -76,6 +117,22 @@ export async function compareRuns(workspaceId: number, rosterId: number, aId: nu
     })
     .filter((t) => Math.abs(t.change) > 1e-9)
     .sort((x, y) => x.change - y.change || x.name.localeCompare(y.name));
+  const ta = termOutcomes(roster, a.assignment);
+  const tb = termOutcomes(roster, b.assignment);
+  const personRuleTerms = roster.people.flatMap((person, p) =>
+    person.terms.map((term, i) => ({
+      id: parseRosterId('p', person.id),
+      name: person.name,
+      index: i,
+      kind: term.kind,
+      label: TERM_LABELS[term.kind] ?? term.kind,
+      words: describeTerm(term),
+      hard: term.hard,
+      a: ta[p][i],
+      b: tb[p][i],
+      change: term.hard ? null : round((tb[p][i].points ?? 0) - (ta[p][i].points ?? 0)),
+    })),
+  );
   const soft = (s: RosterScore) => s.violations.filter((v) => !v.hard);
   const keys = (s: RosterScore) => new Set(soft(s).map((v) => `${v.term}|${v.message}`));
   const ka = keys(sa);
@@ -88,6 +145,7 @@ export async function compareRuns(workspaceId: number, rosterId: number, aId: nu
     people: [...moved.values()].sort((x, y) => x.name.localeCompare(y.name)),
     terms,
     personTerms,
+    personRuleTerms,
     concessionsAdded: soft(sb).filter((v) => !ka.has(`${v.term}|${v.message}`)).map(pick),
     concessionsRemoved: soft(sa).filter((v) => !kb.has(`${v.term}|${v.message}`)).map(pick),
   };

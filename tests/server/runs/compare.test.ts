@@ -31,6 +31,15 @@ describe('two runs of a roster side by side', () => {
     people = fixture.people;
     // A prefer wish makes one filling score differently from the other.
     expect((await coordinator.post(`/api/rosters/${rosterId}/wishes`).send({ personId: people[3].id, date: '2027-03-03', kind: 'prefer' })).status).toBe(201);
+    // Per-person terms (soft, so both fillings can be saved): D off on Wednesdays, B at most 3
+    // shifts a week, C at most 4 h, and a hard no-nights for A that no filling breaks.
+    const terms: Array<[number, Record<string, unknown>]> = [
+      [3, { kind: 'daysOff', weekdays: ['wed'], hard: false, weight: 4 }],
+      [1, { kind: 'maxShiftsPerWeek', count: 3, hard: false, weight: 2 }],
+      [2, { kind: 'maxHours', hours: 4, hard: false, weight: 1 }],
+      [0, { kind: 'noNights', hard: true }],
+    ];
+    for (const [i, term] of terms) expect((await coordinator.post(`/api/people/${people[i].id}/terms`).send({ term, effectiveFrom: '2027-01-01' })).status).toBe(201);
     const seats = await seatsOf(workspace.id, rosterId);
     // Seat 0 of each early needs first aid (people 0 and 2 hold it); seat 1 is anyone's.
     const fill = (swapWed: boolean) =>
@@ -75,25 +84,63 @@ describe('two runs of a roster side by side', () => {
     const moved = Object.keys(sb.terms).filter((t) => Math.abs((sb.terms as Record<string, number>)[t] - (sa.terms as Record<string, number>)[t]) > 1e-9);
     expect(res.body.terms.map((t: { term: string }) => t.term).sort()).toEqual(moved.sort());
     expect(moved).toContain('wishes'); // D's prefer wish for Wednesday is kept in B only
-    // Per person: the penalties naming them, summed per term, B − A.
-    const perPerson = (sc: typeof sa) => {
+    // Per person: the penalties naming them, summed per term, B − A; their wishes in closed form
+    // (a kept prefer wish scores its strength, a kept avoid wish costs it; the roster has no pairings).
+    const perPerson = (sc: typeof sa, fill: Record<string, string | null>) => {
       const m = new Map<string, number>();
-      for (const v of sc.violations.filter((x) => !x.hard)) for (const p of v.people) m.set(`${p}|${v.term}`, (m.get(`${p}|${v.term}`) ?? 0) + v.points);
+      for (const v of sc.violations.filter((x) => !x.hard && x.term !== 'wishes')) for (const p of v.people) m.set(`${p}|${v.term}`, (m.get(`${p}|${v.term}`) ?? 0) + v.points);
+      for (const w of parsed.roster.wishes) {
+        const works = parsed.roster.seats.some((s) => fill[s.id] === w.person && parsed.roster.shifts.find((x) => x.id === s.shift)!.start.startsWith(w.date ?? '-'));
+        const points = works ? (w.kind === 'prefer' ? w.strength : w.kind === 'avoid' ? -w.strength : 0) : 0;
+        m.set(`${w.person}|wishes`, (m.get(`${w.person}|wishes`) ?? 0) + points);
+      }
       return m;
     };
-    const pa = perPerson(sa);
-    const pb = perPerson(sb);
+    expect(parsed.roster.pairings).toEqual([]);
+    const pa = perPerson(sa, fillOf(rowsA));
+    const pb = perPerson(sb, fillOf(rowsB));
     const want = [...new Set([...pa.keys(), ...pb.keys()])].map((k) => [k, (pb.get(k) ?? 0) - (pa.get(k) ?? 0)] as const).filter(([, d]) => Math.abs(d) > 1e-9);
     expect(res.body.personTerms.map((t: { id: number; term: string }) => `p${t.id}|${t.term}`).sort()).toEqual(want.map(([k]) => k).sort());
     for (const t of res.body.personTerms) expect(t.change).toBeCloseTo(want.find(([k]) => k === `p${t.id}|${t.term}`)![1], 6);
-    // D works Wednesday in B: closer to a 30 h week (contracted hours, ± 8 h tolerance).
+    // D works Wednesday in B: closer to a 30 h week (contracted hours, ± 8 h tolerance), and the prefer wish is kept (a gain, not a penalty).
     expect(res.body.personTerms.find((t: { id: number; term: string }) => t.id === people[3].id && t.term === 'contractedHours').change).toBeGreaterThan(0);
+    expect(res.body.personTerms.find((t: { id: number; term: string }) => t.id === people[3].id && t.term === 'wishes').change).toBeGreaterThan(0);
     const key = (v: { term: string; message: string }) => `${v.term}|${v.message}`;
     const softA = new Set(sa.violations.filter((v) => !v.hard).map(key));
     const softB = new Set(sb.violations.filter((v) => !v.hard).map(key));
     expect(res.body.concessionsAdded.map(key).sort()).toEqual([...softB].filter((k) => !softA.has(k)).sort());
     expect(res.body.concessionsRemoved.map(key).sort()).toEqual([...softA].filter((k) => !softB.has(k)).sort());
     expect(res.body.concessionsRemoved.length + res.body.concessionsAdded.length).toBeGreaterThan(0);
+  });
+
+  it('shows every per-person term in both runs, honoured or not, with points that add up to scoreRoster\'s terms', async () => {
+    const res = await coordinator.get(`/api/rosters/${rosterId}/compare`).query({ a: runA, b: runB });
+    expect(res.status).toBe(200);
+    const { parsed } = await assembleRoster(workspace.id, rosterId);
+    if (!parsed.ok) throw new Error('roster does not parse');
+    const fillOf = async (runId: number) => Object.fromEntries((await AssignmentRow.findAll({ where: { runId } })).map((r) => [`st${r.seatId}`, r.personId ? `p${r.personId}` : null]));
+    type Outcome = { honoured: boolean; units: number; points: number | null };
+    type Row = { id: number; kind: string; hard: boolean; words: string; a: Outcome; b: Outcome; change: number | null };
+    const rows = res.body.personRuleTerms as Row[];
+    expect(rows).toHaveLength(4);
+    for (const [side, runId] of [['a', runA], ['b', runB]] as const) {
+      const score = scoreRoster(parsed.roster, await fillOf(runId));
+      for (const kind of ['daysOff', 'maxShiftsPerWeek', 'maxHours', 'noNights']) {
+        const mine = rows.filter((r) => r.kind === kind);
+        // Soft: the points per kind add up to scoreRoster's term; hard: the breaks to its hard count.
+        expect(mine.reduce((m, r) => m + (r[side].points ?? 0), 0)).toBeCloseTo((score.terms as Record<string, number>)[kind], 6);
+        expect(mine.filter((r) => r.hard).reduce((m, r) => m + r[side].units, 0)).toBe((score.hardCounts as Record<string, number>)[kind]);
+        // Honoured exactly when scoreRoster names that person under that term nowhere.
+        for (const r of mine) expect(r[side].honoured).toBe(!score.violations.some((v) => v.term === kind && v.people.includes(`p${r.id}`)));
+      }
+    }
+    // Closed forms: the fillings put A and B on every early seat 0 and 1 (Mon–Fri), except that B
+    // (the run) has C and D on Wednesday; each shift is 8 h.
+    const row = (person: number, kind: string) => rows.find((r) => r.id === people[person].id && r.kind === kind)!;
+    expect(row(3, 'daysOff')).toMatchObject({ words: 'Always off on Wed (soft, 4 points a shift)', a: { honoured: true, units: 0, points: 0 }, b: { honoured: false, units: 1, points: -4 }, change: -4 });
+    expect(row(1, 'maxShiftsPerWeek')).toMatchObject({ a: { honoured: false, units: 2, points: -4 }, b: { honoured: false, units: 1, points: -2 }, change: 2 });
+    expect(row(2, 'maxHours')).toMatchObject({ a: { honoured: true, points: 0 }, b: { honoured: false, units: 4, points: -4 }, change: -4 });
+    expect(row(0, 'noNights')).toMatchObject({ hard: true, a: { honoured: true, units: 0, points: null }, b: { honoured: true, units: 0, points: null }, change: null });
   });
 
   it('answers bad input with a 4xx naming the field', async () => {
