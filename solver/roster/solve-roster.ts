@@ -16,6 +16,7 @@ import { compileRoster, type CompiledRoster } from './compile';
 import { decodeAssignment, encodeAssignment, type DecodedRoster } from './decode';
 import { explainInfeasible } from './explain-infeasible';
 import { greedyAssignment } from './greedy';
+import { createLns } from './lns';
 import { scoreRoster, type RosterScore } from './score-roster';
 
 export type SolveRosterResult =
@@ -42,12 +43,18 @@ export type SolveRosterOptions = Partial<MapOptions> & {
   start?: RosterAssignment;
   /**
    * The person-decomposition bound (lagrangian.ts): share of the time limit it gets after the
-   * search (default 0.35); 0 turns it off. The reported bound is the lower of it and MPLP's, both
+   * search (default 0.45); 0 turns it off. The reported bound is the lower of it and MPLP's, both
    * proven upper bounds.
    */
   lagrangianShare?: number;
   /** Multipliers of an earlier run of this roster (SolveRosterResult.dual): the bound starts there. */
   dualStart?: DualStart;
+  /**
+   * Share of the search's time (what the bound leaves) given to large-neighbourhood search
+   * (lns.ts: whole days and whole schedules re-planned exactly by HiGHS) after the local search;
+   * default 0.9; 0 turns it off.
+   */
+  lnsShare?: number;
 };
 
 /**
@@ -61,7 +68,7 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   const now = options.clock ?? Date.now;
   const t0 = now();
   const compiled = compileRoster(roster);
-  const { start, lagrangianShare = 0.35, dualStart, ...mapOptions } = options;
+  const { start, lagrangianShare = 0.45, dualStart, lnsShare = 0.9, ...mapOptions } = options;
   const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
   let initial = greedyAssignment(compiled);
   if (start) {
@@ -77,9 +84,17 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   // compiling counts against the limit, but the search keeps a minimum (a short re-solve of a
   // large roster would otherwise get no search at all)
   const searchMs = Math.max(Math.min(200, timeLimitMs * (1 - share)), timeLimitMs * (1 - share) - (now() - t0));
-  const result = await solveMap(compiled.model, { ...mapOptions, timeLimitMs: searchMs, initial: mapOptions.initial ?? initial }, signal);
+  // local search first (quick gains from a greedy start), then LNS for the larger moves
+  const lnsMs = searchMs * Math.min(0.95, Math.max(0, lnsShare));
+  const tSearch = now();
+  const result = await solveMap(compiled.model, { ...mapOptions, timeLimitMs: searchMs - lnsMs, initial: mapOptions.initial ?? initial }, signal);
   const grid = scoreGrid(compiled.model);
   onGrid(result, compiled, grid);
+  if (lnsMs > 0 && !result.optimal && !signal?.aborted && result.score > -Infinity) {
+    await improveByLns(compiled, result, tSearch + searchMs, now, t0, mapOptions, grid, signal);
+  }
+  // the whole call so far, compiling included (the bound's history goes on from here)
+  result.timeMs = now() - t0;
   let dual: DualStart | undefined;
   if (share > 0 && !result.optimal && !signal?.aborted) dual = await tightenWithLagrangian(compiled, result, t0 + timeLimitMs, now, mapOptions, grid, dualStart, signal);
   // the whole call, compiling included
@@ -101,6 +116,37 @@ function onGrid(result: MapResult, compiled: CompiledRoster, grid: number): bool
     result.stopReason = 'gap';
   }
   return result.optimal;
+}
+
+/**
+ * Large-neighbourhood search from the search's roster until `deadline`, in slices so an abort or
+ * the event loop is not kept waiting; result's roster, score and history follow each improvement.
+ * Without HiGHS (it failed to load) the roster stays as it is.
+ */
+async function improveByLns(compiled: CompiledRoster, result: MapResult, deadline: number, now: () => number, t0: number, mapOptions: Partial<MapOptions>, grid: number, signal?: AbortSignal): Promise<void> {
+  const highs = await loadHighsRuntime().catch(() => null);
+  if (!highs) return;
+  const x = Int32Array.from(result.assignment);
+  const lns = createLns(compiled, highs, x, { seed: mapOptions.seed ?? 1 });
+  let lastProgress = now();
+  while (now() < deadline && !signal?.aborted && !result.optimal) {
+    const before = lns.score;
+    lns.run({ deadline: Math.min(deadline, now() + 100), now });
+    if (lns.score > before) {
+      result.assignment = Array.from(x);
+      result.score = lns.score;
+      result.timeToBestMs = now() - t0;
+      result.gap = relativeGap(result.score, result.bound);
+      onGrid(result, compiled, grid);
+      result.history.push({ iteration: result.iterations + lns.stats.moves, timeMs: now() - t0, score: result.score, bound: result.bound });
+      if (mapOptions.onProgress && now() - lastProgress >= (mapOptions.progressEveryMs ?? DEFAULT_MAP_OPTIONS.progressEveryMs)) {
+        lastProgress = now();
+        mapOptions.onProgress({ iteration: result.iterations + lns.stats.moves, timeMs: now() - t0, score: result.score, bound: result.bound, gap: result.gap });
+      }
+    }
+    await tick();
+  }
+  if (lns.stats.moves) result.method = `${result.method}+lns`;
 }
 
 /** Rosters with at most this many seats give the bound 70 % of the time by default. */
