@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { mailLink } from './helpers/sign-up';
 
 
 const run = Date.now().toString(36);
@@ -57,6 +58,15 @@ describe.each([
     await page.getByText('Use at least 10 characters').waitFor();
     await page.getByTestId('sign-up-password').fill('a long enough passphrase');
     await page.getByTestId('sign-up-submit').click();
+    // Nothing is made until the e-mailed link is opened.
+    await page.getByRole('heading', { name: 'Check your e-mail' }).waitFor();
+    await page.getByText(`We sent a message to ${email}`, { exact: false }).waitFor();
+    await screenshot(page, `sign-up-check-email-${label}`);
+    await mailLink(page, email, '/finish-sign-up');
+    await page.goto('/dev/mail');
+    const mail = page.locator('article', { hasText: email }).first();
+    await mail.getByText('Finish signing up to Rotaloom').waitFor();
+    await mail.getByRole('link', { name: /\/finish-sign-up\?token=/ }).click();
     await page.getByRole('heading', { name: 'Hello, Maren' }).waitFor();
     await page.getByText('You are signed in to Gullhaven Hospice as admin.').waitFor();
     expect(await navLabels(page)).toEqual(expect.arrayContaining(['Overview', 'Members', 'Account']));
@@ -68,6 +78,52 @@ describe.each([
     await page.getByLabel('Password').fill('a long enough passphrase');
     await page.getByTestId('sign-in-submit').click();
     await page.getByRole('heading', { name: 'Hello, Maren' }).waitFor();
+    expect(problems).toEqual([]);
+    await close();
+  });
+
+  it('answers a taken address as a new one and mails its owner; a link opened elsewhere asks for the password, and works once', async () => {
+    // The used link's preview and finish answer 410 on purpose.
+    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 410: (GET|POST) .*\/api\/auth\/sign-up\/(preview|finish)/, /status of 410/]);
+    const signUp = async (email: string) => {
+      await page.goto('/sign-up');
+      await page.getByTestId('sign-up-name').fill('Ansel Pike');
+      await page.getByTestId('sign-up-email').fill(email);
+      await page.getByTestId('sign-up-password').fill('kestrel quarry lantern');
+      await page.getByTestId('sign-up-workspace').fill('Tollbridge Surgery');
+      await page.getByTestId('sign-up-submit').click();
+      await page.getByRole('heading', { name: 'Check your e-mail' }).waitFor();
+      return page.getByTestId('sign-up-check-email').innerText();
+    };
+    const taken = 'coordinator@willowmere.example';
+    const fresh = unique('elsewhere');
+    const forTaken = await signUp(taken);
+    const forFresh = await signUp(fresh);
+    expect(forTaken.replace(taken, '<address>')).toBe(forFresh.replace(fresh, '<address>'));
+    await mailLink(page, fresh, '/finish-sign-up');
+    await mailLink(page, taken, '/forgot-password');
+    await page.goto('/dev/mail');
+    await page.locator('article', { hasText: taken }).first().getByText('Someone tried to sign up to Rotaloom with your address').waitFor();
+    const href = await page.locator('article', { hasText: fresh }).first().getByRole('link', { name: /\/finish-sign-up\?token=/ }).first().getAttribute('href');
+    const path = new URL(href!).pathname + new URL(href!).search;
+
+    // Another browser (no cookie from the sign-up): the password chosen is asked for.
+    const other = await openPage(browser, viewport);
+    await other.page.goto(path);
+    await other.page.getByRole('heading', { name: 'Finish signing up' }).waitFor();
+    await other.page.getByText(`this makes the workspace Tollbridge Surgery for ${fresh}`, { exact: false }).waitFor();
+    await screenshot(other.page, `finish-sign-up-password-${label}`);
+    await other.page.getByTestId('finish-sign-up-password').fill('kestrel quarry lantern');
+    await other.page.getByTestId('finish-sign-up-submit').click();
+    await other.page.getByRole('heading', { name: 'Hello, Ansel' }).waitFor();
+    await other.page.getByText('You are signed in to Tollbridge Surgery as admin.').waitFor();
+    expect(other.problems).toEqual([]);
+    await other.close();
+
+    // The same link again: used, in words.
+    await page.goto(path);
+    await page.getByTestId('finish-sign-up-problem').getByText(/already used/).waitFor();
+    await screenshot(page, `finish-sign-up-used-${label}`);
     expect(problems).toEqual([]);
     await close();
   });

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { launch, openPage, PHONE, screenshot, WIDE, DEMO_PASSWORD } from './helpers/browser';
+import { signUpThroughMail } from './helpers/sign-up';
 
 const PASSWORD = 'a long enough test password';
 const headers = { 'x-rotaloom-csrf': '1' };
@@ -34,10 +35,9 @@ describe.each([
     // (Chromium also logs each as "Failed to load resource … 402"; the URL-specific lines are what pin them down.)
     // And the one checkout tried while the payment service is unreachable (503).
     const { page, problems, close } = await openPage(browser, viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /HTTP 503: POST .*\/api\/billing\/checkout$/, /^console: Failed to load resource: the server responded with a status of (402|503)/]);
-    // A new workspace, signed up through the API as its admin (the browser context keeps the session cookie).
+    // A new workspace, signed up through the API and the e-mailed link as its admin (the browser context keeps the session cookie).
     const email = `owner.${label}.${Date.now().toString(36)}@example.test`;
-    const signUp = await page.request.post('/api/auth/sign-up', { data: { displayName: 'Marisol Quenby', email, password: PASSWORD, workspaceName: `Hazelmere Clinic ${label}`, timeZone: 'Europe/London' }, headers });
-    expect(signUp.status()).toBe(201);
+    await signUpThroughMail(page, { displayName: 'Marisol Quenby', email, password: PASSWORD, workspaceName: `Hazelmere Clinic ${label}`, timeZone: 'Europe/London' });
     for (let i = 1; i <= 12; i++) {
       const res = await page.request.post('/api/people', { data: { name: `Clinic Person ${i}`, contractedHours: 30, skillIds: [] }, headers });
       expect(res.status()).toBe(201);
@@ -132,9 +132,7 @@ describe('a paying workspace at phone size', () => {
   it('previews and confirms a seat change, shows the overdue banner, pays in the portal, and can stop at the period end', async () => {
     const { page, problems, close } = await openPage(browser, PHONE);
     const email = `payer.${Date.now().toString(36)}@example.test`;
-    const signUp = await page.request.post('/api/auth/sign-up', { data: { displayName: 'Oriel Fenwick', email, password: PASSWORD, workspaceName: 'Brackenfold Lab', timeZone: 'Europe/London' }, headers });
-    expect(signUp.status()).toBe(201);
-    const workspaceId = ((await signUp.json()) as { workspace: { id: number } }).workspace.id;
+    const workspaceId = (await signUpThroughMail(page, { displayName: 'Oriel Fenwick', email, password: PASSWORD, workspaceName: 'Brackenfold Lab', timeZone: 'Europe/London' })).workspace.id;
     for (let i = 1; i <= 3; i++) expect((await page.request.post('/api/people', { data: { name: `Lab Person ${i}`, contractedHours: 30, skillIds: [] }, headers })).status()).toBe(201);
 
     await page.goto('/billing');
