@@ -30,6 +30,7 @@ const bodies: Record<string, unknown> = {
   'post /api/rosters/:rosterId/score': { assignment: {} },
   'post /api/rosters/:rosterId/manual-runs': { assignment: {}, version: 1 },
   'post /api/runs/:id/concession-price': { index: 0 },
+  'post /api/rosters/:rosterId/preferences/alternative': { runId: 1, seatId: 1, personId: null },
   'post /api/me/rosters/:rosterId/wishes': { date: '2027-01-04', kind: 'avoid' },
   'post /api/me/rosters/:rosterId/wishes/weekly': { weekday: 'tue', kind: 'cannot' },
   'patch /api/absences/:id': { note: 'Moved', version: 1 },
