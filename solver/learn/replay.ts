@@ -30,7 +30,7 @@ export async function replayWithWeights(
   signal?: AbortSignal,
 ): Promise<ReplayResult> {
   const t0 = Date.now();
-  const solved = await solveRoster({ ...roster, rules: withWeights(rules, keys, weights) as Roster['rules'] }, { timeLimitMs: options.timeLimitMs, seed: options.seed ?? 1, start: proposed, lagrangianShare: 0 }, signal);
+  const solved = await solveRoster({ ...roster, rules: withWeights(rules, keys, weights) as Roster['rules'] }, { timeLimitMs: options.timeLimitMs, seed: options.seed ?? 1, start: proposed, lagrangianShare: 0, lnsShare: 0 }, signal);
   if (solved.status !== 'solved') return { status: 'infeasible', reasons: solved.reasons };
   const y = solved.decoded.assignment;
   const f = makeFeaturizer(roster, rules, keys);

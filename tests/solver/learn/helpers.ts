@@ -49,7 +49,7 @@ const DAY_MS = 86_400_000;
  * raises the hidden-weight score.
  */
 export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000): Promise<SyntheticEdit[]> {
-  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0 });
+  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0, lnsShare: 0 });
   if (solved.status !== 'solved') throw new Error('fixture roster is infeasible');
   const score = makeRosterScorer({ ...roster, rules: hidden });
   const rnd = seededRandom(seed * 7919);
