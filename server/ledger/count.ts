@@ -4,8 +4,11 @@ import type { LedgerCounts } from '../../shared/api/ledger';
 
 export const zeroCounts = (): LedgerCounts => ({ shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 });
 
+const COUNT_KEYS = Object.keys(zeroCounts()) as Array<keyof LedgerCounts>;
+
+/** Adds the counts only: `into` may carry other keys (a period's rosterId), which stay as they are. */
 export function addCounts(into: LedgerCounts, more: LedgerCounts): LedgerCounts {
-  for (const k of Object.keys(into) as Array<keyof LedgerCounts>) into[k] = Math.round((into[k] + more[k]) * 100) / 100;
+  for (const k of COUNT_KEYS) into[k] = Math.round((into[k] + more[k]) * 100) / 100;
   return into;
 }
 

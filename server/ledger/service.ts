@@ -23,11 +23,14 @@ async function publishedIn(workspaceId: number, from?: string, to?: string) {
  * The ledger: for each person, across every published roster in the range, the counts of
  * server/ledger/count.ts, per period and in total, and the team's sums. Swaps count the approved
  * swaps and giveaways a person was part of and the offered shifts they were given.
+ * `wholePeriods` counts every roster meeting the range over its whole period instead of clipping
+ * it to the range (the staff view: team figures then only ever sum whole periods).
  */
-export async function ledger(workspaceId: number, range: { from?: string; to?: string } = {}): Promise<LedgerAnswer> {
+export async function ledger(workspaceId: number, range: { from?: string; to?: string; wholePeriods?: boolean } = {}): Promise<LedgerAnswer> {
   const rosters = await publishedIn(workspaceId, range.from, range.to);
-  const start = range.from ?? rosters[0]?.periodStart ?? null;
-  const end = range.to ?? rosters.reduce<string | null>((m, r) => (m && m > r.periodEnd ? m : r.periodEnd), null);
+  const clip = range.wholePeriods ? {} : { from: range.from, to: range.to };
+  const start = clip.from ?? rosters.reduce<string | null>((m, r) => (m && m < r.periodStart ? m : r.periodStart), null);
+  const end = clip.to ?? rosters.reduce<string | null>((m, r) => (m && m > r.periodEnd ? m : r.periodEnd), null);
   const holidays = start && end ? await holidaysBetween(workspaceId, start, end) : [];
   const holidaySet = new Set(holidays.map((h) => h.date));
   const people = await Person.findAll({ where: { workspaceId }, attributes: ['id', 'name', 'contractedHours', 'archivedAt'] });
@@ -49,8 +52,8 @@ export async function ledger(workspaceId: number, range: { from?: string; to?: s
       if (shiftId !== undefined) workers.set(shiftId, [...(workers.get(shiftId) ?? []), a.personId!]);
     }
     const wishes = await WishRow.findAll({ where: { workspaceId, rosterId: roster.id }, attributes: ['personId', 'shiftId', 'date', 'kind'] });
-    const clipStart = range.from && range.from > roster.periodStart ? range.from : roster.periodStart;
-    const clipEnd = range.to && range.to < roster.periodEnd ? range.to : roster.periodEnd;
+    const clipStart = clip.from && clip.from > roster.periodStart ? clip.from : roster.periodStart;
+    const clipEnd = clip.to && clip.to < roster.periodEnd ? clip.to : roster.periodEnd;
     const counts = countPeriod({
       timeZone: roster.timeZone,
       start: clipStart,

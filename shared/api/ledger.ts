@@ -67,3 +67,32 @@ export interface LedgerSettingsDto {
   version: number;
   holidays: Array<{ date: string; name: string; source: 'entered' | 'region'; id?: number }>;
 }
+
+/**
+ * A team figure is shown only when at least this many colleagues besides the person asking were
+ * counted in it: with one, the team's sum less your own would be that colleague's counts.
+ */
+export const MIN_COLLEAGUES = 2;
+
+/** A staff member's own ledger (GET /api/me/ledger): their line and the team's per-person averages, no one else's line. */
+export interface MyLedgerAnswer {
+  from: string | null;
+  to: string | null;
+  holidays: Array<{ date: string; name: string; source: 'entered' | 'region' }>;
+  /** Every published roster meeting the range, counted over its whole period. */
+  periods: LedgerPeriod[];
+  me: { personId: number; name: string; totals: LedgerCounts; byPeriod: Array<{ rosterId: number } & LedgerCounts> } | null;
+  /** People the ledger counted over these periods, you included. */
+  teamSize: number;
+  minColleagues: number;
+  team: {
+    /** Per period: how many people were counted (you included) and their average, null when too few colleagues. */
+    byPeriod: Array<{ rosterId: number; people: number; average: LedgerCounts | null }>;
+    /** The periods whose average is shown; the two lines below cover exactly these. */
+    rosterIds: number[];
+    /** The sum of those periods' averages: a colleague counted in every one of them. */
+    average: LedgerCounts;
+    /** Your own counts over the same periods (zeros for a period you were not counted in). */
+    mine: LedgerCounts;
+  };
+}
