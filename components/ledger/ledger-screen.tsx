@@ -36,7 +36,7 @@ export function LedgerScreen() {
           </Section>
           <Section title="Period by period" testID="ledger-periods">
             <ChoiceChips label="Whose" choices={[{ value: 'team', label: 'Team' }, ...ledger.data.people.map((p) => ({ value: String(p.personId), label: p.name }))]} value={who} onChange={setWho} testID="ledger-who" />
-            <PeriodsChart ledger={ledger.data} personId={who === 'team' ? null : Number(who)} testID="ledger-periods-chart" />
+            <PeriodsChart periods={ledger.data.periods} series={who === 'team' ? ledger.data.team.byPeriod : (ledger.data.people.find((p) => p.personId === Number(who))?.byPeriod ?? [])} testID="ledger-periods-chart" />
           </Section>
           <Section title="The numbers" testID="ledger-table">
             <LedgerTable ledger={ledger.data} />

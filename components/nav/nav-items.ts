@@ -15,6 +15,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: '/wishes', label: 'Wishes', roles: ['staff'] },
   { href: '/time-away', label: 'Time away', roles: ['staff'] },
   { href: '/swaps', label: 'Swaps', roles: ['staff'] },
+  { href: '/my-ledger', label: 'My ledger', roles: ['staff'] },
   // Each feature adds its section here when its screens land.
   { href: '/rosters', label: 'Rosters', roles: ['admin', 'coordinator'] },
   { href: '/people', label: 'People', roles: ['admin', 'coordinator'] },

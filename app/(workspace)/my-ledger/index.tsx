@@ -1,0 +1,3 @@
+import { MyLedgerScreen } from '@/components/ledger/my-ledger-screen';
+
+export default MyLedgerScreen;
