@@ -1,5 +1,5 @@
 import { View, useWindowDimensions } from 'react-native';
-import { BarChart } from 'react-native-gifted-charts';
+import { BarChart } from '@/components/ui/bar-chart';
 import { colors, fonts, space } from '@/constants/theme';
 import type { LedgerAnswer, LedgerCounts, LedgerPeriod } from '@/shared/api/ledger';
 import { Body } from '@/components/ui/typography';
