@@ -10,3 +10,10 @@ export const OFFLINE_API_PATHS = ['/api/auth/session', '/api/me/shifts'] as cons
 
 /** Header the worker adds to the copy it keeps (never to a fresh answer): when it was saved, ISO 8601. */
 export const SAVED_AT_HEADER = 'x-rotaloom-saved-at';
+
+/**
+ * localStorage key naming whose copies those are (`userId:workspaceId`), set while someone is
+ * signed in on this browser (hooks/offline/) and read by the app shell's first script, which asks
+ * for the person's own answers beside the code only then (server/bootstrap/web-finish.ts).
+ */
+export const OFFLINE_OWNER_KEY = 'rotaloom-offline-owner';

@@ -1,6 +1,4 @@
-import { OFFLINE_CACHE } from '@/shared/offline';
-
-const OWNER_KEY = 'rotaloom-offline-owner';
+import { OFFLINE_CACHE, OFFLINE_OWNER_KEY as OWNER_KEY } from '@/shared/offline';
 
 /**
  * The saved copies (session, my shifts) belong to whoever was signed in, in which workspace, when
