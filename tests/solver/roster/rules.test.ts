@@ -40,6 +40,48 @@ describe('minimum rest between shifts (Art. 3: 11 consecutive hours in every 24)
     // 22:00 GMT to 09:30 BST is 10.5 h, not the 11.5 h the wall clock suggests
     expect(both(r, all(r, 'ada')).violations[0].message).toContain('10.5 h rest');
   });
+
+  // The autumn change (Summer Time Order 2002; Directive 2000/84/EC Art. 2: the last Sunday of
+  // October, 01:00 UTC): on Sun 31 Oct 2027 London's clocks go from 02:00 BST back to 01:00 GMT,
+  // so the wall clock shows 01:00–02:00 twice and the night has an hour more than it shows.
+  const autumn = { period: { start: '2027-10-30', end: '2027-10-31', timeZone: 'Europe/London' } };
+  it('counts the real gap across the autumn DST change (UK, 31 Oct 2027): 11 h where the clock shows 10', () => {
+    const late: ShiftSpec = ['late', 'late', '2027-10-30T14:00', '2027-10-30T22:00'];
+    // 22:00 BST = 21:00 UTC; 08:00 GMT = 08:00 UTC: 11 h elapsed, exactly the minimum, allowed
+    const kept = roster([late, ['early', 'early', '2027-10-31T08:00', '2027-10-31T16:00']], { minRest: { hard: true } }, autumn);
+    const s = both(kept, all(kept, 'ada'));
+    expect(s.feasible).toBe(true);
+    expect(s.violations).toEqual([]);
+    // 07:30 GMT = 07:30 UTC: 10.5 h elapsed (the clock says 9.5 h)
+    const short = roster([late, ['early', 'early', '2027-10-31T07:30', '2027-10-31T15:30']], { minRest: { hard: false, weight: 1 } }, autumn);
+    expect(both(short, all(short, 'ada')).violations.map((v) => v.message)).toEqual([
+      'Ada Brook: 10.5 h rest between the late shift on Sat 30 Oct and the early shift on Sun 31 Oct; minimum 11 h',
+    ]);
+  });
+  it('a shift ending in the repeated hour ends at its second (GMT) occurrence, as documented in shared/roster/time.ts', () => {
+    // 01:30 on 31 Oct read as 01:30 GMT = 01:30 UTC; the next start 12:00 GMT = 12:00 UTC: 10.5 h
+    // (the first, BST occurrence would have left 11.5 h)
+    const r = roster(
+      [
+        ['late', 'late', '2027-10-30T17:30', '2027-10-31T01:30'],
+        ['day', 'day', '2027-10-31T12:00', '2027-10-31T20:00'],
+      ],
+      { minRest: { hard: true } },
+      autumn,
+    );
+    expect(both(r, all(r, 'ada')).feasible).toBe(false);
+    expect(both(r, { 'late#1': 'ada', 'day#1': 'ben' }).feasible).toBe(true);
+    // 12:30 UTC leaves exactly 11 h
+    const later = roster(
+      [
+        ['late', 'late', '2027-10-30T17:30', '2027-10-31T01:30'],
+        ['day', 'day', '2027-10-31T12:30', '2027-10-31T20:30'],
+      ],
+      { minRest: { hard: true } },
+      autumn,
+    );
+    expect(both(later, all(later, 'ada')).feasible).toBe(true);
+  });
 });
 
 // Directive 2003/88/EC, Art. 5: "per each seven-day period, every worker is entitled to a minimum
