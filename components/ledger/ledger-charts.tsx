@@ -33,9 +33,20 @@ function useChartWidth() {
   return Math.min(700, width >= 1024 ? width - 420 : width - 110);
 }
 
-/** A top for the y axis that splits into SECTIONS whole steps, so small counts get whole-number ticks. */
-export function axisTop(values: number[]): { maxValue: number; stepValue: number } {
-  const step = Math.max(1, Math.ceil(Math.max(0, ...values) / SECTIONS));
+/** The smallest round step (1, 2, 2.5, 3, 4, 5, 6 or 8 × 10^k) at or above `raw`, whole numbers only (so counts get whole ticks). */
+function niceStep(raw: number): number {
+  if (raw <= 1) return 1;
+  const magnitude = 10 ** Math.floor(Math.log10(raw));
+  for (const m of magnitude >= 10 ? [1, 2, 2.5, 3, 4, 5, 6, 8, 10] : [1, 2, 3, 4, 5, 6, 8, 10]) if (m * magnitude >= raw) return m * magnitude;
+  return 10 * magnitude;
+}
+
+/**
+ * A top for the y axis that splits into SECTIONS round steps. `headroom` keeps the tallest bar
+ * below the top by that share, so a value written on the bar stays inside the chart.
+ */
+export function axisTop(values: number[], headroom = 0): { maxValue: number; stepValue: number } {
+  const step = niceStep((Math.max(0, ...values) * (1 + headroom)) / SECTIONS);
   return { maxValue: step * SECTIONS, stepValue: step };
 }
 
@@ -94,13 +105,26 @@ export interface PairRow {
  * your count beside the team's average. Values ride on the bars, so the figures read without the axis.
  */
 export function PairChart({ rows, keys, testID, accessibilityLabel }: { rows: PairRow[]; keys: [Kind | { label: string; color: string }, Kind | { label: string; color: string }]; testID?: string; accessibilityLabel?: string }) {
-  const width = useChartWidth();
-  const barWidth = Math.max(10, Math.min(22, (width - 40) / Math.max(1, rows.length) / 2 - 10));
-  const gap = Math.max(14, Math.min(36, (width - 40) / Math.max(1, rows.length) - 2 * barWidth - 2));
+  const room = useChartWidth();
+  // Room per row, shared by the two bars (2 px apart) and the gap to the next pair; the chart is as wide as its bars.
+  const per = Math.min(110, (room - START) / Math.max(1, rows.length));
+  const barWidth = Math.max(8, Math.min(28, Math.floor((per - 20) / 2)));
+  const gap = Math.max(12, Math.min(44, per - 2 * barWidth - 2));
+  const width = Math.min(room, START + rows.length * (2 * barWidth + 2 + gap));
+  const labelRoom = 2 * barWidth + gap;
   const top = { fontFamily: fonts.body, fontSize: 10, color: colors.ink };
   const shown = (v: number) => String(Math.round(v * 10) / 10);
   const data = rows.flatMap((r) => [
-    { value: r.first, label: r.label, frontColor: keys[0].color, spacing: 2, labelWidth: 2 * barWidth + gap, topLabelComponent: () => <Body style={top}>{shown(r.first)}</Body> },
+    {
+      value: r.first,
+      label: r.label,
+      frontColor: keys[0].color,
+      spacing: 2,
+      // The label's box starts at the first bar and spans the pair and the gap; moved back by half the gap it sits under both bars.
+      labelWidth: labelRoom,
+      labelTextStyle: { ...axis, fontSize: labelRoom < 60 ? 10 : 11, transform: [{ translateX: -(gap - 2) / 2 }] },
+      topLabelComponent: () => <Body style={top}>{shown(r.first)}</Body>,
+    },
     { value: r.second, frontColor: keys[1].color, spacing: gap, topLabelComponent: () => <Body style={top}>{shown(r.second)}</Body> },
   ]);
   return (
@@ -109,21 +133,23 @@ export function PairChart({ rows, keys, testID, accessibilityLabel }: { rows: Pa
         data={data}
         width={width}
         barWidth={barWidth}
-        initialSpacing={12}
+        initialSpacing={START}
         noOfSections={SECTIONS}
-        {...axisTop(rows.flatMap((r) => [r.first, r.second]))}
+        {...axisTop(rows.flatMap((r) => [r.first, r.second]), 0.1)}
         xAxisLabelTextStyle={axis}
         yAxisTextStyle={axis}
         yAxisColor={colors.line}
         xAxisColor={colors.line}
         rulesColor={colors.line}
-        disableScroll={rows.length * (2 * barWidth + gap + 2) < width}
+        disableScroll={width < room}
         isAnimated={false}
       />
       <Legend kinds={keys as Kind[]} />
     </View>
   );
 }
+
+const START = 12;
 
 /** Hours worked beside contracted hours, per person. */
 export function HoursChart({ ledger }: { ledger: LedgerAnswer }) {
@@ -157,7 +183,8 @@ export function PeriodsChart({
   testID?: string;
   accessibilityLabel?: string;
 }) {
-  const width = useChartWidth();
+  const room = useChartWidth();
+  const width = Math.min(room, Math.max(200, START + series.length * 46 + 18));
   const label = (rosterId: number) => periodLabel(periods.find((x) => x.rosterId === rosterId));
   return (
     <View testID={testID} accessibilityLabel={accessibilityLabel}>
@@ -173,7 +200,7 @@ export function PeriodsChart({
         yAxisColor={colors.line}
         xAxisColor={colors.line}
         rulesColor={colors.line}
-        disableScroll={series.length * 46 < width}
+        disableScroll={START + series.length * 46 < room}
         isAnimated={false}
       />
     </View>

@@ -13,16 +13,17 @@ import { HOURS_KEYS, KINDS, Legend, PairChart, PeriodsChart, WISH_KINDS, periodL
 
 const day = (date: string) => format(parseISO(date), 'd MMM yyyy');
 const num = (v: number) => String(Math.round(v * 10) / 10);
-const hours = (v: number) => `${num(v)} h`;
+// A no-break space keeps the unit with its number when a line wraps.
+const hours = (v: number) => `${num(v)}\u00a0h`;
 const signed = (v: number) => `${v >= 0 ? '+' : '−'}${hours(Math.abs(v))}`;
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 /** The rows of the "you and the team" chart and table, in the order the ledger's key uses. */
 const COMPARED: Array<{ key: keyof LedgerCounts; short: string; label: string }> = [
   { key: 'nights', short: 'Nights', label: 'Nights' },
-  { key: 'weekendShifts', short: 'Wkends', label: 'Weekend shifts' },
-  { key: 'holidayShifts', short: 'Holid.', label: 'Public holidays' },
-  { key: 'unpopularShifts', short: 'Unpop.', label: 'Unpopular shifts' },
+  { key: 'weekendShifts', short: 'Weekends', label: 'Weekend shifts' },
+  { key: 'holidayShifts', short: 'Holidays', label: 'Public holidays' },
+  { key: 'unpopularShifts', short: 'Unpopular', label: 'Unpopular shifts' },
   { key: 'swaps', short: 'Swaps', label: 'Swaps and taken shifts' },
 ];
 
@@ -85,7 +86,7 @@ function Ledger({ data }: { data: MyLedgerAnswer }) {
     team.rosterIds.length === 0
       ? `The team’s average is not shown: on ${data.periods.length === 1 ? 'this roster' : 'these rosters'} fewer than ${minPeople} people were counted, and an average of so few would give a colleague’s own counts away.`
       : withheld.length > 0
-        ? `The team’s average covers ${team.rosterIds.length} of ${data.periods.length} rosters; on ${withheld.map((p) => p.name).join(', ')} fewer than ${minPeople} people were counted, so it is left out there (it would give a colleague’s own counts away). Your bars count the same ${plural(team.rosterIds.length, 'roster')}.`
+        ? `The team’s average leaves out ${withheld.map((p) => p.name).join(', ')}: fewer than ${minPeople} people were counted there, and an average of so few would give a colleague’s own counts away. The bars compare you and the team on the ${team.rosterIds.length === 1 ? 'other roster' : `other ${team.rosterIds.length} rosters`} only.`
         : `The team’s average is per person counted on each roster (${plural(data.teamSize, 'person', 'people')} in all, you included).`;
   const diff = me.totals.hours - me.totals.contractHours;
   const wishes = me.totals.wishesHonoured + me.totals.wishesRefused;
