@@ -5,7 +5,7 @@ import { brotliCompress, constants as zlib } from 'node:zlib';
 import { generateSW } from 'workbox-build';
 import type { WorkboxPlugin } from 'workbox-core/types';
 import { fontFileNames } from '../../constants/fonts';
-import { OFFLINE_API_PATHS, OFFLINE_CACHE, SAVED_AT_HEADER } from '../../shared/offline';
+import { OFFLINE_API_PATHS, OFFLINE_CACHE, OFFLINE_OWNER_KEY, SAVED_AT_HEADER } from '../../shared/offline';
 import { HASHED_FILE } from '../web/hashed';
 
 /**
@@ -16,9 +16,89 @@ import { HASHED_FILE } from '../web/hashed';
 export async function finishWebBuild(outDir: string): Promise<void> {
   dropEmptyTitle(outDir);
   declareFonts(outDir);
-  writeAppShell(outDir);
-  await writeServiceWorker(outDir);
+  // Read before the steps below add pages of their own.
+  const routes = routeTable(outDir);
+  writeAppShell(outDir, routes);
+  writeNotFoundPage(outDir);
+  writeFileSync(path.join(outDir, ROUTES_FILE), JSON.stringify({ routes }));
+  await writeServiceWorker(outDir, routes);
   await precompress(outDir);
+}
+
+/** As server/web/static.ts reads them. A dotfile: express.static does not serve it. */
+export const ROUTES_FILE = '.rotaloom-routes.json';
+/** The page unknown addresses get with their 404 (server/web/static.ts). */
+export const NOT_FOUND_PAGE = 'not-found.html';
+
+/** One address of the app: its route file's path, the pattern the address matches, what its page needs besides the shell. */
+export interface WebRoute {
+  /** As Expo Router names it: `/my-shifts`, `/rosters/[rosterId]`. */
+  path: string;
+  /** Matched against a URL's pathname: `^/rosters/[^/]+/?$`. */
+  pattern: string;
+  /** The route's chunks (root layout, group layout, screen) beyond the shell's scripts. */
+  scripts: string[];
+  /** API answers the screen asks for first (DATA_FIRST). */
+  data: string[];
+}
+
+/**
+ * What a screen asks for as soon as its code runs, fetched from the app shell beside the code
+ * instead, when someone is signed in on this browser. Only the person's own answers that the
+ * service worker keeps anyway; each URL exactly as the screen's hook asks (same URL and
+ * credentials, or the browser fetches twice; tests/server/web/app-shell.test.ts checks the hook).
+ */
+export const DATA_FIRST: Record<string, string[]> = {
+  '/my-shifts': ['/api/me/shifts'],
+};
+
+const SHELL_CHUNK = /^(__expo-metro-runtime|__common|entry)-/;
+const escapeRegExp = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
+/**
+ * The app's addresses, read from the HTML files Expo Router's static output writes, one per
+ * route (`my-shifts/index.html`, `rosters/[rosterId].html`). The copies under `(group)/` folders,
+ * `_sitemap` and `+not-found` are not addresses of their own. A single-page export has none.
+ */
+export function routeTable(outDir: string): WebRoute[] {
+  if (!HYDRATE_FLAG.test(readFileSync(path.join(outDir, 'index.html'), 'utf8'))) return [];
+  const routes: WebRoute[] = [];
+  const visit = (rel: string) => {
+    for (const entry of readdirSync(path.join(outDir, rel), { withFileTypes: true })) {
+      const child = rel ? `${rel}/${entry.name}` : entry.name;
+      if (entry.isDirectory()) {
+        if (!/^[(_.]/.test(entry.name) && entry.name !== 'assets' && entry.name !== 'icons') visit(child);
+        continue;
+      }
+      if (!entry.name.endsWith('.html') || /^[_+.]/.test(entry.name) || child === APP_SHELL || child === NOT_FOUND_PAGE) continue;
+      const segments = child.replace(/\.html$/, '').split('/');
+      if (segments[segments.length - 1] === 'index') segments.pop();
+      const html = readFileSync(path.join(outDir, child), 'utf8');
+      const scripts = [...html.matchAll(/<script src="\/(_expo\/static\/js\/web\/([^"]+))"/g)].filter((m) => !SHELL_CHUNK.test(m[2])).map((m) => `/${m[1]}`);
+      const routePath = `/${segments.join('/')}`;
+      const pattern = segments.length === 0 ? '^/$' : `^/${segments.map((seg) => (/^\[\.\.\.[^\]]+\]$/.test(seg) ? '.+' : /^\[[^\]]+\]$/.test(seg) ? '[^/]+' : escapeRegExp(seg))).join('/')}/?$`;
+      routes.push({ path: routePath, pattern, scripts, data: DATA_FIRST[routePath] ?? [] });
+    }
+  };
+  visit('');
+  // Fixed segments before parameters, as Expo Router ranks them: /people/new is not /people/[id].
+  const dynamic = (r: WebRoute) => (r.path.match(/\[/g) ?? []).length;
+  return routes.sort((a, b) => dynamic(a) - dynamic(b) || (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+}
+
+/**
+ * The app shell's first script: finds the route of the address being opened and asks for its
+ * chunks at once (the router would ask only after the entry chunk has run, one layout after
+ * another) and, when someone is signed in here, the answers its screen asks for first.
+ */
+export function preloadScript(routes: WebRoute[]): string {
+  const table = routes.filter((r) => r.scripts.length + r.data.length > 0).map((r) => [r.pattern, r.scripts, r.data]);
+  return (
+    `(function(){var t=${JSON.stringify(table)},p=location.pathname,s=false;` +
+    `try{s=!!localStorage.getItem(${JSON.stringify(OFFLINE_OWNER_KEY)})}catch(e){}` +
+    'function l(h,a){var e=document.createElement("link");e.rel="preload";e.href=h;e.as=a;if(a==="fetch")e.crossOrigin="anonymous";document.head.appendChild(e)}' +
+    'for(var i=0;i<t.length;i++)if(new RegExp(t[i][0]).test(p)){t[i][1].forEach(function(h){l(h,"script")});if(s)t[i][2].forEach(function(h){l(h,"fetch")});break}})()'
+  );
 }
 
 /** What a browser may be sent Brotli-compressed: text, and the fonts (TrueType shrinks by half). */
@@ -37,7 +117,7 @@ export async function precompress(outDir: string): Promise<number> {
     for (const entry of readdirSync(dir, { withFileTypes: true })) {
       const file = path.join(dir, entry.name);
       if (entry.isDirectory()) visit(file);
-      else if (PRECOMPRESSED.test(entry.name)) files.push(file);
+      else if (PRECOMPRESSED.test(entry.name) && !entry.name.startsWith('.')) files.push(file);
     }
   };
   visit(outDir);
@@ -55,8 +135,8 @@ export async function precompress(outDir: string): Promise<number> {
  * The static renderer writes the (empty) title of expo-router's Head before app/+html.tsx's own,
  * and a browser shows the first one: the page would have no name until the code runs.
  */
-export function dropEmptyTitle(outDir: string): void {
-  const indexFile = path.join(outDir, 'index.html');
+export function dropEmptyTitle(outDir: string, page = 'index.html'): void {
+  const indexFile = path.join(outDir, page);
   writeFileSync(indexFile, readFileSync(indexFile, 'utf8').replace(/<title data-rh="true"><\/title>/, ''));
 }
 
@@ -92,7 +172,7 @@ function rootContent(html: string): { start: number; end: number } {
  * size would otherwise differ from markup written at build time without them.
  * A single-page export (web.output "single") has nothing to hydrate: the shell is index.html as is.
  */
-export function writeAppShell(outDir: string): void {
+export function writeAppShell(outDir: string, routes: WebRoute[] = []): void {
   const html = readFileSync(path.join(outDir, 'index.html'), 'utf8');
   let shell = html;
   if (HYDRATE_FLAG.test(html)) {
@@ -110,8 +190,25 @@ export function writeAppShell(outDir: string): void {
   // asked for beside the code, it is there when the code runs (a round trip less on a slow line).
   // crossorigin="anonymous" is credentials "same-origin", as apiFetch asks, so the two match.
   if (!shell.includes('</head>')) throw new Error('web build: index.html has no </head>');
-  shell = shell.replace('</head>', `<link rel="preload" href="${SESSION_PATH}" as="fetch" crossorigin="anonymous"></head>`);
+  const first = routes.length ? `<script>${preloadScript(routes)}</script>` : '';
+  shell = shell.replace('</head>', `<link rel="preload" href="${SESSION_PATH}" as="fetch" crossorigin="anonymous">${first}</head>`);
   writeFileSync(path.join(outDir, APP_SHELL), shell);
+}
+
+/**
+ * The page an unknown address gets, with a 404: Expo Router's own rendering of app/+not-found.tsx,
+ * readable from the HTML alone, with the fonts index.html declares. Not hydrated (the client
+ * renders over it), like every page but the landing page; nothing is written for a single-page
+ * export, whose server answers unknown addresses with the app shell.
+ */
+export function writeNotFoundPage(outDir: string): void {
+  const source = path.join(outDir, '+not-found.html');
+  if (!existsSync(source)) return;
+  const html = readFileSync(source, 'utf8');
+  if (!HYDRATE_FLAG.test(html)) return;
+  writeFileSync(path.join(outDir, NOT_FOUND_PAGE), html.replace(HYDRATE_FLAG, ''));
+  dropEmptyTitle(outDir, NOT_FOUND_PAGE);
+  declareFonts(outDir, NOT_FOUND_PAGE);
 }
 
 /**
@@ -119,7 +216,7 @@ export function writeAppShell(outDir: string): void {
  * switches when the file arrives) and a preload, so the files download beside the code instead
  * of after it. All three faces are on the first screen (headings, text, buttons).
  */
-export function declareFonts(outDir: string): void {
+export function declareFonts(outDir: string, page = 'index.html'): void {
   const fontDir = path.join(outDir, 'assets', 'fonts');
   const exported = existsSync(fontDir) ? readdirSync(fontDir) : [];
   const faces = Object.entries(fontFileNames).map(([family, file]) => {
@@ -132,9 +229,9 @@ export function declareFonts(outDir: string): void {
     ...faces.map((f) => `<link rel="preload" href="${f.url}" as="font" type="font/ttf" crossorigin>`),
     `<style id="rotaloom-fonts">${faces.map((f) => `@font-face{font-family:"${f.family}";src:url(${f.url}) format("truetype");font-display:swap}`).join('')}</style>`,
   ].join('');
-  const indexFile = path.join(outDir, 'index.html');
+  const indexFile = path.join(outDir, page);
   const html = readFileSync(indexFile, 'utf8');
-  if (!html.includes('</head>')) throw new Error('web build: index.html has no </head>');
+  if (!html.includes('</head>')) throw new Error(`web build: ${page} has no </head>`);
   writeFileSync(indexFile, html.replace('</head>', `${head}</head>`));
 }
 
@@ -170,7 +267,7 @@ const stampSavedAt: WorkboxPlugin = {
  * and published shifts from the network first, their last good copy when the network fails.
  * The client deletes that copy at sign-out and whenever someone else signs in (hooks/offline/).
  */
-export async function writeServiceWorker(outDir: string): Promise<{ count: number; size: number }> {
+export async function writeServiceWorker(outDir: string, routes: WebRoute[] = []): Promise<{ count: number; size: number }> {
   const { count, size, warnings } = await generateSW({
     swDest: path.join(outDir, 'sw.js'),
     globDirectory: outDir,
@@ -178,6 +275,8 @@ export async function writeServiceWorker(outDir: string): Promise<{ count: numbe
     // As the server answers: the landing page its own prerendered HTML ('/' is index.html), every
     // other page the app shell, and the client router decides.
     navigateFallback: `/${APP_SHELL}`,
+    // Only the app's own addresses (any query): an unknown one goes to the server for its 404 page.
+    ...(routes.length ? { navigateFallbackAllowlist: routes.map((r) => new RegExp(r.pattern.replace(/\$$/, '(?:\\?.*)?$'))) } : {}),
     navigateFallbackDenylist: [/^\/api\//, /^\/dev\//],
     dontCacheBustURLsMatching: HASHED_FILE,
     cleanupOutdatedCaches: true,

@@ -1,17 +1,20 @@
 import express, { Router, type Request, type Response } from 'express';
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { HASHED_FILE } from './hashed';
 
 /** As server/bootstrap/web-finish.ts names them (not imported: that module pulls in workbox-build). */
 const APP_SHELL = 'app-shell.html';
+const NOT_FOUND_PAGE = 'not-found.html';
+const ROUTES_FILE = '.rotaloom-routes.json';
 const PRECOMPRESSED = /\.(js|html|css|json|webmanifest|svg|ttf)$/;
 
 /**
  * Serves the exported web app. The landing page gets index.html, which the build rendered with its
- * sign-in form (the client hydrates it); any other GET that is not a file or an API call gets the
- * app shell and the client router decides (including its not-found page). An export without a
- * shell (older builds, tests) answers everything with index.html.
+ * sign-in form (the client hydrates it); any other address of the app gets the app shell and the
+ * client router draws it. An address that is neither an app route nor a file (a mistyped link, a
+ * chunk of an earlier build) gets 404 with the not-found page. An export without the build's route
+ * list (single-page output, tests) answers every address with its shell, or index.html.
  */
 export function webRouter(webDir: string): Router {
   const router = Router();
@@ -29,12 +32,46 @@ export function webRouter(webDir: string): Router {
       res.status(503).type('text/plain').send('The web app has not been built yet: run `npm start`, which builds it.');
       return;
     }
-    const page = req.path === '/' || !existsSync(shellFile) ? 'index.html' : APP_SHELL;
+    let page = req.path === '/' || !existsSync(shellFile) ? 'index.html' : APP_SHELL;
+    if (req.path !== '/' && !isAppAddress(webDir, req.path)) {
+      res.status(404);
+      if (existsSync(path.join(webDir, NOT_FOUND_PAGE))) page = NOT_FOUND_PAGE;
+    }
     if (sendBrotli(req, res, webDir, `/${page}`)) return;
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(path.join(webDir, page));
   });
   return router;
+}
+
+const routeLists = new Map<string, { mtimeMs: number; patterns: RegExp[] }>();
+
+/**
+ * Whether a path is one of the app's routes, by the list the build wrote
+ * (server/bootstrap/web-finish.ts `routeTable`); read again when a new build replaces it.
+ * Without a list every path counts as one.
+ */
+function isAppAddress(webDir: string, urlPath: string): boolean {
+  const file = path.join(webDir, ROUTES_FILE);
+  let mtimeMs: number;
+  try {
+    mtimeMs = statSync(file).mtimeMs;
+  } catch {
+    return true;
+  }
+  let list = routeLists.get(file);
+  if (!list || list.mtimeMs !== mtimeMs) {
+    const { routes } = JSON.parse(readFileSync(file, 'utf8')) as { routes: Array<{ pattern: string }> };
+    list = { mtimeMs, patterns: routes.map((r) => new RegExp(r.pattern)) };
+    routeLists.set(file, list);
+  }
+  let decoded: string;
+  try {
+    decoded = decodeURIComponent(urlPath);
+  } catch {
+    return false;
+  }
+  return list.patterns.some((p) => p.test(decoded));
 }
 
 /**
@@ -63,7 +100,8 @@ function sendBrotli(req: Request, res: Response, webDir: string, urlPath: string
   }
   const root = path.resolve(webDir);
   const file = path.resolve(root, `.${rel}`);
-  if (!file.startsWith(root + path.sep) || !existsSync(`${file}.br`)) return false;
+  // Dotfiles (the build's stamp and route list) are not served, as express.static does not.
+  if (!file.startsWith(root + path.sep) || rel.split('/').some((seg) => seg.startsWith('.')) || !existsSync(`${file}.br`)) return false;
   res.setHeader('Content-Encoding', 'br');
   res.setHeader('Vary', 'Accept-Encoding');
   res.setHeader('Cache-Control', cacheControlFor(file));

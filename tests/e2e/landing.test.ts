@@ -46,9 +46,15 @@ describe.each([
     await close();
   });
 
-  it('shows its own not-found page for an unknown address', async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
-    await page.goto('/no/such/page');
+  it('answers an unknown address with 404 and its own not-found page, readable before the code runs', async () => {
+    // The 404 of the page itself is the point here (RFC 9110 §15.5.5), not a failure.
+    const { page, problems, close } = await openPage(browser, viewport, [/^HTTP 404: GET \S+\/no\/such\/page$/, /^console: Failed to load resource: the server responded with a status of 404/]);
+    const raw = await page.request.get('/no/such/page');
+    expect(raw.status()).toBe(404);
+    expect(raw.headers()['content-type']).toMatch(/^text\/html/);
+    expect(await raw.text()).toContain('This page is not on the roster');
+    const answer = await page.goto('/no/such/page');
+    expect(answer?.status()).toBe(404);
     await page.getByRole('heading', { name: 'This page is not on the roster' }).waitFor();
     await screenshot(page, `not-found-${label}`);
     await page.getByText('Back to the start').click();
