@@ -1,16 +1,22 @@
-// Expo's Metro defaults, plus one redirect that keeps 300 KB of unused text out of the web bundle.
+// Expo's Metro defaults, plus two redirects that keep zod's unused parts (300 KB of messages in
+// other languages, reading JSON Schema) out of the web bundle.
 const path = require('node:path');
 const { getDefaultConfig } = require('expo/metro-config');
 
 const config = getDefaultConfig(__dirname);
 const zodDir = `${path.sep}node_modules${path.sep}zod${path.sep}v4${path.sep}`;
 const englishOnly = path.join(__dirname, 'shared', 'zod-english-only.ts');
+const noJsonSchemaInput = path.join(__dirname, 'shared', 'zod-no-json-schema-input.ts');
 
 config.resolver.resolveRequest = (context, moduleName, platform) => {
   // zod re-exports its error messages in ~45 languages as `z.locales`; Rotaloom speaks English and
   // never calls z.locales, so its index resolves to English alone (the default zod already sets).
   if (moduleName === '../locales/index.js' && context.originModulePath.includes(zodDir)) {
     return { type: 'sourceFile', filePath: englishOnly };
+  }
+  // z.fromJSONSchema, which the app never calls (the server's scripts use zod from Node, not this bundle).
+  if (moduleName === './from-json-schema.js' && context.originModulePath.endsWith(`${zodDir}classic${path.sep}external.js`)) {
+    return { type: 'sourceFile', filePath: noJsonSchemaInput };
   }
   return context.resolveRequest(context, moduleName, platform);
 };

@@ -67,6 +67,22 @@ describe('the web build after expo export', () => {
     expect(sw).toContain('x-rotaloom-saved-at');
   });
 
+  it('answers only the app’s own addresses with the shell when offline or not; an unknown one goes to the server for its 404', async () => {
+    const dir = fakeExport();
+    await writeServiceWorker(dir, [
+      { path: '/my-shifts', pattern: '^/my-shifts/?$', scripts: [], data: [] },
+      { path: '/rosters/[rosterId]', pattern: '^/rosters/[^/]+/?$', scripts: [], data: [] },
+    ]);
+    const sw = readFileSync(path.join(dir, 'sw.js'), 'utf8');
+    const listed = sw.match(/\{allowlist:\[(.*?)\],denylist:/);
+    expect(listed).not.toBeNull();
+    // Workbox tests a navigation's pathname and search against these (workbox-routing NavigationRoute)
+    const allow = new Function(`return [${listed![1]}]`)() as RegExp[];
+    const handled = (url: string) => allow.some((re) => re.test(url));
+    for (const url of ['/my-shifts', '/my-shifts/', '/my-shifts?week=2027-03-01', '/rosters/12', '/rosters/12?section=result']) expect(handled(url), url).toBe(true);
+    for (const url of ['/no/such/page', '/rosters/12/runs', '/my-shiftsx', '/rosters']) expect(handled(url), url).toBe(false);
+  });
+
   it('keeps only the signed-in person’s own answers: the session and /api/me/shifts (any week), nothing about others', () => {
     const kept = ['http://127.0.0.1:3000/api/auth/session', 'http://127.0.0.1:3000/api/me/shifts', 'https://rota.example/api/me/shifts?week=2027-02-03'];
     const notKept = [
