@@ -87,7 +87,7 @@ export function createApp({ env, sequelize, mailer = createMailer(env) }: AppDep
   api.use(passport.session());
   api.use(loadAuthContext);
   api.use(requireCsrfHeader);
-  api.use('/auth', authRouter({ env, passport, mailer }));
+  api.use('/auth', authRouter({ env, passport, mailer, sequelize }));
   api.use('/workspaces', workspacesRouter());
   api.use('/members', membersRouter());
   api.use('/invitations', invitationsRouter({ env, mailer }));

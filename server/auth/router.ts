@@ -1,6 +1,7 @@
 import type { Request, Response, NextFunction, Router } from 'express';
+import type { Sequelize } from 'sequelize';
 import type { Env } from '../env';
-import { User } from '../db/models';
+import type { User } from '../db/models';
 import { ApiRoutes } from '../http/routes';
 import { sharedRateLimit } from '../http/rate-limit';
 import { HttpError } from '../http/errors';
@@ -27,16 +28,19 @@ import { requireStrongPassword } from './strength';
 import {
   CONFIRM_VALID_MS,
   RESET_VALID_MS,
-  consumeToken,
+  confirmEmailWithToken,
   emailTaken,
   endSessions,
+  findUserByEmail,
   findUserWithPassword,
   firstWorkspaceName,
   issueToken,
   normalizeEmail,
   recentTokenCount,
+  resetPasswordWithToken,
   resolveMembership,
   sessionView,
+  setDisplayName,
   setPassword,
 } from './service';
 import { SIGN_UP_VALID_MS, findOpenSignUp, finishSignUp, requestSignUp } from './sign-up';
@@ -45,6 +49,8 @@ export interface AuthDeps {
   env: Env;
   passport: Authenticator;
   mailer: Mailer;
+  /** Where the per-address limits are counted (server/http/rate-limit.ts). */
+  sequelize: Sequelize;
 }
 
 /** Signs the user in on this request (a fresh session id) and picks their workspace, preferring `workspaceId`. */
@@ -74,11 +80,11 @@ export const safeReturnTo = (value: unknown): string | undefined =>
 
 const SAME_MESSAGE = 'The e-mail address or the password is not right';
 
-export function authRouter({ env, passport, mailer }: AuthDeps): Router {
+export function authRouter({ env, passport, mailer, sequelize }: AuthDeps): Router {
   const routes = new ApiRoutes('/auth');
   // Sign-up and password-reset requests per address, on top of the per-account sign-in limits;
   // counted in Redis, so a client cannot multiply its allowance by reaching several API processes.
-  const perAddress = sharedRateLimit(User.sequelize!, 'account-requests', {
+  const perAddress = sharedRateLimit(sequelize, 'account-requests', {
     windowMs: 15 * 60 * 1000,
     limit: env.accountRequestsPerAddress,
     standardHeaders: 'draft-8',
@@ -162,7 +168,7 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
   });
 
   routes.post('/forgot-password', 'public', perAddress, validate({ body: forgotPasswordSchema }), async (req, res) => {
-    const user = await User.findOne({ where: { email: normalizeEmail(req.body.email) } });
+    const user = await findUserByEmail(req.body.email);
     // At most three links an hour to one inbox; the answer is the same either way.
     if (user && (await recentTokenCount(user.id, 'password-reset')) < 3) {
       const token = await issueToken(user.id, 'password-reset', RESET_VALID_MS);
@@ -175,36 +181,18 @@ export function authRouter({ env, passport, mailer }: AuthDeps): Router {
   routes.post('/reset-password', 'public', perAddress, validate({ body: resetPasswordSchema }), async (req, res) => {
     const { token, password } = req.body as { token: string; password: string };
     await requireStrongPassword(password, 'body.password');
-    const row = await User.sequelize!.transaction(async (transaction) => {
-      const used = await consumeToken(token, 'password-reset', transaction);
-      // Following the e-mailed link shows the address is theirs.
-      await setPassword(used.userId, password, { verifyEmail: true }, transaction);
-      return used;
-    });
-    await endSessions(row.userId);
-    const user = await User.findByPk(row.userId);
-    if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
-    await logIn(req, { id: user.id, email: user.email, displayName: user.displayName });
+    const user = await resetPasswordWithToken(token, password);
+    await logIn(req, user);
     res.json(await currentSession(req));
   });
 
   routes.post('/confirm-email', 'public', validate({ body: confirmEmailSchema }), async (req, res) => {
-    const email = await User.sequelize!.transaction(async (transaction) => {
-      const used = await consumeToken(req.body.token, 'confirm-email', transaction);
-      const user = await User.findByPk(used.userId, { transaction });
-      if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
-      const next = used.email ?? user.email;
-      if (next !== user.email && (await emailTaken(next, user.id))) {
-        throw new HttpError(409, 'conflict', 'Another account uses this address now', [{ path: 'body.token', message: 'Another account uses this address now' }]);
-      }
-      await user.update({ email: next, emailVerified: true }, { transaction });
-      return next;
-    });
+    const email = await confirmEmailWithToken(req.body.token);
     res.json({ email, emailVerified: true });
   });
 
   routes.patch('/profile', 'signed-in', validate({ body: updateProfileSchema }), async (req, res) => {
-    await User.update({ displayName: req.body.displayName }, { where: { id: req.user!.id } });
+    await setDisplayName(req.user!.id, req.body.displayName);
     res.json(await currentSession(req));
   });
 

@@ -219,3 +219,45 @@ export async function emailTaken(email: string, exceptUserId?: number): Promise<
 export async function firstWorkspaceName(userId: number): Promise<string | null> {
   return (await listUserWorkspaces(userId))[0]?.name ?? null;
 }
+
+// ---------------------------------------------------------------- account changes the auth routes make
+
+export async function findUserByEmail(email: string): Promise<User | null> {
+  return User.findOne({ where: { email: normalizeEmail(email) } });
+}
+
+/**
+ * Uses a password-reset link and sets the new password in one transaction, so a link that fails
+ * half-way stays unused. Following the e-mailed link shows the address is theirs. The account
+ * signs in afterwards; 410 naming body.token when it was deleted meanwhile.
+ */
+export async function resetPasswordWithToken(token: string, password: string): Promise<Express.User> {
+  const used = await User.sequelize!.transaction(async (transaction) => {
+    const row = await consumeToken(token, 'password-reset', transaction);
+    await setPassword(row.userId, password, { verifyEmail: true }, transaction);
+    return row;
+  });
+  await endSessions(used.userId);
+  const user = await User.findByPk(used.userId);
+  if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
+  return { id: user.id, email: user.email, displayName: user.displayName };
+}
+
+/** Uses a confirm-email link: the address it carries (a change) or the account's own becomes the verified one. */
+export async function confirmEmailWithToken(token: string): Promise<string> {
+  return User.sequelize!.transaction(async (transaction) => {
+    const used = await consumeToken(token, 'confirm-email', transaction);
+    const user = await User.findByPk(used.userId, { transaction });
+    if (!user) throw new HttpError(410, 'gone', 'This account no longer exists', [{ path: 'body.token', message: 'The account was deleted' }]);
+    const next = used.email ?? user.email;
+    if (next !== user.email && (await emailTaken(next, user.id))) {
+      throw new HttpError(409, 'conflict', 'Another account uses this address now', [{ path: 'body.token', message: 'Another account uses this address now' }]);
+    }
+    await user.update({ email: next, emailVerified: true }, { transaction });
+    return next;
+  });
+}
+
+export async function setDisplayName(userId: number, displayName: string): Promise<void> {
+  await User.update({ displayName }, { where: { id: userId } });
+}

@@ -89,8 +89,9 @@ const NO_WORKER_WORDS = 'No worker was left to prepare this file (the worker pro
  * `GET /api/exports/:id`. A file still waiting when no worker serves the queue any more would wait
  * for nobody: it is marked failed, in words, and its job taken back (as compute requests are).
  */
-export async function exportStatus(sequelize: Sequelize, workspaceId: number, id: number): Promise<ReturnType<typeof exportView>> {
+export async function exportStatus(workspaceId: number, id: number): Promise<ReturnType<typeof exportView>> {
   const row = await findExport(workspaceId, id);
+  const sequelize = ExportFile.sequelize!;
   if (row.status === 'queued' && (await exportWorkers(sequelize)) === 0) {
     const job = await queues(sequelize).exports.getJob(exportJobId(row.id)).catch(() => null);
     if (!job || (await job.getState().catch(() => 'unknown')) !== 'active') {

@@ -1,7 +1,6 @@
 import { ApiRoutes, COORDINATOR_UP } from '../http/routes';
 import { validate } from '../http/validate';
 import { idParams } from '../../shared/api/paging';
-import { ExportFile } from './models';
 import { exportStatus, sendExportFile } from './jobs';
 
 /**
@@ -12,7 +11,7 @@ import { exportStatus, sendExportFile } from './jobs';
 export function exportsRouter() {
   const r = new ApiRoutes('/exports');
   r.get('/:id', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
-    res.json({ export: await exportStatus(ExportFile.sequelize!, req.auth!.workspaceId, Number(req.params.id)) });
+    res.json({ export: await exportStatus(req.auth!.workspaceId, Number(req.params.id)) });
   });
   r.get('/:id/file', COORDINATOR_UP, validate({ params: idParams }), async (req, res) => {
     await sendExportFile(res, req.auth!.workspaceId, Number(req.params.id));
