@@ -6,7 +6,7 @@ import { useDeleteAbsence } from '@/hooks/api/delete-absence';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Tag } from '@/components/people/parts';
+import { Tag } from '@/components/people/inline-controls';
 import { AbsenceForm } from './absence-form';
 import { creditWords, kindWords, spanWords, STATUS_WORDS } from './format';
 

@@ -16,7 +16,7 @@ import { Body } from '@/components/ui/typography';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
-import { Choices } from '@/components/rosters/parts';
+import { Choices } from '@/components/rosters/panel';
 
 interface Values {
   person: PickedPerson | null;

@@ -8,7 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
-import { CoordinatorsOnly, LinkButton, Tag } from '@/components/people/parts';
+import { CoordinatorsOnly, LinkButton, Tag } from '@/components/people/inline-controls';
 import { CsvPicker } from '@/components/people/csv-picker';
 
 const SHOWN_ROWS = 60;

@@ -5,7 +5,7 @@ import { useAbsences } from '@/hooks/api/get-absences';
 import { Button } from '@/components/ui/button';
 import { Body } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { Loadable } from '@/components/rosters/parts';
+import { Loadable } from '@/components/rosters/panel';
 import { AbsenceCard } from './absence-card';
 import { AbsenceForm } from './absence-form';
 

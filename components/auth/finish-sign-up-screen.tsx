@@ -1,7 +1,8 @@
-import { useEffect, useRef, useState, useSyncExternalStore } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { useLocalSearchParams, useRouter } from 'expo-router';
 import { colors, space } from '@/constants/theme';
+import { useHydrated } from '@/hooks/use-hydrated';
 import { finishSignUpSchema } from '@/shared/auth/schemas';
 import { useSignUpPreview } from '@/hooks/api/get-sign-up-preview';
 import { useFinishSignUp } from '@/hooks/api/finish-sign-up';
@@ -16,9 +17,6 @@ import { checkForm, fieldError, formError, type FieldErrors } from '@/components
 
 const TITLE = 'Finish signing up';
 
-const noSubscription = () => () => {};
-/** False while a page written at build time (without the link's query) hydrates: the token is known only after. */
-const useAfterHydration = () => useSyncExternalStore(noSubscription, () => true, () => false);
 
 /** What to offer after a link that cannot be used: a new one, or signing in when the account exists. */
 function LinkProblem({ message, status }: { message: string; status?: number }) {
@@ -51,7 +49,8 @@ function Finishing({ what }: { what: string }) {
  */
 export function FinishSignUpScreen() {
   const router = useRouter();
-  const hydrated = useAfterHydration();
+  // A page written at build time has no link query while it hydrates: the token is known only after.
+  const hydrated = useHydrated();
   const params = useLocalSearchParams<{ token?: string }>();
   const token = hydrated ? (params.token ?? '') : '';
   const preview = useSignUpPreview(token);

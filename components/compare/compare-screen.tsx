@@ -11,7 +11,7 @@ import { ChoiceChips } from '@/components/staff/choice-chips';
 import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { runName } from '@/components/rosters/format';
-import { shiftWords } from '@/components/swaps/parts';
+import { shiftWords } from '@/components/swaps/swap-words';
 
 /** One run's standing on a per-person term, in words: honoured, or broken with its units and points. */
 function outcome(o: RunCompare['personRuleTerms'][number]['a'], hard: boolean): string {

@@ -14,7 +14,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { checkForm, formError, type FieldErrors } from '@/components/forms/form-errors';
-import { Chip, CoordinatorsOnly, Tag } from '@/components/people/parts';
+import { Chip, CoordinatorsOnly, Tag } from '@/components/people/inline-controls';
 import { PersonPicker, type PickedPerson } from './person-picker';
 
 type Kind = 'together' | 'apart' | 'never';

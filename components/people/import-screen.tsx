@@ -9,7 +9,7 @@ import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
-import { CoordinatorsOnly, formatHours, LinkButton, Tag } from './parts';
+import { CoordinatorsOnly, formatHours, LinkButton, Tag } from './inline-controls';
 import { CsvPicker } from './csv-picker';
 
 const SHOWN_ROWS = 50;

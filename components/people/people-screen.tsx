@@ -3,13 +3,14 @@ import { ActivityIndicator, Pressable, StyleSheet, Text, View } from 'react-nati
 import { router, useLocalSearchParams } from 'expo-router';
 import { colors, fonts, radius, space } from '@/constants/theme';
 import { useIsWide } from '@/hooks/use-is-wide';
+import { useDebounced } from '@/hooks/use-debounced';
 import { usePeople, type PersonDto } from '@/hooks/api/get-people';
 import { useSkills, type SkillDto } from '@/hooks/api/get-skills';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body, Heading } from '@/components/ui/typography';
-import { Chip, CoordinatorsOnly, formatHours, LinkButton } from './parts';
+import { Chip, CoordinatorsOnly, formatHours, LinkButton } from './inline-controls';
 import { ExportLink } from './export-link';
 
 type SortField = 'name' | 'contractedHours' | 'createdAt';
@@ -27,15 +28,6 @@ export function PeopleScreen() {
       <PeopleList />
     </CoordinatorsOnly>
   );
-}
-
-function useDebounced<T>(value: T, ms: number): T {
-  const [debounced, setDebounced] = useState(value);
-  useEffect(() => {
-    const t = setTimeout(() => setDebounced(value), ms);
-    return () => clearTimeout(t);
-  }, [value, ms]);
-  return debounced;
 }
 
 function PeopleList() {

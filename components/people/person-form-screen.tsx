@@ -20,7 +20,7 @@ import { TextLink } from '@/components/auth/text-link';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
 import { PersonAbsencesSection } from '@/components/absences/person-absences-section';
-import { Chip, CoordinatorsOnly } from './parts';
+import { Chip, CoordinatorsOnly } from './inline-controls';
 import { TermsSection } from './terms-section';
 
 /** As typed: hours are text until the schema reads them; names are the request body's. */

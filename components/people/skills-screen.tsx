@@ -13,7 +13,7 @@ import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
-import { CoordinatorsOnly } from './parts';
+import { CoordinatorsOnly } from './inline-controls';
 
 /** The workspace's skills: seats ask for them, people hold them, CSV files name them. */
 export function SkillsScreen() {

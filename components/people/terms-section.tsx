@@ -18,8 +18,8 @@ import { TextField } from '@/components/ui/text-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { Choices, Loadable } from '@/components/rosters/parts';
-import { Chip } from './parts';
+import { Choices, Loadable } from '@/components/rosters/panel';
+import { Chip } from './inline-controls';
 
 /** The kinds as a coordinator picks them; the list's own words come from the server (describeTerm). */
 const KIND_LABELS: Record<TermKind, string> = {

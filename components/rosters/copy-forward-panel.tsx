@@ -14,7 +14,7 @@ import { DateField } from '@/components/ui/date-field';
 import { Body } from '@/components/ui/typography';
 import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
-import { Panel } from './parts';
+import { Panel } from './panel';
 import { periodWords } from './format';
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;

@@ -11,9 +11,9 @@ import type { RosterDto, RunDetail } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Loadable, Panel, Pill } from './parts';
+import { Loadable, Panel, Pill } from './panel';
 import { dayWords, points, timeOf } from './format';
-import { useRosterView } from './use-roster-view';
+import { useRosterView } from '@/hooks/use-roster-view';
 import { stickyTop } from './grid/sticky';
 
 interface Draft {

@@ -11,7 +11,7 @@ import type { RosterWish } from '@/hooks/api/get-roster-wishes';
 import type { RosterDto, ShiftDto } from '@/hooks/api/roster-types';
 import { Body } from '@/components/ui/typography';
 import { kindWords, spanWords } from '@/components/absences/format';
-import { Pill } from './parts';
+import { Pill } from './panel';
 import { dayWords, timeOf } from './format';
 
 const WEEKDAY: Weekday[] = ['sun', 'mon', 'tue', 'wed', 'thu', 'fri', 'sat'];

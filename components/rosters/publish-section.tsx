@@ -9,7 +9,7 @@ import type { RosterDto } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Loadable, Panel } from './parts';
+import { Loadable, Panel } from './panel';
 import { dbId, gapWords, points, runName } from './format';
 import { DownloadLink } from './download-link';
 

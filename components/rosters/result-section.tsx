@@ -10,9 +10,9 @@ import type { PersonTotals, RosterDto, RunDetail, RunDto } from '@/hooks/api/ros
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Choices, Loadable, Panel, Pill } from './parts';
+import { Choices, Loadable, Panel, Pill } from './panel';
 import { gapWords, longDayWords, points, runName, timeOf } from './format';
-import { useRosterView, type SeatView } from './use-roster-view';
+import { useRosterView, type SeatView } from '@/hooks/use-roster-view';
 import { SeatPanel } from './seat-panel';
 import { RosterGrid } from './grid/roster-grid';
 

@@ -6,7 +6,7 @@ import { useRoster } from '@/hooks/api/get-roster';
 import { useRuns } from '@/hooks/api/get-runs';
 import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
-import { Loadable, Pill } from './parts';
+import { Loadable, Pill } from './panel';
 import { periodWords } from './format';
 import { SetupSection } from './setup-section';
 import { RulesSection } from './rules-section';
@@ -17,7 +17,7 @@ import { ResultSection } from './result-section';
 import { EditSection } from './edit-section';
 import { PublishSection } from './publish-section';
 import { CopyForwardPanel } from './copy-forward-panel';
-import { LinkButton } from '@/components/people/parts';
+import { LinkButton } from '@/components/people/inline-controls';
 import { Button } from '@/components/ui/button';
 import { CautionLine } from '@/components/ui/caution-line';
 

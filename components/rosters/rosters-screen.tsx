@@ -14,7 +14,7 @@ import { DateField } from '@/components/ui/date-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
-import { Loadable, Panel, Pill } from './parts';
+import { Loadable, Panel, Pill } from './panel';
 import { periodWords } from './format';
 
 const statusWords = { draft: 'draft', solved: 'solved', published: 'published' } as const;

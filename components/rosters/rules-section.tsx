@@ -11,7 +11,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
-import { Choices, Loadable, Panel } from './parts';
+import { Choices, Loadable, Panel } from './panel';
 import { SkillMixEditor, type SkillMixRequirement } from './skill-mix-editor';
 
 /** The form keeps numbers as typed text; the resolver turns them into a rule set or names the field at fault. */

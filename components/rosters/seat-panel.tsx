@@ -9,7 +9,7 @@ import type { RosterDto, SeatAlternative, SeatContestAnswer } from '@/hooks/api/
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Pill } from './parts';
+import { Pill } from './panel';
 import { points } from './format';
 
 const signed = (x: number) => (Math.abs(x) < 0.05 ? '0.0' : `${x > 0 ? '+' : ''}${points(x)}`);

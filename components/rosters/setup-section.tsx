@@ -19,7 +19,7 @@ import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
-import { Choices, Loadable, Panel } from './parts';
+import { Choices, Loadable, Panel } from './panel';
 import { dayWords, timeOf } from './format';
 
 const WEEKDAYS = [

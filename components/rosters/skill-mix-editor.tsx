@@ -8,7 +8,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
-import { Choices } from './parts';
+import { Choices } from './panel';
 
 export type SkillMixRequirement = RuleSet['skillMix']['requirements'][number];
 

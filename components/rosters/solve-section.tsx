@@ -14,7 +14,7 @@ import { Notice } from '@/components/ui/notice';
 import { isBillingRefusal, PlanLimitPrompt } from '@/components/billing/plan-limit-prompt';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
-import { Choices, Loadable, Panel, Pill } from './parts';
+import { Choices, Loadable, Panel, Pill } from './panel';
 import { gapWords, points, runName } from './format';
 
 const LIMITS = [

@@ -8,7 +8,7 @@ import type { PastRosterEffect, SuggestionDto } from '@/shared/api/suggestion';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { Loadable, Panel, Pill } from './parts';
+import { Loadable, Panel, Pill } from './panel';
 
 const num = (x: number) => (Math.round(x * 10) / 10).toString();
 

@@ -14,7 +14,7 @@ import { TextField } from '@/components/ui/text-field';
 import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { inZone } from '@/components/staff/format';
-import { Panel } from './parts';
+import { Panel } from './panel';
 
 const DATE = /^\d{4}-\d{2}-\d{2}$/;
 const TIME = /^([01]\d|2[0-3]):[0-5]\d$/;

@@ -16,7 +16,7 @@ import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { datesBetween } from '@/components/staff/format';
-import { Loadable, Panel } from './parts';
+import { Loadable, Panel } from './panel';
 import { dayWords, timeOf } from './format';
 import { WishSettingsPanel } from './wish-settings-panel';
 import { PersonOutcome } from './person-outcome';

@@ -8,7 +8,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { Section } from '@/components/auth/section';
-import { Tag } from '@/components/people/parts';
+import { Tag } from '@/components/people/inline-controls';
 import { AbsenceForm } from '@/components/absences/absence-form';
 import { kindWords, spanWords, STATUS_WORDS } from '@/components/absences/format';
 

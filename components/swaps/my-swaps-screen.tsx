@@ -9,11 +9,11 @@ import { useDeclineSwap } from '@/hooks/api/decline-swap';
 import { useWithdrawSwap } from '@/hooks/api/withdraw-swap';
 import { useTakeOffer } from '@/hooks/api/take-offer';
 import { Section } from '@/components/auth/section';
-import { Tag } from '@/components/people/parts';
+import { Tag } from '@/components/people/inline-controls';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
-import { CheckWords, SWAP_STATUS_WORDS, cardStyle, shiftWords, statusTone } from './parts';
+import { CheckWords, SWAP_STATUS_WORDS, cardStyle, shiftWords, statusTone } from './swap-words';
 import { SwapForm } from './swap-form';
 
 /** Staff: swap or give away a published shift, answer colleagues' swaps, take open shifts. */

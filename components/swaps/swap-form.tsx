@@ -9,7 +9,7 @@ import { ChoiceChips } from '@/components/staff/choice-chips';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
-import { CheckWords, shiftWords } from './parts';
+import { CheckWords, shiftWords } from './swap-words';
 
 /**
  * Pick one of my shifts, a colleague and (for a swap) one of theirs on the same roster. The

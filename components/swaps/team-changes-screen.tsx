@@ -10,12 +10,12 @@ import { useRosterOffers } from '@/hooks/api/get-roster-offers';
 import { useCreateOffer } from '@/hooks/api/create-offer';
 import { useDecideOffer } from '@/hooks/api/decide-offer';
 import { Section } from '@/components/auth/section';
-import { Tag } from '@/components/people/parts';
+import { Tag } from '@/components/people/inline-controls';
 import { ChoiceChips } from '@/components/staff/choice-chips';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
-import { CheckWords, SWAP_STATUS_WORDS, cardStyle, shiftWords, statusTone } from './parts';
+import { CheckWords, SWAP_STATUS_WORDS, cardStyle, shiftWords, statusTone } from './swap-words';
 
 const mailWords = (m: ChangeMail | null | undefined) =>
   m ? `Approved. The published roster is updated; ${m.sent} e-mail${m.sent === 1 ? '' : 's'} sent${m.noAddress.length ? `; no address for ${m.noAddress.join(', ')}` : ''}${m.failed ? `; ${m.failed} failed` : ''}.` : 'Done.';

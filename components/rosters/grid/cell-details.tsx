@@ -9,7 +9,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { Body } from '@/components/ui/typography';
 import { SeatPanel } from '../seat-panel';
-import { Pill } from '../parts';
+import { Pill } from '../panel';
 import { longDayWords, points, timeOf } from '../format';
 import { absenceWords } from './grid-table';
 import type { CellSeat, GridCell, GridModel, GridRow } from '@/shared/roster/grid-model';

@@ -5,7 +5,7 @@ import { WORKING_TIME_CAUTION } from '@/shared/caution';
 import type { RosterDto, RunDetail } from '@/hooks/api/roster-types';
 import { Button } from '@/components/ui/button';
 import { DownloadLink } from '../download-link';
-import { Choices } from '../parts';
+import { Choices } from '../panel';
 import { periodWords, runName } from '../format';
 import type { GridModel } from '@/shared/roster/grid-model';
 import { GridTable, PRINT_SIZES } from './grid-table';

@@ -1,3 +1,4 @@
+/** Words and card styles the swap screens share: a shift in one line, a change's status and tone, a check's findings. */
 import { StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
 import type { ChangeCheck, ShiftRef, SwapDto } from '@/shared/api/swaps';
