@@ -16,6 +16,7 @@ import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
 import { Choices, Loadable, Panel, Pill } from './panel';
 import { gapWords, points, runName } from './format';
+import { keys } from '@/hooks/api/query-keys';
 
 const LIMITS = [
   { value: '5', label: '5 s' },
@@ -107,7 +108,7 @@ function RunProgress({ runId, onFinished, onShowResult }: { runId: number; onFin
   useEffect(() => {
     if (!status || status === 'queued' || status === 'running' || reported.current) return;
     reported.current = true;
-    void queryClient.invalidateQueries({ queryKey: ['rosters'] });
+    void queryClient.invalidateQueries({ queryKey: keys.rosters._def });
     if (status === 'done' || status === 'cancelled') onFinished(runId);
   }, [status, runId, onFinished, queryClient]);
   return (

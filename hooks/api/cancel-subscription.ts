@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { billingQueryOptions } from './get-billing';
+import { keys } from './query-keys';
 
 /** atPeriodEnd true: the plan ends with the paid period; false: keep it after all. */
 export const cancelSubscription = (input: { atPeriodEnd: boolean }) =>
@@ -10,6 +10,6 @@ export function useCancelSubscription() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: cancelSubscription,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: billingQueryOptions().queryKey }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: keys.billing._def }),
   });
 }

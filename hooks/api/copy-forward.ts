@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { CopyForwardInput, CopyForwardResult } from '@/shared/api/copy-forward';
 import { apiFetch } from './api-client';
-import { rostersQueryOptions } from './get-rosters';
+import { keys } from './query-keys';
 
 export type { CopyForwardResult };
 
@@ -10,5 +10,5 @@ export const copyForward = ({ rosterId, ...body }: CopyForwardInput & { rosterId
 
 export function useCopyForward() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: copyForward, onSuccess: () => queryClient.invalidateQueries({ queryKey: rostersQueryOptions().queryKey }) });
+  return useMutation({ mutationFn: copyForward, onSuccess: () => queryClient.invalidateQueries({ queryKey: keys.rosters.list.queryKey }) });
 }

@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { createPersonBody, PersonDto } from '@/shared/api/people';
 import { apiFetch } from './api-client';
-import { skillsQueryOptions } from './get-skills';
+import { keys } from './query-keys';
 
 export const createPerson = (input: z.input<typeof createPersonBody>) => apiFetch<PersonDto>('/people', { method: 'POST', body: input });
 
@@ -11,8 +11,8 @@ export function useCreatePerson() {
   return useMutation({
     mutationFn: createPerson,
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: ['people'] });
-      void queryClient.invalidateQueries({ queryKey: skillsQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.people._def });
+      void queryClient.invalidateQueries({ queryKey: keys.skills._def });
     },
   });
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { skillsQueryOptions } from './get-skills';
+import { keys } from './query-keys';
 
 export const deletePerson = (id: number) => apiFetch<void>(`/people/${id}`, { method: 'DELETE' });
 
@@ -9,9 +9,9 @@ export function useDeletePerson() {
   return useMutation({
     mutationFn: deletePerson,
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: ['people'] });
-      void queryClient.invalidateQueries({ queryKey: ['pairings'] });
-      void queryClient.invalidateQueries({ queryKey: skillsQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.people._def });
+      void queryClient.invalidateQueries({ queryKey: keys.pairings._def });
+      void queryClient.invalidateQueries({ queryKey: keys.skills._def });
     },
   });
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { skillsQueryOptions } from './get-skills';
+import { keys } from './query-keys';
 
 export const deleteSkill = (id: number) => apiFetch<void>(`/skills/${id}`, { method: 'DELETE' });
 
@@ -9,9 +9,9 @@ export function useDeleteSkill() {
   return useMutation({
     mutationFn: deleteSkill,
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: skillsQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.skills._def });
       // The skill is taken off everyone who held it.
-      void queryClient.invalidateQueries({ queryKey: ['people'] });
+      void queryClient.invalidateQueries({ queryKey: keys.people._def });
     },
   });
 }

@@ -1,10 +1,10 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { termsQueryOptions } from './get-terms';
+import { keys } from './query-keys';
 
 export const deleteTerm = ({ personId, termId }: { personId: number; termId: number }) => apiFetch<void>(`/people/${personId}/terms/${termId}`, { method: 'DELETE' });
 
 export function useDeleteTerm() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: deleteTerm, onSuccess: (_d, v) => queryClient.invalidateQueries({ queryKey: termsQueryOptions(v.personId).queryKey }) });
+  return useMutation({ mutationFn: deleteTerm, onSuccess: (_d, v) => queryClient.invalidateQueries({ queryKey: keys.people.detail(v.personId)._ctx.terms.queryKey }) });
 }

@@ -2,6 +2,7 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import type { z } from 'zod';
 import type { AbsenceDto, absencesListQuery } from '@/shared/api/absences';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export type { AbsenceDto };
 export type AbsencesFilter = z.input<typeof absencesListQuery>;
@@ -15,6 +16,6 @@ export function getAbsences(filter: AbsencesFilter = {}) {
 
 /** Every absence list shares the ['absences', 'list'] prefix, so one invalidation refreshes them all. */
 export const absencesQueryOptions = (filter: AbsencesFilter = {}) =>
-  queryOptions({ queryKey: ['absences', 'list', filter], queryFn: () => getAbsences(filter), placeholderData: keepPreviousData });
+  queryOptions({ queryKey: keys.absences.list(filter).queryKey, queryFn: () => getAbsences(filter), placeholderData: keepPreviousData });
 
 export const useAbsences = (filter: AbsencesFilter = {}) => useQuery(absencesQueryOptions(filter));

@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { Plan, PlanId, SubscriptionStatus } from '@/shared/billing/plans';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 /** As server/billing/service.ts billingOverview answers it (admins only). */
 export interface Billing {
@@ -32,7 +33,7 @@ export const getBilling = () => apiFetch<Billing>('/billing');
 /** While a checkout has just finished, poll until the payment service's confirmation has arrived. */
 export const billingQueryOptions = (waitingForCheckout = false) =>
   queryOptions({
-    queryKey: ['billing'],
+    queryKey: keys.billing.plan.queryKey,
     queryFn: getBilling,
     refetchInterval: (query) => (waitingForCheckout && query.state.data?.plan.id !== 'team' ? 1000 : false),
   });

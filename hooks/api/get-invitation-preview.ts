@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { Role } from './get-session';
+import { keys } from './query-keys';
 
 export interface InvitationPreview {
   email: string;
@@ -14,6 +15,6 @@ export interface InvitationPreview {
 export const getInvitationPreview = (token: string) => apiFetch<InvitationPreview>(`/invitations/preview?token=${encodeURIComponent(token)}`);
 
 export const invitationPreviewQueryOptions = (token: string) =>
-  queryOptions({ queryKey: ['invitations', 'preview', token], queryFn: () => getInvitationPreview(token), enabled: token.length > 0 });
+  queryOptions({ queryKey: keys.invitations.preview(token).queryKey, queryFn: () => getInvitationPreview(token), enabled: token.length > 0 });
 
 export const useInvitationPreview = (token: string) => useQuery(invitationPreviewQueryOptions(token));

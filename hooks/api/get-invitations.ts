@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { Role } from './get-session';
+import { keys } from './query-keys';
 
 export interface Invitation {
   id: number;
@@ -14,6 +15,6 @@ export interface Invitation {
 
 export const getInvitations = () => apiFetch<{ invitations: Invitation[] }>('/invitations').then((r) => r.invitations);
 
-export const invitationsQueryOptions = () => queryOptions({ queryKey: ['invitations'], queryFn: getInvitations });
+export const invitationsQueryOptions = () => queryOptions({ queryKey: keys.invitations.list.queryKey, queryFn: getInvitations });
 
 export const useInvitations = () => useQuery(invitationsQueryOptions());

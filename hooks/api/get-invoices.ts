@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export interface Invoice {
   id: string;
@@ -17,6 +18,6 @@ export interface Invoice {
 
 export const getInvoices = () => apiFetch<{ items: Invoice[] }>('/billing/invoices').then((r) => r.items);
 
-export const invoicesQueryOptions = () => queryOptions({ queryKey: ['billing', 'invoices'], queryFn: getInvoices });
+export const invoicesQueryOptions = () => queryOptions({ queryKey: keys.billing.invoices.queryKey, queryFn: getInvoices });
 
 export const useInvoices = (enabled = true) => useQuery({ ...invoicesQueryOptions(), enabled });

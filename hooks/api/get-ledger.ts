@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { LedgerAnswer } from '@/shared/api/ledger';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 /** Per-person counts across published rosters (coordinators). */
 export const getLedger = (range: { from?: string; to?: string } = {}) => {
@@ -8,6 +9,6 @@ export const getLedger = (range: { from?: string; to?: string } = {}) => {
   return apiFetch<LedgerAnswer>(`/ledger${q ? `?${q}` : ''}`);
 };
 
-export const ledgerQueryOptions = (range: { from?: string; to?: string } = {}) => queryOptions({ queryKey: ['ledger', range.from ?? '', range.to ?? ''], queryFn: () => getLedger(range) });
+export const ledgerQueryOptions = (range: { from?: string; to?: string } = {}) => queryOptions({ queryKey: keys.ledger.range(range.from ?? '', range.to ?? '').queryKey, queryFn: () => getLedger(range) });
 
 export const useLedger = (range: { from?: string; to?: string } = {}) => useQuery(ledgerQueryOptions(range));

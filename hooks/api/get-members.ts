@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { Role } from './get-session';
+import { keys } from './query-keys';
 
 export interface Member {
   userId: number;
@@ -14,6 +15,6 @@ export interface Member {
 
 export const getMembers = () => apiFetch<{ members: Member[] }>('/members').then((r) => r.members);
 
-export const membersQueryOptions = () => queryOptions({ queryKey: ['members'], queryFn: getMembers });
+export const membersQueryOptions = () => queryOptions({ queryKey: keys.members.list.queryKey, queryFn: getMembers });
 
 export const useMembers = () => useQuery(membersQueryOptions());

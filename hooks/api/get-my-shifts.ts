@@ -2,6 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import type { MyShiftsAnswer } from '@/shared/api/staff';
 import { SAVED_AT_HEADER } from '@/shared/offline';
 import { apiRequest } from './api-client';
+import { keys } from './query-keys';
 
 /** The answer, and when the service worker saved it if that is what came back (offline); null when fresh. */
 export type MyShiftsView = MyShiftsAnswer & { savedAt: string | null };
@@ -12,6 +13,6 @@ export async function getMyShifts(week?: string): Promise<MyShiftsView> {
   return { ...data, savedAt: headers.get(SAVED_AT_HEADER) };
 }
 
-export const myShiftsQueryOptions = (week?: string) => queryOptions({ queryKey: ['me', 'shifts', week ?? 'this-week'], queryFn: () => getMyShifts(week) });
+export const myShiftsQueryOptions = (week?: string) => queryOptions({ queryKey: keys.me.shifts(week ?? 'this-week').queryKey, queryFn: () => getMyShifts(week) });
 
 export const useMyShifts = (week?: string) => useQuery(myShiftsQueryOptions(week));

@@ -1,6 +1,7 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import type { PairingDto, PairingStatus } from '@/shared/api/pairings';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export type { PairingDto, PairingStatus };
 
@@ -13,6 +14,6 @@ export function getPairings(filter: { status?: PairingStatus; q?: string } = {})
 }
 
 export const pairingsQueryOptions = (filter: { status?: PairingStatus; q?: string } = {}) =>
-  queryOptions({ queryKey: ['pairings', filter], queryFn: () => getPairings(filter), placeholderData: keepPreviousData });
+  queryOptions({ queryKey: keys.pairings.list(filter).queryKey, queryFn: () => getPairings(filter), placeholderData: keepPreviousData });
 
 export const usePairings = (filter: { status?: PairingStatus; q?: string } = {}) => useQuery(pairingsQueryOptions(filter));

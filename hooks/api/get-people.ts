@@ -2,6 +2,7 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import type { Page } from '@/shared/api/paging';
 import type { PeopleListQuery, PersonDto } from '@/shared/api/people';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export type { PersonDto };
 
@@ -14,6 +15,6 @@ export function getPeople(query: PeopleListQuery = {}) {
 
 /** Every people list shares the ['people'] prefix, so one invalidation refreshes them all. */
 export const peopleQueryOptions = (query: PeopleListQuery = {}) =>
-  queryOptions({ queryKey: ['people', 'list', query], queryFn: () => getPeople(query), placeholderData: keepPreviousData });
+  queryOptions({ queryKey: keys.people.list(query).queryKey, queryFn: () => getPeople(query), placeholderData: keepPreviousData });
 
 export const usePeople = (query: PeopleListQuery = {}) => useQuery(peopleQueryOptions(query));

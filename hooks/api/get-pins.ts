@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export interface PinDto {
   seatId: number;
@@ -8,6 +9,6 @@ export interface PinDto {
 
 export const getPins = (rosterId: number) => apiFetch<{ items: PinDto[] }>(`/rosters/${rosterId}/pins`).then((r) => r.items);
 
-export const pinsQueryOptions = (rosterId: number) => queryOptions({ queryKey: ['rosters', rosterId, 'pins'], queryFn: () => getPins(rosterId) });
+export const pinsQueryOptions = (rosterId: number) => queryOptions({ queryKey: keys.rosters.detail(rosterId)._ctx.pins.queryKey, queryFn: () => getPins(rosterId) });
 
 export const usePins = (rosterId: number) => useQuery(pinsQueryOptions(rosterId));

@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 export interface Providers {
   password: boolean;
@@ -8,7 +9,7 @@ export interface Providers {
 
 export const getProviders = () => apiFetch<Providers>('/auth/providers');
 
-export const providersQueryOptions = () => queryOptions({ queryKey: ['auth', 'providers'], queryFn: getProviders, staleTime: Infinity });
+export const providersQueryOptions = () => queryOptions({ queryKey: keys.auth.providers.queryKey, queryFn: getProviders, staleTime: Infinity });
 
 export const useProviders = () => useQuery(providersQueryOptions());
 

@@ -3,6 +3,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { RunDetail } from './roster-types';
 import { useRunEvents } from './run-events';
+import { keys } from './query-keys';
 
 export const getRun = (id: number) => apiFetch<RunDetail>(`/runs/${id}`);
 
@@ -11,7 +12,7 @@ const unfinished = (status?: string) => status === 'queued' || status === 'runni
 /** Polls twice a second while the run is queued or running (progress, score, bound, gap), then stops. */
 export const runQueryOptions = (id: number) =>
   queryOptions({
-    queryKey: ['runs', id],
+    queryKey: keys.runs.detail(id).queryKey,
     queryFn: () => getRun(id),
     refetchInterval: (query) => (unfinished(query.state.data?.status) ? 500 : false),
   });

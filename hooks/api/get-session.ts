@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { keepOfflineCopiesFor } from '@/hooks/offline/offline-copies';
 import { apiFetch, ApiError } from './api-client';
+import { keys } from './query-keys';
 
 export type Role = 'admin' | 'coordinator' | 'staff';
 
@@ -33,6 +34,6 @@ export async function getSession(): Promise<Session | null> {
   return session;
 }
 
-export const sessionQueryOptions = () => queryOptions({ queryKey: ['session'], queryFn: getSession, staleTime: 60_000 });
+export const sessionQueryOptions = () => queryOptions({ queryKey: keys.session.current.queryKey, queryFn: getSession, staleTime: 60_000 });
 
 export const useSession = () => useQuery(sessionQueryOptions());

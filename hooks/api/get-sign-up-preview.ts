@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
+import { keys } from './query-keys';
 
 /** What the e-mailed sign-up link will make; `passwordNeeded` when opened in another browser than the one that signed up. */
 export interface SignUpPreview {
@@ -12,6 +13,6 @@ export interface SignUpPreview {
 export const getSignUpPreview = (token: string) => apiFetch<SignUpPreview>(`/auth/sign-up/preview?token=${encodeURIComponent(token)}`);
 
 export const signUpPreviewQueryOptions = (token: string) =>
-  queryOptions({ queryKey: ['auth', 'sign-up-preview', token], queryFn: () => getSignUpPreview(token), enabled: token.length > 0, staleTime: Infinity });
+  queryOptions({ queryKey: keys.auth.signUpPreview(token).queryKey, queryFn: () => getSignUpPreview(token), enabled: token.length > 0, staleTime: Infinity });
 
 export const useSignUpPreview = (token: string) => useQuery(signUpPreviewQueryOptions(token));

@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { ImportReport } from '@/shared/api/people';
 import { ApiError, type ApiFieldError } from './api-client';
-import { skillsQueryOptions } from './get-skills';
+import { keys } from './query-keys';
 
 export type { ImportReport };
 
@@ -40,8 +40,8 @@ export function useCommitPeopleImport() {
   return useMutation({
     mutationFn: ({ file, signal }: { file: Blob & { name?: string }; signal?: AbortSignal }) => uploadPeopleCsv('commit', file, signal),
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: ['people'] });
-      void queryClient.invalidateQueries({ queryKey: skillsQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.people._def });
+      void queryClient.invalidateQueries({ queryKey: keys.skills._def });
     },
   });
 }

@@ -1,10 +1,11 @@
 import type { QueryClient } from '@tanstack/react-query';
+import { keys } from './query-keys';
 
 /** Everything a swap or offer changes: both sides' lists, the published roster and its shifts. */
 export const invalidateSwaps = (queryClient: QueryClient) =>
   Promise.all([
-    queryClient.invalidateQueries({ queryKey: ['me'] }),
-    queryClient.invalidateQueries({ queryKey: ['swaps'] }),
-    queryClient.invalidateQueries({ queryKey: ['offers'] }),
-    queryClient.invalidateQueries({ queryKey: ['rosters'] }),
+    queryClient.invalidateQueries({ queryKey: keys.me._def }),
+    queryClient.invalidateQueries({ queryKey: keys.swaps._def }),
+    queryClient.invalidateQueries({ queryKey: keys.offers._def }),
+    queryClient.invalidateQueries({ queryKey: keys.rosters._def }),
   ]);

@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
 import type { PinDto } from './get-pins';
+import { keys } from './query-keys';
 
 /** Fixes a seat to a person (or open); later runs keep it. Bumps the roster version. */
 export const putPin = ({ rosterId, seatId, personId }: { rosterId: number } & PinDto) =>
@@ -10,6 +11,6 @@ export function usePutPin() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: putPin,
-    onSuccess: (_d, v) => Promise.all([queryClient.invalidateQueries({ queryKey: ['rosters', v.rosterId] }), queryClient.invalidateQueries({ queryKey: ['runs'] })]),
+    onSuccess: (_d, v) => Promise.all([queryClient.invalidateQueries({ queryKey: keys.rosters.detail(v.rosterId).queryKey }), queryClient.invalidateQueries({ queryKey: keys.runs._def })]),
   });
 }

@@ -1,7 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { membersQueryOptions } from './get-members';
-import { sessionQueryOptions } from './get-session';
+import { keys } from './query-keys';
 
 export const removeMember = (userId: number) => apiFetch<void>(`/members/${userId}`, { method: 'DELETE' });
 
@@ -10,9 +9,9 @@ export function useRemoveMember() {
   return useMutation({
     mutationFn: removeMember,
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: membersQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.members._def });
       // An admin who left is no longer in this workspace: the session says where they are now.
-      void queryClient.invalidateQueries({ queryKey: sessionQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.session._def });
     },
   });
 }

@@ -1,6 +1,7 @@
 import { useEffect } from 'react';
 import { useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { RunDetail } from './roster-types';
+import { keys } from './query-keys';
 
 type RunPatch = Partial<RunDetail> & { id: number; status?: RunDetail['status'] };
 
@@ -23,7 +24,7 @@ const FINAL = new Set(['done', 'failed', 'cancelled']);
 export const canStreamRuns = () => typeof EventSource !== 'undefined';
 
 function open(id: number, queryClient: QueryClient): Stream {
-  const key = ['runs', id];
+  const key = keys.runs.detail(id).queryKey;
   const source = new EventSource(`/api/runs/${id}/events`, { withCredentials: true });
   const stream: Stream = { source, users: 0, live: false, listeners: new Set() };
   const setLive = (live: boolean) => {

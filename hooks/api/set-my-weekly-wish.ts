@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { MyWish, WeeklyWishInput } from '@/shared/api/staff';
 import { apiFetch } from './api-client';
-import { myWishesQueryOptions } from './get-my-wishes';
+import { keys } from './query-keys';
 
 /** "I can't do Tuesdays": the same wish on that weekday all through the period. */
 export const setMyWeeklyWish = ({ rosterId, ...body }: WeeklyWishInput & { rosterId: number }) =>
@@ -11,6 +11,6 @@ export function useSetMyWeeklyWish() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: setMyWeeklyWish,
-    onSuccess: (_data, vars) => queryClient.invalidateQueries({ queryKey: myWishesQueryOptions(vars.rosterId).queryKey }),
+    onSuccess: (_data, vars) => queryClient.invalidateQueries({ queryKey: keys.me.wishes(vars.rosterId).queryKey }),
   });
 }

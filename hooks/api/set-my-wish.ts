@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { MyWish, MyWishInput } from '@/shared/api/staff';
 import { apiFetch } from './api-client';
-import { myWishesQueryOptions } from './get-my-wishes';
+import { keys } from './query-keys';
 
 /** Sets (or changes) the person's wish for one day or one shift. */
 export const setMyWish = ({ rosterId, ...body }: MyWishInput & { rosterId: number }) =>
@@ -11,6 +11,6 @@ export function useSetMyWish() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: setMyWish,
-    onSuccess: (_data, vars) => queryClient.invalidateQueries({ queryKey: myWishesQueryOptions(vars.rosterId).queryKey }),
+    onSuccess: (_data, vars) => queryClient.invalidateQueries({ queryKey: keys.me.wishes(vars.rosterId).queryKey }),
   });
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { billingQueryOptions } from './get-billing';
+import { keys } from './query-keys';
 
 /** Starts (or resumes) the team plan checkout; the caller sends the browser to the returned page. */
 export const startCheckout = () => apiFetch<{ url: string; reused: boolean }>('/billing/checkout', { method: 'POST' });
@@ -9,6 +9,6 @@ export function useStartCheckout() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: startCheckout,
-    onSettled: () => queryClient.invalidateQueries({ queryKey: billingQueryOptions().queryKey }),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: keys.billing._def }),
   });
 }

@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import type { RosterDto, updateRosterBody } from '@/shared/api/rosters';
 import { apiFetch } from './api-client';
 import { rosterQueryOptions } from './get-roster';
+import { keys } from './query-keys';
 
 /** Sends the version the form loaded; a 409 means the roster changed since (e.g. a shift edit). */
 export const updateRoster = ({ id, ...body }: z.output<typeof updateRosterBody> & { id: number }) => apiFetch<RosterDto>(`/rosters/${id}`, { method: 'PATCH', body });
@@ -13,7 +14,7 @@ export function useUpdateRoster() {
     mutationFn: updateRoster,
     onSuccess: (roster) => {
       queryClient.setQueryData(rosterQueryOptions(roster.id).queryKey, roster);
-      void queryClient.invalidateQueries({ queryKey: ['rosters'] });
+      void queryClient.invalidateQueries({ queryKey: keys.rosters._def });
     },
   });
 }

@@ -1,8 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { SeatsInput } from '@/shared/billing/api';
 import { apiFetch } from './api-client';
-import { billingQueryOptions } from './get-billing';
-import { invoicesQueryOptions } from './get-invoices';
+import { keys } from './query-keys';
 
 export const updateSeats = (input: SeatsInput) => apiFetch<{ quantity: number; changed: boolean }>('/billing/seats', { method: 'POST', body: input });
 
@@ -11,8 +10,8 @@ export function useUpdateSeats() {
   return useMutation({
     mutationFn: updateSeats,
     onSuccess: () => {
-      void queryClient.invalidateQueries({ queryKey: billingQueryOptions().queryKey });
-      void queryClient.invalidateQueries({ queryKey: invoicesQueryOptions().queryKey });
+      void queryClient.invalidateQueries({ queryKey: keys.billing._def });
+      void queryClient.invalidateQueries({ queryKey: keys.billing.invoices.queryKey });
     },
   });
 }

@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiFetch } from './api-client';
-import { myPairingsQueryOptions } from './get-my-pairings';
+import { keys } from './query-keys';
 
 export const withdrawMyPairing = (id: number) => apiFetch<void>(`/me/pairings/${id}`, { method: 'DELETE' });
 
@@ -8,6 +8,6 @@ export function useWithdrawMyPairing() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: withdrawMyPairing,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: myPairingsQueryOptions().queryKey }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: keys.me.pairings.queryKey }),
   });
 }
