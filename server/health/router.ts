@@ -1,6 +1,7 @@
 import type { Router } from 'express';
 import { ApiRoutes } from '../http/routes';
 import { DATABASE_RETRY_AFTER_S } from '../http/errors';
+import { databaseAnswers } from './service';
 import type { Sequelize } from 'sequelize';
 
 /** `/api/health`: the app version and whether the database answers within a second. */
@@ -12,16 +13,4 @@ export function healthRouter(deps: { sequelize: Sequelize; version: string }): R
     res.status(database ? 200 : 503).json({ status: database ? 'ok' : 'degraded', version: deps.version, database: database ? 'up' : 'down' });
   });
   return routes.router;
-}
-
-async function databaseAnswers(sequelize: Sequelize): Promise<boolean> {
-  try {
-    await Promise.race([
-      sequelize.query('SELECT 1'),
-      new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 1_000)),
-    ]);
-    return true;
-  } catch {
-    return false;
-  }
 }
