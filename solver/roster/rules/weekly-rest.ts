@@ -30,6 +30,13 @@ export const weeklyRest = defineRule({
   compile(ctx, r) {
     const H = r.hours * 3_600_000;
     const { facts, roster } = ctx;
+    // per person, the seats of each shift they can take (asked for every window and choice: on
+    // 200 people × 4 weeks the seats of every blocked shift were most of the compile)
+    const mySeats = roster.people.map((_, p) => {
+      const bySeat: number[][] = [];
+      for (const f of facts) bySeat[f.index] = ctx.seatsOfShift[f.index].filter((s) => ctx.valueAt(s, p) >= 0);
+      return bySeat;
+    });
     for (const w of rollingWindows(ctx.days, r.days)) {
       if (w.last - w.first + 1 < r.days) continue; // a period shorter than the window: the rest may fall outside it
       const ws = dayStartMs(roster, w.first);
@@ -37,7 +44,7 @@ export const weeklyRest = defineRule({
       if (we - ws < H) continue;
       const inWindow = facts.filter((f) => f.startMs < we && f.endMs > ws && ctx.seatsOfShift[f.index].length);
       roster.people.forEach((person, p) => {
-        const mine = inWindow.filter((f) => ctx.seatsOfShift[f.index].some((s) => ctx.valueAt(s, p) >= 0));
+        const mine = inWindow.filter((f) => mySeats[p]![f.index]!.length > 0);
         if (!mine.length) return;
         // candidate starts: the window's start, or the end of a shift (named by that shift: formatting
         // instants in the zone for thousands of labels was a fifth of the demo's compile time)
@@ -48,7 +55,7 @@ export const weeklyRest = defineRule({
         const subset = (a: number[], b: number[]) => a.every((x) => b.includes(x));
         const kept = cands.filter((j, jj) => !cands.some((k, kk) => kk !== jj && subset(k.block, j.block) && (k.block.length < j.block.length || kk < jj)));
         const choices: AuxChoice[] = kept.map((k) => ({
-          seats: k.block.flatMap((sh) => ctx.seatsOfShift[sh]),
+          seats: k.block.flatMap((sh) => mySeats[p]![sh]!),
           score: 0,
           label: k.label,
         }));

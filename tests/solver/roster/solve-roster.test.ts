@@ -5,6 +5,10 @@ import { rosterSchema } from '../../../shared/roster/schema';
 import { solveRoster, withPins } from '../../../solver/roster/solve-roster';
 import { scoreRoster } from '../../../solver/roster/score-roster';
 import { greedyRoster } from './helpers';
+import { compileRoster } from '../../../solver/roster/compile';
+import { greedyAssignment } from '../../../solver/roster/greedy';
+import { score as modelScore } from '../../../solver/model';
+import { highsOptimum } from '../../../solver/bench/highs-mip';
 
 describe('solveRoster', () => {
   it('returns the reasons instead of a roster when a pre-check proves it infeasible', async () => {
@@ -24,6 +28,26 @@ describe('solveRoster', () => {
     expect(out.score.total).toBeGreaterThanOrEqual(scoreRoster(r, start).total - 1e-9);
     expect(out.decoded.openSeats.length).toBe(0);
   });
+});
+
+describe('solveRoster on a model too large for the engine (greedy start, then LNS and the bound)', () => {
+  // engineMaxFactors: 0 sends a small roster down the path 60 × 13 weeks and 200 × 4 weeks take,
+  // so its figures can be checked against HiGHS's optimum of the same model (HiGHS MIP, npm highs)
+  it('keeps every hard rule, never loses the greedy start, and its bound is at least HiGHS\'s optimum', async () => {
+    const r = makeRoster({ people: 6, weeks: 1, seed: 4 });
+    const out = await solveRoster(r, { timeLimitMs: 2_000, seed: 1, engineMaxFactors: 0 });
+    if (out.status !== 'solved') throw new Error('expected a roster');
+    expect(out.result.method.startsWith('greedy')).toBe(true);
+    expect(out.score.feasible).toBe(true);
+    expect(out.score.total).toBeCloseTo(out.result.score, 9);
+    const c = compileRoster(r);
+    expect(out.result.score).toBeGreaterThanOrEqual(modelScore(c.model, greedyAssignment(c)) - 1e-9);
+    const h = await highsOptimum(out.compiled.model, { timeLimitS: 60 });
+    expect(h.status).toBe('optimal');
+    expect(out.result.score).toBeLessThanOrEqual(h.score + 1e-6);
+    expect(out.result.bound).toBeGreaterThanOrEqual(h.score - 1e-6);
+    if (out.result.optimal) expect(out.result.score).toBeCloseTo(h.score, 6);
+  }, 120_000);
 });
 
 describe('withPins: the start of a re-solve', () => {
