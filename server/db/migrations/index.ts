@@ -13,6 +13,7 @@ import * as m0012 from './0012-sign-in-counters';
 import * as m0013 from './0013-sign-up-requests';
 import * as m0014 from './0014-exports';
 import * as m0015 from './0015-run-roster';
+import * as m0016 from './0016-run-dual';
 
 export interface Migration {
   name: string;
@@ -37,4 +38,5 @@ export const migrations: Migration[] = [
   { name: '0013-sign-up-requests', ...m0013 },
   { name: '0014-exports', ...m0014 },
   { name: '0015-run-roster', ...m0015 },
+  { name: '0016-run-dual', ...m0016 },
 ];
