@@ -197,7 +197,7 @@ export async function learnWeights(rules: RuleSetLike, preferences: readonly Pre
         break;
       }
       oracleCalls++;
-      const solved = await solveRoster(oracleRoster(ex, rules, keys, w, o.marginPerSeat), { timeLimitMs: o.oracleTimeLimitMs, seed: o.seed + oracleCalls, start: ex.pref.kept, lagrangianShare: 0, lnsShare: 0 }, signal);
+      const solved = await solveRoster(oracleRoster(ex, rules, keys, w, o.marginPerSeat), { timeLimitMs: o.oracleTimeLimitMs, seed: o.seed + oracleCalls, start: ex.pref.kept, lagrangianShare: 0, lnsShare: 0, clock: o.clock }, signal);
       if (solved.status !== 'solved' || !solved.score.feasible) continue;
       const y = solved.decoded.assignment;
       const key = assignmentKey(y, ex.changed);

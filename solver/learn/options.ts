@@ -26,7 +26,10 @@ export interface LearnOptions {
   /** Weights below this are reported as 0 (a rule the edits say not to weigh at all). */
   zeroBelow: number;
   seed: number;
-  /** Millisecond clock behind every time limit (tests inject one). */
+  /**
+   * Millisecond clock behind every time limit, the oracle's included (tests inject one that moves a
+   * fixed step per reading, so that a seeded run does the same work on a busy machine as on an idle one).
+   */
   clock?: () => number;
 }
 

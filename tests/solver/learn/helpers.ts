@@ -4,9 +4,61 @@
  * of ties in ranking problems"), O(n²), which is plenty for a dozen weights.
  */
 import type { Roster, RosterAssignment, RuleSet } from '../../../shared/roster/schema';
-import { seededRandom } from '../../../shared/demo/make-roster';
+import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { makeRosterScorer } from '../../../solver/roster/score-roster';
 import { solveRoster } from '../../../solver/roster/solve-roster';
+
+const ALL = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
+
+/**
+ * A short-staffed team (five seats a day for `people`), so that every roster trades rules against
+ * each other; every rule soft (whatever rules the catalogue has), so each has a weight to learn.
+ */
+export function fixture(seed: number, people: number): Roster {
+  const base = makeRoster({
+    people,
+    weeks: 2,
+    seed,
+    wishesPerPerson: 1,
+    patterns: [
+      { label: 'early', weekdays: [...ALL], start: '07:00', end: '15:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
+      { label: 'late', weekdays: [...ALL], start: '15:00', end: '23:00', seats: [{ skill: null, count: 2 }] },
+      { label: 'night', weekdays: [...ALL], start: '23:00', end: '07:00', seats: [{ skill: 'night-lead', count: 1 }] },
+    ],
+  });
+  const rules: Record<string, unknown> = { ...base.rules };
+  for (const [k, v] of Object.entries(rules)) if (typeof (v as { hard?: unknown }).hard === 'boolean') rules[k] = { ...(v as object), hard: false };
+  // tighter limits where the rule set has them, so that short staffing reaches those rules too
+  const tighten: Record<string, object> = { maxNightsInRow: { nights: 2 }, maxConsecutiveDays: { days: 4 }, nightShiftLength: { hours: 7 }, averageWeeklyHours: { hours: 40 }, nightAverage: { hours: 7 } };
+  for (const [k, v] of Object.entries(tighten)) if (rules[k]) rules[k] = { ...(rules[k] as object), ...v };
+  return { ...base, rules: rules as Roster['rules'] };
+}
+
+const SPREAD = [12, 3, 20, 0.5, 6, 15, 2, 9, 4, 30, 1.5, 7, 10, 5];
+
+/**
+ * Hidden weights for whatever rules there are: coverage first, the rest spread over 0.5–30 in an
+ * order unlike the defaults. `shuffle` > 0 deals the same values out in a seeded random order
+ * (the check across seeds: a learner tuned to one order would show it there).
+ */
+export function hiddenWeights(keys: readonly string[], shuffle = 0): Record<string, number> {
+  let spread = [...SPREAD];
+  if (shuffle > 0) {
+    const rnd = seededRandom(1000 + shuffle);
+    spread = spread.map((x) => [rnd(), x] as const).sort((a, b) => a[0] - b[0]).map((x) => x[1]);
+  }
+  return Object.fromEntries(keys.map((k, i) => [k, k === 'coverage' ? 40 : spread[i % spread.length]]));
+}
+
+/** Up to `perRoster` edits on each fixture roster (seed, people) by the coordinator who goes by `hidden`. */
+export async function editsFrom(seeds: readonly (readonly [number, number])[], perRoster: number, hidden: Record<string, number>): Promise<SyntheticEdit[]> {
+  const out: SyntheticEdit[] = [];
+  for (const [seed, people] of seeds) {
+    const r = fixture(seed, people);
+    out.push(...(await syntheticEdits(r, rulesWith(r.rules, hidden as never), perRoster, seed)));
+  }
+  return out;
+}
 
 export function kendallTauB(x: readonly number[], y: readonly number[]): number {
   let concordant = 0;
@@ -35,6 +87,16 @@ export function rulesWith(rules: RuleSet, weights: Partial<Record<keyof RuleSet,
   return out as RuleSet;
 }
 
+/**
+ * A millisecond clock that moves `stepMs` per reading. Time limits then count readings, so a seeded
+ * solve does the same work on a loaded CI machine as on an idle one (with the wall clock the
+ * coordinator's first roster, and so every edit after it, depended on the machine's load).
+ */
+export function countingClock(stepMs = 1): () => number {
+  let t = 0;
+  return () => (t += stepMs);
+}
+
 export type SyntheticEdit = { roster: Roster; kept: RosterAssignment; proposed: RosterAssignment; gain: number };
 
 const DAY_MS = 86_400_000;
@@ -48,8 +110,8 @@ const DAY_MS = 86_400_000;
  * roster is the previous kept one, as with manual saves based on the last run. Every edit strictly
  * raises the hidden-weight score.
  */
-export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000): Promise<SyntheticEdit[]> {
-  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0, lnsShare: 0 });
+export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000, clock: () => number = countingClock()): Promise<SyntheticEdit[]> {
+  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0, lnsShare: 0, clock });
   if (solved.status !== 'solved') throw new Error('fixture roster is infeasible');
   const score = makeRosterScorer({ ...roster, rules: hidden });
   const rnd = seededRandom(seed * 7919);
