@@ -1,0 +1,89 @@
+/**
+ * How far 30 edits can pin the weights down, whatever the learner (a diagnosis, not a test; uses
+ * the hidden weights, which the learner never sees). The learner's assumption is that the kept
+ * roster beats every other filling of the seats the coordinator changed; those comparisons that
+ * the hidden weights themselves keep (the others are dropped) cut out a set of weights that agree
+ * with every edit. Hit-and-run sampling (Smith 1984, "Efficient Monte Carlo procedures for
+ * generating points uniformly distributed over bounded regions") draws from that set inside the
+ * box 0..60, and τ-b is taken for each draw and for the draws' mean. A τ well below 0.8 here means
+ * the edits do not carry the ranking. `npx tsx tests/solver/learn/information.ts [seeds]`.
+ */
+import { seededRandom } from '../../../shared/demo/make-roster';
+import type { RosterAssignment } from '../../../shared/roster/schema';
+import { learnableRules, makeFeaturizer, scorerTermKeys } from '../../../solver/learn';
+import { editsFrom, fixture, hiddenWeights, kendallTauB } from './helpers';
+
+const BOX = 60;
+/** Fillings of the changed seats enumerated per edit, at most (larger edits keep only kept vs proposed). */
+const MAX_FILLINGS = 5000;
+
+async function main() {
+  for (const seed of (process.argv[2] ?? '0,1,2,3,4').split(',').map(Number)) {
+    const off = 100 * seed;
+    const probe = fixture(11 + off, 6);
+    const rules = probe.rules;
+    const keys = learnableRules(rules, scorerTermKeys(probe));
+    const hidden = hiddenWeights(keys, seed);
+    const hw = keys.map((k) => hidden[k]);
+    const train = (await editsFrom([[11 + off, 6], [12 + off, 7], [13 + off, 6], [14 + off, 7]], 10, hidden)).slice(0, 30);
+    const cons: { d: number[]; e: number }[] = [];
+    let broken = 0;
+    const moved = new Array<number>(keys.length).fill(0);
+    for (const t of train) {
+      const r = t.roster;
+      const f = makeFeaturizer(r, rules, keys);
+      const kept = f(t.kept);
+      const proposed = f(t.proposed);
+      kept.rules.forEach((x, i) => (moved[i] += x !== proposed.rules[i] ? 1 : 0));
+      const changed = r.seats.filter((s) => (t.kept[s.id] ?? null) !== (t.proposed[s.id] ?? null));
+      let fillings: RosterAssignment[] = [{ ...t.kept }];
+      for (const seat of changed) {
+        const who = [null, ...r.people.filter((p) => seat.skill === null || p.skills.includes(seat.skill)).map((p) => p.id)];
+        fillings = fillings.flatMap((y) => who.map((p) => ({ ...y, [seat.id]: p })));
+      }
+      if (fillings.length > MAX_FILLINGS) fillings = [t.proposed];
+      for (const y of fillings) {
+        const fy = f(y);
+        if (!fy.feasible) continue;
+        const d = kept.rules.map((x, i) => x - fy.rules[i]);
+        const e = kept.offset - fy.offset;
+        if (d.every((x) => x === 0)) continue;
+        if (hw.reduce((m, w, i) => m + w * d[i], e) < 0) broken++;
+        else cons.push({ d, e });
+      }
+    }
+    const ranked = keys.map((_, i) => i).filter((i) => moved[i] >= 2);
+    const rnd = seededRandom(5 + seed);
+    const gauss = () => Math.sqrt(-2 * Math.log(rnd() + 1e-12)) * Math.cos(2 * Math.PI * rnd());
+    let x = [...hw];
+    const mean = new Array<number>(keys.length).fill(0);
+    let tauSum = 0;
+    let draws = 0;
+    for (let it = 0; it < 20_000; it++) {
+      const u = keys.map(gauss);
+      let lo = -Infinity;
+      let hi = Infinity;
+      u.forEach((ui, i) => {
+        if (ui > 0) [lo, hi] = [Math.max(lo, -x[i] / ui), Math.min(hi, (BOX - x[i]) / ui)];
+        else if (ui < 0) [lo, hi] = [Math.max(lo, (BOX - x[i]) / ui), Math.min(hi, -x[i] / ui)];
+      });
+      for (const c of cons) {
+        const a = c.d.reduce((m, v, i) => m + v * u[i], 0);
+        const b = c.d.reduce((m, v, i) => m + v * x[i], c.e);
+        if (a > 0) lo = Math.max(lo, -b / a);
+        else if (a < 0) hi = Math.min(hi, -b / a);
+      }
+      const step = lo + (hi - lo) * rnd();
+      x = x.map((v, i) => v + step * u[i]);
+      if (it >= 2000 && it % 10 === 0) {
+        draws++;
+        x.forEach((v, i) => (mean[i] += v));
+        tauSum += kendallTauB(ranked.map((i) => x[i]), ranked.map((i) => hw[i]));
+      }
+    }
+    const m = mean.map((v) => v / draws);
+    console.log(JSON.stringify({ seed, comparisons: cons.length, brokenByHidden: broken, tauOfDraws: +(tauSum / draws).toFixed(2), tauOfMean: +kendallTauB(ranked.map((i) => m[i]), ranked.map((i) => hw[i])).toFixed(2) }));
+  }
+}
+
+void main();
