@@ -1,11 +1,10 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { Slot } from 'expo-router';
 import { ActivityIndicator, View } from 'react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { colors } from '@/constants/theme';
 import { ApiError } from '@/hooks/api/api-client';
-import { registerServiceWorker } from '@/hooks/offline/service-worker';
 import { useAppFonts } from '@/hooks/use-app-fonts';
 
 function makeQueryClient() {
@@ -25,7 +24,6 @@ function makeQueryClient() {
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
   const fontsReady = useAppFonts();
-  useEffect(registerServiceWorker, []);
   if (!fontsReady) {
     return (
       <View style={{ flex: 1, alignItems: 'center', justifyContent: 'center', backgroundColor: colors.paper }}>

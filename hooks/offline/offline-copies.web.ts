@@ -1,4 +1,5 @@
 import { OFFLINE_CACHE, OFFLINE_OWNER_KEY as OWNER_KEY } from '@/shared/offline';
+import { registerServiceWorker } from './service-worker';
 
 /**
  * The saved copies (session, my shifts) belong to whoever was signed in, in which workspace, when
@@ -7,6 +8,8 @@ import { OFFLINE_CACHE, OFFLINE_OWNER_KEY as OWNER_KEY } from '@/shared/offline'
  */
 export async function keepOfflineCopiesFor(session: { user: { id: number }; workspace: { id: number } | null } | null): Promise<void> {
   const owner = session ? `${session.user.id}:${session.workspace?.id ?? '-'}` : null;
+  // Every session the client learns of passes here: the worker is installed once someone is signed in.
+  if (session) registerServiceWorker();
   const stored = readOwner();
   if (owner !== null && owner === stored) return;
   if (typeof caches !== 'undefined') await caches.delete(OFFLINE_CACHE);

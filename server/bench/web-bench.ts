@@ -189,11 +189,14 @@ async function signInMeasured(page: Page, traffic: Traffic, email: string): Prom
   return { fcpMs: null, shownMs, usableMs: null, bytes: traffic.bytes, jsBytes: traffic.jsBytes };
 }
 
-/** A settled page, so the service worker (registered after load) has installed before a repeat visit. */
+/**
+ * A settled page, so the service worker (registered after load once someone is signed in) has
+ * installed before a repeat visit. A signed-out landing page registers none.
+ */
 async function settle(page: Page): Promise<void> {
   await page.waitForLoadState('networkidle').catch(() => {});
   await page.evaluate(async () => {
-    if (!('serviceWorker' in navigator)) return;
+    if (!('serviceWorker' in navigator) || !(await navigator.serviceWorker.getRegistration())) return;
     const registration = await Promise.race([navigator.serviceWorker.ready, new Promise((r) => setTimeout(r, 15_000))]);
     void registration;
   });

@@ -54,11 +54,34 @@ describe('an app staff can install and read offline', () => {
     await browser.close();
   });
 
+  it('asks for my shifts beside the app’s code and the screen takes that answer (one request, not two)', { timeout: 120_000 }, async () => {
+    const { page, problems, close } = await openPage(browser, PHONE);
+    await signIn(page, 'staff@willowmere.example');
+    await page.goto('/my-shifts');
+    await page.getByTestId('next-shifts').waitFor();
+    await page.waitForLoadState('networkidle');
+    const asked: Array<{ path: string; type: string }> = [];
+    page.on('request', (r) => asked.push({ path: new URL(r.url()).pathname, type: r.resourceType() }));
+    await page.reload();
+    await page.getByTestId('next-shifts').waitFor();
+    await page.waitForLoadState('networkidle');
+    // The shell's first script preloads it (server/bootstrap/web-finish.ts); a preload the page's
+    // fetch could not use (other URL, credentials or mode) would show as a second request.
+    expect(asked.filter((a) => a.path === '/api/me/shifts').length).toBe(1);
+    expect(asked.filter((a) => a.path === '/api/auth/session').length).toBe(1);
+    expect(problems).toEqual([]);
+    await close();
+  });
+
   for (const [name, viewport] of [['phone', PHONE], ['wide', WIDE]] as const) {
-    it(`has a manifest Chromium reads without errors and finds installable (${name})`, { timeout: 120_000 }, async () => {
+    it(`has a manifest Chromium reads without errors and finds installable once someone signs in (${name})`, { timeout: 120_000 }, async () => {
       const { page, problems, close } = await openPage(browser, viewport);
       await page.goto('/');
       await page.getByTestId('sign-in-submit').waitFor();
+      await page.waitForLoadState('networkidle');
+      // A signed-out visitor's landing page installs no worker (hooks/offline/service-worker.web.ts): nothing to keep for nobody.
+      expect(await page.evaluate(async () => (await navigator.serviceWorker.getRegistrations()).length)).toBe(0);
+      await signIn(page, 'staff@willowmere.example');
       await serviceWorkerInControl(page);
       const cdp = await page.context().newCDPSession(page);
       const manifest = (await cdp.send('Page.getAppManifest')) as { url: string; errors: Array<{ message: string }>; data?: string };
@@ -72,7 +95,7 @@ describe('an app staff can install and read offline', () => {
       expect(installability.installabilityErrors.map((e) => e.errorId).filter((id) => id !== 'in-incognito')).toEqual([]);
       const res = await page.request.get('/manifest.webmanifest');
       expect(res.headers()['content-type']).toMatch(/^application\/manifest\+json/);
-      await screenshot(page, `offline-app-${name}-01-landing`);
+      await screenshot(page, `offline-app-${name}-01-signed-in`);
       expect(problems).toEqual([]);
       await close();
     });
