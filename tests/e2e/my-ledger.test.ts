@@ -147,7 +147,8 @@ describe('my ledger in the browser', () => {
       expect(await chart.getAttribute('aria-label')).toContain(`Nights ${num(api.team.mine.nights)} against ${num(api.team.average.nights)}`);
       // gifted-charts draws axes and rules in SVG (react-native-svg on the web) and the bars as views.
       expect(await chart.locator('svg').count()).toBeGreaterThan(0);
-      expect((await chart.boundingBox())!.height).toBeGreaterThan(150);
+      // The bars are laid out a frame after the chart's box appears (a wide run once measured 51 px).
+      await page.waitForFunction((el) => el!.getBoundingClientRect().height > 150, await chart.elementHandle(), { timeout: 10_000 });
       expect((await chart.boundingBox())!.width).toBeLessThanOrEqual(viewport.width);
       await page.getByTestId('my-ledger-compare').getByRole('heading', { name: 'You and the team' }).scrollIntoViewIfNeeded();
       await screenshot(page, `ledger-staff-${size}-01-compare`);
