@@ -44,7 +44,7 @@ export type ComputeOutput =
  * for the bounds. All unpinned seats of a run share one entry; a pinned seat (its own pin lifted)
  * has its own. A few entries only: the engine of a large roster takes hundreds of megabytes.
  */
-type Prepared = { compiled: CompiledRoster; score: ReturnType<typeof makeRosterScorer>; E: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
+type Prepared = { compiled: CompiledRoster; score: ReturnType<typeof makeRosterScorer>; engine: Engine; x: Int32Array; dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null };
 const models = new Map<string, Promise<Prepared | { seats: string[] }>>();
 const MAX_MODELS = 3;
 
@@ -59,10 +59,10 @@ function prepare(key: string, roster: Roster, assignment: RosterAssignment): Pro
     const compiled = compileRoster(roster);
     const enc = encodeAssignment(compiled, assignment);
     if (!enc.ok) return { seats: enc.seats };
-    const E = buildEngine(compiled.model);
+    const engine = buildEngine(compiled.model);
     // Bounds come from a short dual (MPLP) pass started from the run's roster; exact cases need none.
-    const dual = exactlySolvable(E) ? null : await dualPass(compiled.model, enc.values, DUAL_MS);
-    return { compiled, score: makeRosterScorer(roster), E, x: enc.values, dual };
+    const dual = exactlySolvable(engine) ? null : await dualPass(compiled.model, enc.values, DUAL_MS);
+    return { compiled, score: makeRosterScorer(roster), engine, x: enc.values, dual };
   })();
   models.set(key, work);
   if (models.size > MAX_MODELS) models.delete(models.keys().next().value!);
@@ -79,12 +79,12 @@ export async function computeSeatAlternatives(input: ComputeInput): Promise<Comp
   const t0 = Date.now();
   const prepared = await prepare(input.modelKey, roster, assignment);
   if ('seats' in prepared) return { kind: 'encode-failed', seats: prepared.seats };
-  const { compiled, E, x, dual, score } = prepared;
+  const { compiled, engine, x, dual, score } = prepared;
   const base = score(assignment);
   if (!base.feasible) return { kind: 'infeasible', firstHard: base.violations.find((v) => v.hard)?.message ?? 'a hard rule' };
   const t1 = Date.now();
   const i = compiled.seatIndex.get(seatKey)!;
-  const forced = await forcedValues(compiled.model, E, x, i, dual, { budgetMs: REPAIR_BUDGET_MS, seed: 1, deadline: Date.now() + REPAIR_DEADLINE_MS });
+  const forced = await forcedValues(compiled.model, engine, x, i, dual, { budgetMs: REPAIR_BUDGET_MS, seed: 1, deadline: Date.now() + REPAIR_DEADLINE_MS });
   const alternatives = forced.map((f): ComputedAlternative => {
     const p = compiled.domains[i][f.value];
     const personKey = p === OPEN ? null : roster.people[p].id;
