@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
+import { format, parseISO } from 'date-fns';
 import { colors, radius, space } from '@/constants/theme';
 import type { LedgerAnswer } from '@/shared/api/ledger';
 import { useLedger } from '@/hooks/api/get-ledger';
@@ -9,6 +10,8 @@ import { Notice } from '@/components/ui/notice';
 import { Body, Heading } from '@/components/ui/typography';
 import { HoursChart, Legend, PeopleChart, PeriodsChart } from './ledger-charts';
 import { LedgerSettings } from './ledger-settings';
+
+const day = (date: string) => format(parseISO(date), 'd MMM yyyy');
 
 /**
  * The fairness ledger for coordinators: who worked the nights, weekends, public holidays and
@@ -27,7 +30,7 @@ export function LedgerScreen() {
       {ledger.data && ledger.data.periods.length === 0 ? <Notice kind="info">Nothing is published yet, so the ledger is empty.</Notice> : null}
       {ledger.data && ledger.data.periods.length > 0 ? (
         <>
-          <Section title="Per person" lead={`${ledger.data.from} to ${ledger.data.to}, ${ledger.data.periods.length} published roster${ledger.data.periods.length === 1 ? '' : 's'}.`} testID="ledger-people">
+          <Section title="Per person" lead={`${day(ledger.data.from!)} to ${day(ledger.data.to!)}, ${ledger.data.periods.length} published roster${ledger.data.periods.length === 1 ? '' : 's'}.`} testID="ledger-people">
             <Legend />
             <PeopleChart ledger={ledger.data} />
           </Section>
@@ -37,6 +40,7 @@ export function LedgerScreen() {
           <Section title="Period by period" testID="ledger-periods">
             <ChoiceChips label="Whose" choices={[{ value: 'team', label: 'Team' }, ...ledger.data.people.map((p) => ({ value: String(p.personId), label: p.name }))]} value={who} onChange={setWho} testID="ledger-who" />
             <PeriodsChart periods={ledger.data.periods} series={who === 'team' ? ledger.data.team.byPeriod : (ledger.data.people.find((p) => p.personId === Number(who))?.byPeriod ?? [])} testID="ledger-periods-chart" />
+            <Legend />
           </Section>
           <Section title="The numbers" testID="ledger-table">
             <LedgerTable ledger={ledger.data} />

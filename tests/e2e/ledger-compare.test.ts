@@ -65,7 +65,8 @@ describe('ledger charts and run comparison', () => {
       await screenshot(page, `ledger-${size}-01-people`);
       // gifted-charts draws axes and rules in SVG (react-native-svg on the web) and the bars as views.
       expect(await people.locator('svg').count()).toBeGreaterThan(0);
-      expect((await people.boundingBox())!.height).toBeGreaterThan(150);
+      // The bars are laid out a frame after the chart's box appears (a phone run once measured 20 px).
+      await page.waitForFunction((el) => el!.getBoundingClientRect().height > 150, await people.elementHandle(), { timeout: 10_000 });
       expect(await people.getAttribute('aria-label')).toMatch(/nights/);
       expect(await people.getAttribute('aria-label')).toMatch(/[1-9] holiday/);
       await page.getByTestId('ledger-hours-chart').scrollIntoViewIfNeeded();
