@@ -1,5 +1,6 @@
 import type { CompiledRoster, decodeAssignment, scoreRoster } from '../../solver/roster';
 import { solveRoster } from '../../solver/roster/solve-roster';
+import type { DualStart } from '../../solver/roster/lagrangian';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 
 export interface RunProgress {
@@ -29,6 +30,8 @@ export interface RunOutcome {
   check: ReturnType<typeof scoreRoster>;
   people: ReturnType<typeof decodeAssignment>['people'];
   openSeats: number;
+  /** The bound's multipliers at its best (kept with the run, runs.dual): the next run of this roster starts there. */
+  dual: DualStart | null;
 }
 
 /** Finite JSON: the database cannot store -Infinity, so "no feasible roster" travels as null. */
@@ -45,6 +48,8 @@ export async function executeRun(
   signal: AbortSignal,
   /** The roster to start from (server/runs/previous-start.ts); the greedy one when it scores better. */
   start?: RosterAssignment,
+  /** Multipliers of the roster's previous run (repository.previousDual): the bound starts there. */
+  dualStart?: DualStart,
 ): Promise<{ ok: true; outcome: RunOutcome; compiled: CompiledRoster } | { ok: false; reasons: string[] }> {
   // The roster was checked when its run was started (server/runs/start.ts: shifts, feasibility in
   // words); solveRoster repeats only its own explainInfeasible guard, then starts max-product from
@@ -55,6 +60,7 @@ export async function executeRun(
       timeLimitMs: params.timeLimitSeconds * 1000,
       seed: params.seed,
       start,
+      dualStart,
       progressEveryMs: 250,
       onProgress: (p) => onProgress({ iteration: p.iteration, score: p.score, bound: p.bound, gap: p.gap, elapsedMs: p.timeMs }),
     },
@@ -85,6 +91,8 @@ export async function executeRun(
       check: score,
       people: decoded.people,
       openSeats: decoded.openSeats.length,
+      // multipliers still all zero (the bound never got below MPLP's) are no start worth keeping
+      dual: solved.dual && Object.keys(solved.dual.mu).length + Object.keys(solved.dual.nu).length > 0 ? solved.dual : null,
     },
   };
 }

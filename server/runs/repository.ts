@@ -3,6 +3,7 @@ import { HttpError, notFound } from '../http/errors';
 import { AssignmentRow, RunRow } from '../rosters/models';
 import { computeOnWorker, queues, runJobId, type ComputeJobData } from '../queue/queues';
 import type { Roster as RosterJson } from '../../shared/roster/schema';
+import type { DualStart } from '../../solver/roster/lagrangian';
 
 /** A run of the workspace, or a 404 (another workspace's id included). */
 export async function findRun(workspaceId: number, id: number): Promise<RunRow> {
@@ -67,4 +68,24 @@ export async function loadRunRoster(runId: number): Promise<RosterJson | null> {
   const rows = await RunRow.sequelize!.query<{ roster: string | RosterJson | null }>('SELECT roster FROM runs WHERE id = ?', { replacements: [runId], type: QueryTypes.SELECT });
   const raw = rows[0]?.roster ?? null;
   return typeof raw === 'string' ? (JSON.parse(raw) as RosterJson) : raw;
+}
+
+/** Stores the multipliers a run's bound ended with (migration 0016), in the transaction that saves its result. (DUAL is a reserved word in MariaDB: quoted.) */
+export async function saveRunDual(runId: number, dual: DualStart | null, transaction: Transaction): Promise<void> {
+  await RunRow.sequelize!.query('UPDATE runs SET `dual` = ? WHERE id = ?', { replacements: [dual ? JSON.stringify(dual) : null, runId], transaction });
+}
+
+/**
+ * The multipliers of the roster's latest finished run before `beforeRunId` that kept some: the
+ * next run's bound starts there (solveRoster's dualStart). Any multipliers give a proven bound,
+ * so a roster changed since only makes the start less useful, never wrong.
+ */
+export async function previousDual(workspaceId: number, rosterId: number, beforeRunId: number): Promise<DualStart | undefined> {
+  const rows = await RunRow.sequelize!.query<{ dual: string | DualStart | null }>(
+    "SELECT `dual` FROM runs WHERE workspace_id = ? AND roster_id = ? AND id < ? AND status IN ('done', 'cancelled') AND `dual` IS NOT NULL ORDER BY id DESC LIMIT 1",
+    { replacements: [workspaceId, rosterId, beforeRunId], type: QueryTypes.SELECT },
+  );
+  const raw = rows[0]?.dual ?? null;
+  const dual = typeof raw === 'string' ? (JSON.parse(raw) as DualStart) : raw;
+  return dual && typeof dual === 'object' && dual.mu && dual.nu ? dual : undefined;
 }

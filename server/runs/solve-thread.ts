@@ -3,6 +3,7 @@ import { computeMarginals } from '../../solver/inference/marginals';
 import { executeRun } from './execute';
 import { summariseContest } from './seat-contention';
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
+import type { DualStart } from '../../solver/roster/lagrangian';
 
 /**
  * Runs one solve off the server's event loop. Messages out: progress, then done or failed; after
@@ -16,8 +17,8 @@ parentPort!.on('message', (msg) => {
   if (msg === 'cancel') controller.abort();
 });
 
-const { roster, params, start } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number; marginalsMs?: number }; start?: RosterAssignment };
-executeRun(roster, params, (progress) => parentPort!.postMessage({ type: 'progress', progress }), controller.signal, start)
+const { roster, params, start, dualStart } = workerData as { roster: Roster; params: { timeLimitSeconds: number; seed: number; marginalsMs?: number }; start?: RosterAssignment; dualStart?: DualStart };
+executeRun(roster, params, (progress) => parentPort!.postMessage({ type: 'progress', progress }), controller.signal, start, dualStart)
   .then((result) => {
     parentPort!.postMessage(result.ok ? { type: 'done', outcome: result.outcome } : { type: 'failed', reasons: result.reasons });
     if (result.ok && params.marginalsMs) {

@@ -13,7 +13,8 @@ import { summariseOutcome } from './summary';
 import { saveContest, type RunContest } from './seat-contention';
 import { previousStart } from './previous-start';
 import { coverPinnedSeats } from '../absences/cover-pins';
-import { loadRunRoster } from './repository';
+import { loadRunRoster, previousDual, saveRunDual } from './repository';
+import type { DualStart } from '../../solver/roster/lagrangian';
 import { prepareRun } from './start';
 import { admitRun } from './admission';
 import { priceConcession } from './concession-price';
@@ -273,7 +274,8 @@ export class RunWorker {
       // written before rosters were kept with their runs gets the same preparation now.
       const roster = (await loadRunRoster(id)) ?? (await prepareRun(run.workspaceId, run.rosterId, run.parameters)).roster;
       const start = await previousStart(run.workspaceId, run.rosterId, id, roster);
-      const result = await this.runThread(id, job, roster, run.parameters, start);
+      const dualStart = await previousDual(run.workspaceId, run.rosterId, id);
+      const result = await this.runThread(id, job, roster, run.parameters, start, dualStart);
       if (this.stopping) throw new HandedBack();
       if (result.type === 'failed') {
         await this.finish(id, { status: 'failed', error: result.reasons.join('\n') });
@@ -328,6 +330,7 @@ export class RunWorker {
       );
       await Roster.update({ status: 'solved' }, { where: { id: run.rosterId, status: 'draft', version: run.rosterVersion }, transaction });
       await saveContest(this.sequelize, id, contest, transaction);
+      await saveRunDual(id, outcome.dual ?? null, transaction);
     });
     return cancelled ? 'cancelled with the best roster so far' : 'done';
   }
@@ -342,6 +345,7 @@ export class RunWorker {
     roster: unknown,
     params: { timeLimitSeconds: number; seed: number },
     start: RosterAssignment | undefined,
+    dualStart: DualStart | undefined,
   ): Promise<{ type: 'done'; outcome: RunOutcome; contest: RunContest | null } | { type: 'failed'; reasons: string[] } | { type: 'error'; message: string }> {
     // After the solve, the thread computes how contested each seat is (sum-product marginals) for
     // up to marginalsMs; past that plus a margin for building its engine the thread is ended and the
@@ -350,7 +354,7 @@ export class RunWorker {
     let solved: RunOutcome | null = null;
     let contestTimer: ReturnType<typeof setTimeout> | undefined;
     return new Promise((resolve) => {
-      const thread = new Thread(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs }, start } });
+      const thread = new Thread(path.join(path.dirname(fileURLToPath(import.meta.url)), 'solve-thread-entry.mjs'), { workerData: { roster, params: { ...params, marginalsMs }, start, dualStart } });
       this.threads.add(thread);
       let lastWrite = 0;
       let settled = false;
