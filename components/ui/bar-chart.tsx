@@ -7,7 +7,7 @@ import { colors } from '@/constants/theme';
 // the two ledger screens it would land in the __common chunk that every first screen loads (the
 // landing page too); behind import() it is a chunk of its own. Asked for as soon as a screen
 // that draws charts is loaded, so it arrives beside that screen's data rather than after it.
-const loading = import('react-native-gifted-charts');
+const loading = import('./bar-chart-impl');
 // Failing offline is answered where a chart is drawn (lazy rethrows it), not as an unhandled rejection.
 loading.catch(() => {});
 const Chart = lazy(() => loading.then((m) => ({ default: m.BarChart })));
