@@ -163,3 +163,31 @@ export function rosterModel(o: RosterShape): Model {
 export function countPairwise(m: Model): number {
   return m.factors.filter((f) => f.kind === 'pairwise' || f.kind === 'sameKey' || f.kind === 'sparsePair' || (f.kind === 'allDifferent' && f.vars.length === 2)).length;
 }
+
+/**
+ * ±J spin glass with fields (issue 14's UAI targets): couplings J_ab ∈ {−1, +1} with equal odds,
+ * fields h_i uniform in [−field, field]; score Σ J_ab s_a s_b + Σ h_i s_i, s = 2x − 1.
+ * `graph: 'torus'` is a w×h periodic grid (n = w·h, every spin on 4 edges, many frustrated
+ * plaquettes), `'random'` an Erdős–Rényi graph with the given mean degree.
+ */
+export function spinGlass(o: { n: number; graph: 'torus' | 'random'; w?: number; degree?: number; field?: number; seed?: number }): Model {
+  const r = rng(o.seed ?? 1);
+  const edges: Array<[number, number, number]> = [];
+  const sign = (): number => (r() < 0.5 ? -1 : 1);
+  if (o.graph === 'torus') {
+    const w = o.w ?? Math.round(Math.sqrt(o.n)), h = o.n / w;
+    if (!Number.isInteger(h)) throw new Error(`spinGlass: ${o.n} spins do not fill rows of ${w}`);
+    for (let y = 0; y < h; y++)
+      for (let x = 0; x < w; x++) {
+        const i = y * w + x;
+        edges.push([i, y * w + ((x + 1) % w), sign()]);
+        edges.push([i, ((y + 1) % h) * w + x, sign()]);
+      }
+  } else {
+    const p = (o.degree ?? 4) / (o.n - 1);
+    for (let a = 0; a < o.n; a++) for (let b = a + 1; b < o.n; b++) if (r() < p) edges.push([a, b, sign()]);
+  }
+  const field = o.field ?? 1;
+  const fields = Array.from({ length: o.n }, () => (r() * 2 - 1) * field);
+  return binaryModel(`spin-glass-${o.graph}-${o.n}`, o.n, edges, fields);
+}

@@ -12,6 +12,7 @@ import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import { parseUai, UaiError, writeMpe } from '../io/uai';
 import { solveMap } from '../inference/solve';
+import { MAP_PRESETS } from '../inference/options';
 import { violatedFactors } from '../model/score';
 
 export class CliError extends Error {}
@@ -25,7 +26,7 @@ interface Args {
 
 function parseArgs(argv: string[]): Args {
   let file: string | undefined;
-  let timeLimitMs = 10_000, seed = 1, json = false;
+  let timeLimitMs: number = MAP_PRESETS.commandLine.timeLimitMs, seed: number = MAP_PRESETS.commandLine.seed, json = false;
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
     const value = (): string => {

@@ -15,7 +15,7 @@ import { dualPass, exactlySolvable, forcedValues } from './max-marginals';
 
 export { dualPass, exactlySolvable, forcedValues, type ForcedValue } from './max-marginals';
 import { solveMap, type MapResult } from '../inference/solve';
-import type { MapOptions } from '../inference/options';
+import { MAP_PRESETS, type MapOptions } from '../inference/options';
 
 /** Largest score a factor can reach on its own (ignoring all other factors). */
 export function factorBest(model: Model, f: Factor): number {
@@ -133,10 +133,10 @@ export interface AlternativeOptions {
 export async function alternatives(model: Model, result: MapResult, i: number, options: Partial<AlternativeOptions> = {}): Promise<Alternative[]> {
   const o: AlternativeOptions = { count: 3, repairMs: 200, dualMs: 300, seed: 1, ...options };
   const v = model.variables[i]!;
-  const E = o.engine ?? buildEngine(model);
+  const engine = o.engine ?? buildEngine(model);
   const base = Int32Array.from(result.assignment);
-  const dual = exactlySolvable(E) ? null : await dualPass(model, base, o.dualMs);
-  const forced = await forcedValues(model, E, base, i, dual, { budgetMs: o.repairMs, seed: o.seed });
+  const dual = exactlySolvable(engine) ? null : await dualPass(model, base, o.dualMs);
+  const forced = await forcedValues(model, engine, base, i, dual, { budgetMs: o.repairMs, seed: o.seed });
   return forced
     .filter((f) => f.score > -Infinity)
     .sort((p, q) => q.score - p.score || p.value - q.value)
@@ -154,10 +154,10 @@ export async function alternativesFor(model: Model, result: MapResult, vars: num
 
 /** Exact max-marginals on a forest (absolute scores). */
 export function exactMaxMarginals(model: Model): Float64Array[] {
-  const E = buildEngine(model);
-  const r = exactTreeMap(E);
+  const engine = buildEngine(model);
+  const r = exactTreeMap(engine);
   // big-M values below the feasible range are impossible
-  return r.maxMarginals.map((m) => m.map((s) => (s < r.best - E.H / 2 ? -Infinity : s)));
+  return r.maxMarginals.map((m) => m.map((s) => (s < r.best - engine.H / 2 ? -Infinity : s)));
 }
 
 /** A hard factor that allows only the combinations where factor f reaches at least `best`. */
@@ -225,7 +225,7 @@ export async function priceOfConcession(model: Model, before: Assignment, fi: nu
   const f = model.factors[fi]!;
   const best = factorBest(model, f);
   const enforced: Model = { ...model, factors: [...model.factors, enforceFactor(model, f, best)] };
-  const r = await solveMap(enforced, { timeLimitMs: 2_000, ...options, initial: options.initial ?? Array.from(before) }, signal);
+  const r = await solveMap(enforced, { ...MAP_PRESETS.concessionPrice, ...options, initial: options.initial ?? Array.from(before) }, signal);
   const scoreBefore = score(model, before);
   const changes: FactorChange[] = [];
   if (r.feasible)

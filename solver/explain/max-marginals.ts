@@ -3,6 +3,7 @@ import { score } from '../model/score';
 import { isForest, log10States, type Engine } from '../inference/engine';
 import { LocalSearch, rng } from '../inference/local-search';
 import { solveMap, solveMapSync, tick } from '../inference/solve';
+import { MAP_PRESETS } from '../inference/options';
 
 /**
  * Max-marginals of one variable, with the assignment each figure comes from (so a caller can
@@ -29,7 +30,7 @@ export interface ForcedValue {
 }
 
 /** The same test solver/explain and solveMap use to choose enumeration or the tree pass. */
-export const exactlySolvable = (E: Engine): boolean => log10States(E) <= 5.3 || isForest(E);
+export const exactlySolvable = (engine: Engine): boolean => log10States(engine) <= 5.3 || isForest(engine);
 
 /**
  * A short MPLP pass from the run's roster, for the bounds. Branch and bound stays off: it can
@@ -38,7 +39,7 @@ export const exactlySolvable = (E: Engine): boolean => log10States(E) <= 5.3 || 
  * 2 of 1,050 bounds fell below the enumerated max-marginal on 25 random 7 × 7 models, measured).
  */
 export async function dualPass(model: Model, initial: Int32Array, timeLimitMs: number): Promise<{ bound: number; beliefs: Float64Array[] | null | undefined }> {
-  const r = await solveMap(model, { timeLimitMs, initial, localSearch: false, branchAndBoundMaxVars: 0, seed: 1 });
+  const r = await solveMap(model, { ...MAP_PRESETS.seatBounds, timeLimitMs, initial });
   return { bound: r.bound, beliefs: r.beliefs };
 }
 
@@ -50,7 +51,7 @@ function forceValue(model: Model, i: number, x: number): Factor {
 
 export async function forcedValues(
   model: Model,
-  E: Engine,
+  engine: Engine,
   base: Int32Array,
   i: number,
   dual: { bound: number; beliefs: Float64Array[] | null | undefined } | null,
@@ -59,9 +60,9 @@ export async function forcedValues(
   const cur = base[i]!;
   const values = Array.from({ length: model.variables[i]!.cardinality }, (_, x) => x).filter((x) => x !== cur);
   const out: ForcedValue[] = [];
-  if (exactlySolvable(E)) {
+  if (exactlySolvable(engine)) {
     for (const x of values) {
-      const r = solveMapSync({ ...model, factors: [...model.factors, forceValue(model, i, x)] }, { method: 'auto', seed: options.seed, timeLimitMs: 60_000 });
+      const r = solveMapSync({ ...model, factors: [...model.factors, forceValue(model, i, x)] }, { ...MAP_PRESETS.forcedChoice, seed: options.seed });
       const assignment = Int32Array.from(r.assignment);
       // optimal and infeasible means no roster with x keeps every hard rule
       out.push({ value: x, score: r.score, bound: r.optimal ? r.score : Infinity, how: r.optimal ? 'exact' : 'repair', evaluated: true, assignment });
@@ -75,10 +76,10 @@ export async function forcedValues(
     if (!b || !dual || !Number.isFinite(dual.bound)) return Infinity;
     const u = dual.bound - bmax + b[x]!;
     // a big-M value: every roster with x breaks a hard factor of the relaxation as well
-    return u < -E.H / 2 ? -Infinity : u;
+    return u < -engine.H / 2 ? -Infinity : u;
   };
   const repairMs = Math.max(8, Math.min(60, Math.floor(options.budgetMs / Math.max(1, values.length))));
-  const fixed = new Uint8Array(E.n);
+  const fixed = new Uint8Array(engine.n);
   fixed[i] = 1;
   // Most promising first by the bound, so a deadline cuts the least promising; one local-search
   // pass over a large roster takes over 100 ms (60 people × 13 weeks), whatever repairMs says.
@@ -90,7 +91,7 @@ export async function forcedValues(
     }
     const start = Int32Array.from(base);
     start[i] = x;
-    const ls = new LocalSearch(E, start, rng(options.seed), fixed);
+    const ls = new LocalSearch(engine, start, rng(options.seed), fixed);
     ls.run(Date.now() + repairMs);
     const s = score(model, ls.x);
     const u = upper(x);

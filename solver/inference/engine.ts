@@ -1,6 +1,7 @@
 /**
- * Compilation of a model into operators (ops.ts) plus the message state shared
- * by the message-passing algorithms.
+ * Compilation of a model into the operators of factor-operators.ts (`buildEngine`), with the
+ * engine's own scoring and shape tests. The message state the algorithms update lives apart,
+ * in message-state.ts.
  *
  * Hard constraints: every -Infinity is replaced by -H, H above the total range of
  * all soft scores, so that any assignment breaking a hard factor scores below every
@@ -9,7 +10,7 @@
  */
 import { countingMaxSum, countingScoreAt, keyOf, scopeOf, validateModel } from '../model/factor-graph';
 import type { Factor, Model } from '../model/types';
-import { AtMostOneOp, CountingOp, NEG, PairwiseOp, PottsOp, SparseOp, TableOp, type KeyInfo, type Op, type Scratch } from './ops';
+import { AtMostOneOp, CountingOp, NEG, PairwiseOp, PottsOp, SparseOp, TableOp, type KeyInfo, type Op, type Scratch } from './factor-operators';
 
 export interface Engine {
   model: Model;
@@ -187,9 +188,9 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
     }
     const vs = vsA.subarray(0, nv), off = offA.subarray(0, nv + 1), sup = supA.subarray(0, ne), wts = wtsA.subarray(0, ne);
     // clamp sums where the score stays constant from there on
-    let S = table.length - 1;
-    while (S > 0 && table[S - 1] === table[S]) S--;
-    const g = bmt(table.slice(0, S + 1));
+    let lastSum = table.length - 1;
+    while (lastSum > 0 && table[lastSum - 1] === table[lastSum]) lastSum--;
+    const g = bmt(table.slice(0, lastSum + 1));
     if (nv === 0) {
       constant += g[0]!;
       return null;
@@ -199,20 +200,20 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
     if (g.some((_, t) => table[t] === NEG)) {
       // distance of each forbidden sum to the nearest allowed one
       const lt = Float64Array.from(g);
-      const dist = new Float64Array(S + 1).fill(Infinity);
+      const dist = new Float64Array(lastSum + 1).fill(Infinity);
       let last = -Infinity;
-      for (let t = 0; t <= S; t++) {
+      for (let t = 0; t <= lastSum; t++) {
         if (table[t] !== NEG) last = t;
         dist[t] = t - last;
       }
       last = Infinity;
-      for (let t = S; t >= 0; t--) {
+      for (let t = lastSum; t >= 0; t--) {
         if (table[t] !== NEG) last = t;
         dist[t] = Math.min(dist[t]!, last - t);
       }
-      for (let t = 0; t <= S; t++) if (table[t] === NEG) lt[t] = -H * (1 + (Number.isFinite(dist[t]!) ? dist[t]! : S + 1));
+      for (let t = 0; t <= lastSum; t++) if (table[t] === NEG) lt[t] = -H * (1 + (Number.isFinite(dist[t]!) ? dist[t]! : lastSum + 1));
       op.localTable = lt;
-      op.tailHard = table[S] === NEG;
+      op.tailHard = table[lastSum] === NEG;
     }
     return op;
   };
@@ -341,24 +342,24 @@ export function buildEngine(model: Model, opts: EngineOptions = {}): Engine {
 }
 
 /** Big-M score of an assignment through the compiled operators (equals the model score when feasible). */
-export function engineScore(E: Engine, x: Int32Array): number {
-  let s = E.constant;
-  for (let i = 0; i < E.n; i++) s += E.theta[i]![x[i]!]!;
-  for (const op of E.ops) s += op.score(x);
+export function engineScore(engine: Engine, x: Int32Array): number {
+  let s = engine.constant;
+  for (let i = 0; i < engine.n; i++) s += engine.theta[i]![x[i]!]!;
+  for (const op of engine.ops) s += op.score(x);
   return s;
 }
 
 /** Log10 of the number of joint assignments. */
-export function log10States(E: Engine): number {
+export function log10States(engine: Engine): number {
   let s = 0;
-  for (let i = 0; i < E.n; i++) s += Math.log10(E.card[i]!);
+  for (let i = 0; i < engine.n; i++) s += Math.log10(engine.card[i]!);
   return s;
 }
 
 /** True when the factor graph (variables + operators) has no cycle. */
-export function isForest(E: Engine): boolean {
+export function isForest(engine: Engine): boolean {
   // union-find over variable nodes and op nodes
-  const parent = new Int32Array(E.n + E.ops.length).map((_, i) => i);
+  const parent = new Int32Array(engine.n + engine.ops.length).map((_, i) => i);
   const find = (a: number): number => {
     while (parent[a] !== a) {
       parent[a] = parent[parent[a]!]!;
@@ -366,229 +367,12 @@ export function isForest(E: Engine): boolean {
     }
     return a;
   };
-  for (let o = 0; o < E.ops.length; o++) {
-    for (const v of E.ops[o]!.vars) {
-      const ra = find(v), rb = find(E.n + o);
+  for (let o = 0; o < engine.ops.length; o++) {
+    for (const v of engine.ops[o]!.vars) {
+      const ra = find(v), rb = find(engine.n + o);
       if (ra === rb) return false;
       parent[ra] = rb;
     }
   }
   return true;
-}
-
-/** Message state: one flat message array per operator and the variable beliefs b_i = θ_i + Σ messages. */
-export interface MessageState {
-  msg: Float64Array[];
-  belief: Float64Array[];
-  /** Per operator constant kept out of compact messages (dual bound bookkeeping). */
-  opConst: Float64Array;
-  /** Cached best states of each belief, so compact slots find their rest maximum in O(1). */
-  tops: BeliefTops;
-}
-
-export function newMessageState(E: Engine): MessageState {
-  // one backing buffer for all messages: views are cheap, separate buffers are not
-  let total = 0;
-  for (const op of E.ops) total += op.off[op.vars.length]!;
-  const all = new Float64Array(total);
-  let at = 0;
-  const msg = E.ops.map((op) => {
-    const len = op.off[op.vars.length]!;
-    const v = all.subarray(at, at + len);
-    at += len;
-    return v;
-  });
-  const belief = E.theta.map((t) => Float64Array.from(t));
-  return { msg, belief, opConst: new Float64Array(E.ops.length), tops: new BeliefTops(belief) };
-}
-
-const TOP = 4;
-
-/**
- * The TOP best states of each belief, kept under point updates (compact operators
- * change one or two states at a time); invalidated by dense updates and decreases
- * of a listed state, then rebuilt lazily by one scan.
- */
-export class BeliefTops {
-  idx: Int32Array;
-  val: Float64Array;
-  len: Uint8Array;
-  valid: Uint8Array;
-  constructor(private belief: Float64Array[]) {
-    const n = belief.length;
-    this.idx = new Int32Array(n * TOP);
-    this.val = new Float64Array(n * TOP);
-    this.len = new Uint8Array(n);
-    this.valid = new Uint8Array(n);
-  }
-  private rebuild(i: number): void {
-    const b = this.belief[i]!, o = i * TOP;
-    let len = 0;
-    for (let x = 0; x < b.length; x++) {
-      const v = b[x]!;
-      if (len === TOP && v <= this.val[o + TOP - 1]!) continue;
-      let p = len < TOP ? len++ : TOP - 1;
-      while (p > 0 && this.val[o + p - 1]! < v) {
-        this.val[o + p] = this.val[o + p - 1]!;
-        this.idx[o + p] = this.idx[o + p - 1]!;
-        p--;
-      }
-      this.val[o + p] = v;
-      this.idx[o + p] = x;
-    }
-    this.len[i] = len;
-    this.valid[i] = 1;
-  }
-  /** Belief of state x of variable i changed to v. */
-  point(i: number, x: number, v: number): void {
-    if (!this.valid[i]) return;
-    const o = i * TOP, len = this.len[i]!;
-    let p = -1;
-    for (let k = 0; k < len; k++) if (this.idx[o + k] === x) p = k;
-    if (p >= 0) {
-      if (v < this.val[o + p]! && p < len - 1 && v < this.val[o + p + 1]!) {
-        this.valid[i] = 0;
-        return;
-      }
-      if (v < this.val[o + p]! && p === len - 1 && len === TOP) {
-        this.valid[i] = 0;
-        return;
-      }
-      this.val[o + p] = v;
-      while (p > 0 && this.val[o + p - 1]! < v) {
-        this.val[o + p] = this.val[o + p - 1]!;
-        this.idx[o + p] = this.idx[o + p - 1]!;
-        this.val[o + p - 1] = v;
-        this.idx[o + p - 1] = x;
-        p--;
-      }
-      return;
-    }
-    if (len < TOP) {
-      // fewer states than TOP are all listed already
-      this.valid[i] = 0;
-      return;
-    }
-    if (v <= this.val[o + TOP - 1]!) return;
-    let q = TOP - 1;
-    while (q > 0 && this.val[o + q - 1]! < v) {
-      this.val[o + q] = this.val[o + q - 1]!;
-      this.idx[o + q] = this.idx[o + q - 1]!;
-      q--;
-    }
-    this.val[o + q] = v;
-    this.idx[o + q] = x;
-  }
-  dirty(i: number): void {
-    this.valid[i] = 0;
-  }
-  /** max of belief i over states not in the sorted list sup[from..to). */
-  restMax(i: number, sup: Int32Array, from: number, to: number): number {
-    if (!this.valid[i]) this.rebuild(i);
-    const o = i * TOP, len = this.len[i]!;
-    for (let k = 0; k < len; k++) {
-      const x = this.idx[o + k]!;
-      let inSup = false;
-      for (let q = from; q < to; q++) if (sup[q] === x) inSup = true;
-      if (!inSup) return this.val[o + k]!;
-    }
-    return restReduce(this.belief[i]!, sup, from, to, false);
-  }
-}
-
-/** Reusable buffers for one operator update. */
-export class OpBuffers {
-  inc = new Float64Array(64);
-  out = new Float64Array(64);
-  incRest = new Float64Array(8);
-  outRest = new Float64Array(8);
-  prepare(op: Op): void {
-    const n = op.vars.length, len = op.off[n]!;
-    if (this.inc.length < len) {
-      this.inc = new Float64Array(len * 2);
-      this.out = new Float64Array(len * 2);
-    }
-    if (this.incRest.length < n) {
-      this.incRest = new Float64Array(n * 2);
-      this.outRest = new Float64Array(n * 2);
-    }
-  }
-}
-
-/**
- * Fill buffers with incoming messages inc = b_i - m_{c→i} (in the operator's layout);
- * incRest = max (or log-sum-exp) of b_i over states outside a compact support.
- */
-export function gatherIncoming(E: Engine, st: MessageState, oi: number, buf: OpBuffers, sum: boolean): void {
-  const op = E.ops[oi]!;
-  buf.prepare(op);
-  const m = st.msg[oi]!, inc = buf.inc, off = op.off, sup = op.sup;
-  for (let s = 0; s < op.vars.length; s++) {
-    const b = st.belief[op.vars[s]!]!;
-    const o = off[s]!;
-    if (!sup) {
-      for (let x = 0; x < b.length; x++) inc[o + x] = b[x]! - m[o + x]!;
-      continue;
-    }
-    const e = off[s + 1]!;
-    for (let k = o; k < e; k++) inc[k] = b[sup[k]!]! - m[k]!;
-    buf.incRest[s] = op.restCount![s]! > 0 ? (sum ? restReduce(b, sup, o, e, true) : st.tops.restMax(op.vars[s]!, sup, o, e)) : NEG;
-  }
-}
-
-/** max or log-sum-exp of v over indices not in the sorted list sup[from..to). */
-export function restReduce(v: Float64Array, sup: Int32Array, from: number, to: number, sum: boolean): number {
-  let m = NEG, k = from;
-  for (let x = 0; x < v.length; x++) {
-    if (k < to && sup[k] === x) {
-      k++;
-      continue;
-    }
-    if (v[x]! > m) m = v[x]!;
-  }
-  if (!sum || m === NEG) return m;
-  k = from;
-  let s = 0;
-  for (let x = 0; x < v.length; x++) {
-    if (k < to && sup[k] === x) {
-      k++;
-      continue;
-    }
-    s += Math.exp(v[x]! - m);
-  }
-  return m + Math.log(s);
-}
-
-/** Replace slot s of operator oi's message by nm[off[s]..off[s+1]) and update the variable's belief. */
-export function setSlot(E: Engine, st: MessageState, oi: number, s: number, nm: Float64Array): void {
-  const op = E.ops[oi]!;
-  const i = op.vars[s]!, m = st.msg[oi]!, b = st.belief[i]!;
-  const o = op.off[s]!, e = op.off[s + 1]!, sup = op.sup;
-  if (!sup) {
-    for (let k = o; k < e; k++) {
-      b[k - o]! += nm[k]! - m[k]!;
-      m[k] = nm[k]!;
-    }
-    st.tops.dirty(i);
-  } else
-    for (let k = o; k < e; k++) {
-      const x = sup[k]!;
-      b[x]! += nm[k]! - m[k]!;
-      m[k] = nm[k]!;
-      st.tops.point(i, x, b[x]!);
-    }
-}
-
-/** Argmax of each belief (lowest index on ties). */
-export function decodeBeliefs(st: MessageState): Int32Array {
-  return Int32Array.from(st.belief, (b) => {
-    let bi = 0;
-    for (let x = 1; x < b.length; x++) if (b[x]! > b[bi]!) bi = x;
-    return bi;
-  });
-}
-
-/** Model scope of factor fi (for reporting). */
-export function factorScope(E: Engine, fi: number): number[] {
-  return scopeOf(E.model.factors[fi]!);
 }

@@ -1,11 +1,15 @@
 /**
- * Exact methods: exhaustive enumeration for tiny models and two-pass
- * max-product / sum-product on forests.
+ * Exact methods: exhaustive enumeration for tiny models and two-pass max-product /
+ * sum-product on forests, and the two MapSolvers built on them.
  */
 import type { Model } from '../model/types';
-import { NEG, lseArray } from './ops';
-import { OpBuffers, buildEngine, engineScore, gatherIncoming, isForest, newMessageState, type Engine, type MessageState } from './engine';
-import { betheLogZ, forestOrder, productUpdate } from './message-passing';
+import { startRun, type AnytimeRun } from './anytime';
+import { NEG, lseArray } from './factor-operators';
+import { buildEngine, engineScore, isForest, type Engine } from './engine';
+import type { MapResult, MapSolver } from './map-solver';
+import { OperatorBuffers, gatherIncoming, newMessageState, productUpdate, type MessageState } from './message-state';
+import { DEFAULT_BASE_OPTIONS, DEFAULT_ENUMERATION_OPTIONS, withDefaults, type EnumerationOptions, type TreeOptions } from './options';
+import { betheLogZ } from './sum-product';
 
 export interface EnumerationResult {
   /** First assignment (in odometer order, last variable fastest) with the highest score. */
@@ -24,17 +28,17 @@ export interface EnumerationResult {
  * log Z and marginals. Precondition: the state space is small (caller checks).
  */
 export function enumerateModel(model: Model, maxStates = 5_000_000): EnumerationResult {
-  const E = buildEngine(model, { hardPenalty: Infinity });
-  const n = E.n;
+  const engine = buildEngine(model, { hardPenalty: Infinity });
+  const n = engine.n;
   let states = 1;
-  for (let i = 0; i < n; i++) states *= E.card[i]!;
+  for (let i = 0; i < n; i++) states *= engine.card[i]!;
   if (states > maxStates) throw new Error(`enumeration: ${states} states exceeds the limit ${maxStates}`);
   const x = new Int32Array(n);
-  const mm = Array.from(E.card, (k) => new Float64Array(k).fill(NEG));
+  const mm = Array.from(engine.card, (k) => new Float64Array(k).fill(NEG));
   let best = NEG, bestX = Array.from(x);
   const scores = new Float64Array(states);
   for (let e = 0; e < states; e++) {
-    const s = engineScore(E, x);
+    const s = engineScore(engine, x);
     scores[e] = s;
     if (s > best) {
       best = s;
@@ -42,19 +46,19 @@ export function enumerateModel(model: Model, maxStates = 5_000_000): Enumeration
     }
     for (let i = 0; i < n; i++) if (s > mm[i]![x[i]!]!) mm[i]![x[i]!] = s;
     for (let i = n - 1; i >= 0; i--) {
-      if (++x[i]! < E.card[i]!) break;
+      if (++x[i]! < engine.card[i]!) break;
       x[i] = 0;
     }
   }
   const logZ = lseArray(scores);
-  const marg = Array.from(E.card, (k) => new Float64Array(k));
+  const marg = Array.from(engine.card, (k) => new Float64Array(k));
   if (logZ !== NEG) {
     x.fill(0);
     for (let e = 0; e < states; e++) {
       const p = Math.exp(scores[e]! - logZ);
       for (let i = 0; i < n; i++) marg[i]![x[i]!]! += p;
       for (let i = n - 1; i >= 0; i--) {
-        if (++x[i]! < E.card[i]!) break;
+        if (++x[i]! < engine.card[i]!) break;
         x[i] = 0;
       }
     }
@@ -62,14 +66,44 @@ export function enumerateModel(model: Model, maxStates = 5_000_000): Enumeration
   return { assignment: bestX, score: best, maxMarginals: mm, logZ, marginals: marg, states };
 }
 
+/** Operator order for a forest: breadth-first from each component's first variable (downward order). */
+export function forestOrder(engine: Engine): { order: number[]; parentVar: Int32Array; roots: number[] } {
+  const seenVar = new Uint8Array(engine.n), seenOp = new Uint8Array(engine.ops.length);
+  const parentVar = new Int32Array(engine.ops.length).fill(-1);
+  const order: number[] = [];
+  const roots: number[] = [];
+  for (let r = 0; r < engine.n; r++) {
+    if (seenVar[r]) continue;
+    roots.push(r);
+    seenVar[r] = 1;
+    const queue = [r];
+    for (let q = 0; q < queue.length; q++) {
+      const v = queue[q]!;
+      for (const oi of engine.adjOp[v]!) {
+        if (seenOp[oi]) continue;
+        seenOp[oi] = 1;
+        parentVar[oi] = v;
+        order.push(oi);
+        for (const u of engine.ops[oi]!.vars) {
+          if (!seenVar[u]) {
+            seenVar[u] = 1;
+            queue.push(u);
+          }
+        }
+      }
+    }
+  }
+  return { order, parentVar, roots };
+}
+
 /** Two sequential passes (leaves → roots, roots → leaves) of max- or sum-product on a forest. */
-export function forestPasses(E: Engine, sum: boolean): { st: MessageState; parentVar: Int32Array; order: number[]; roots: number[] } {
-  const { order, parentVar, roots } = forestOrder(E);
-  const st = newMessageState(E);
-  const buf = new OpBuffers();
-  for (let k = order.length - 1; k >= 0; k--) productUpdate(E, st, order[k]!, buf, sum, 0);
-  for (const oi of order) productUpdate(E, st, oi, buf, sum, 0);
-  return { st, parentVar, order, roots };
+export function forestPasses(engine: Engine, sum: boolean): { state: MessageState; parentVar: Int32Array; order: number[]; roots: number[] } {
+  const { order, parentVar, roots } = forestOrder(engine);
+  const state = newMessageState(engine);
+  const buf = new OperatorBuffers();
+  for (let k = order.length - 1; k >= 0; k--) productUpdate(engine, state, order[k]!, buf, sum, 0);
+  for (const oi of order) productUpdate(engine, state, oi, buf, sum, 0);
+  return { state, parentVar, order, roots };
 }
 
 function argmax(v: ArrayLike<number>): number {
@@ -84,14 +118,14 @@ function argmax(v: ArrayLike<number>): number {
  * ties cannot produce an inconsistent assignment.
  * Returns the assignment and exact max-marginals (big-M scores).
  */
-export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64Array[]; best: number } {
-  if (!isForest(E)) throw new Error('exactTreeMap: the factor graph has a cycle');
-  const { st, parentVar, order, roots } = forestPasses(E, false);
-  const x = new Int32Array(E.n).fill(-1);
-  for (const r of roots) x[r] = argmax(st.belief[r]!);
-  const buf = new OpBuffers();
+export function exactTreeMap(engine: Engine): { x: Int32Array; maxMarginals: Float64Array[]; best: number } {
+  if (!isForest(engine)) throw new Error('exactTreeMap: the factor graph has a cycle');
+  const { state, parentVar, order, roots } = forestPasses(engine, false);
+  const x = new Int32Array(engine.n).fill(-1);
+  for (const r of roots) x[r] = argmax(state.belief[r]!);
+  const buf = new OperatorBuffers();
   const clamp = (oi: number, s: number, v: number): void => {
-    const op = E.ops[oi]!, inc = buf.inc, sup = op.sup;
+    const op = engine.ops[oi]!, inc = buf.inc, sup = op.sup;
     const o = op.off[s]!, e = op.off[s + 1]!;
     inc.fill(NEG, o, e);
     if (!sup) inc[o + v] = 0;
@@ -102,8 +136,8 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
     }
   };
   for (const oi of order) {
-    const op = E.ops[oi]!;
-    gatherIncoming(E, st, oi, buf, false);
+    const op = engine.ops[oi]!;
+    gatherIncoming(engine, state, oi, buf, false);
     const p = parentVar[oi]!;
     const ps = op.vars.indexOf(p);
     clamp(oi, ps, x[p]!);
@@ -119,7 +153,7 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
         for (let k = o; k < e; k++) if (inc[k]! + out[k]! > bestS) (bestS = inc[k]! + out[k]!), (bestV = sup[k]!);
         if (op.restCount![s]! > 0 && buf.incRest[s]! + buf.outRest[s]! > bestS) {
           // best state outside the support, by its own subtree belief
-          const b = st.belief[j]!;
+          const b = state.belief[j]!;
           let u = -1;
           for (let v = 0, k = o; v < b.length; v++) {
             if (k < e && sup[k] === v) {
@@ -135,8 +169,8 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
       clamp(oi, s, x[j]!);
     }
   }
-  const best = engineScore(E, x);
-  const maxMarginals = st.belief.map((b) => {
+  const best = engineScore(engine, x);
+  const maxMarginals = state.belief.map((b) => {
     let m = NEG;
     for (const v of b) if (v > m) m = v;
     return b.map((v) => v - m + best);
@@ -145,10 +179,10 @@ export function exactTreeMap(E: Engine): { x: Int32Array; maxMarginals: Float64A
 }
 
 /** Exact log Z and marginals on a forest by two sum-product passes (Bethe is exact on forests). */
-export function exactTreeMarginals(E: Engine): { logZ: number; marginals: Float64Array[] } {
-  const { st } = forestPasses(E, true);
-  const logZ = betheLogZ(E, st, new OpBuffers());
-  return { logZ, marginals: beliefsToMarginals(st.belief) };
+export function exactTreeMarginals(engine: Engine): { logZ: number; marginals: Float64Array[] } {
+  const { state } = forestPasses(engine, true);
+  const logZ = betheLogZ(engine, state, new OperatorBuffers());
+  return { logZ, marginals: beliefsToMarginals(state.belief) };
 }
 
 export function beliefsToMarginals(belief: Float64Array[]): Float64Array[] {
@@ -156,4 +190,49 @@ export function beliefsToMarginals(belief: Float64Array[]): Float64Array[] {
     const z = lseArray(b);
     return b.map((v) => (z === NEG ? 1 / b.length : Math.exp(v - z)));
   });
+}
+
+/** Exhaustive enumeration as a MapSolver: exact, for models of at most `maxStates` joint assignments. */
+export const enumerationSolver: MapSolver<EnumerationOptions> = {
+  name: 'enumerate',
+  defaults: DEFAULT_ENUMERATION_OPTIONS,
+  solve: async (model, options) => enumerationSolver.solveSync!(model, options),
+  solveSync(model, options): MapResult {
+    const opt = withDefaults(DEFAULT_ENUMERATION_OPTIONS, options);
+    return enumerationSteps(startRun(model, opt), opt.maxStates);
+  },
+};
+
+/** Enumeration inside a run (the dispatcher's first choice on tiny models). */
+export function enumerationSteps(run: AnytimeRun, maxStates: number): MapResult {
+  const r = enumerateModel(run.model, maxStates);
+  run.bestX = Int32Array.from(r.assignment);
+  run.bound = r.score;
+  run.iterations = r.states;
+  run.timeToBest = run.elapsed();
+  run.finish('enumerate', 'optimal', true);
+  return run.result!;
+}
+
+/** Two-pass max-product with clamped decoding as a MapSolver: exact on forest-shaped factor graphs (throws on a cycle). */
+export const treeSolver: MapSolver<TreeOptions> = {
+  name: 'tree',
+  defaults: DEFAULT_BASE_OPTIONS,
+  solve: async (model, options) => treeSolver.solveSync!(model, options),
+  solveSync(model, options): MapResult {
+    const opt = withDefaults(DEFAULT_BASE_OPTIONS, options);
+    return treeSteps(startRun(model, opt));
+  },
+};
+
+/** The tree pass inside a run. */
+export function treeSteps(run: AnytimeRun): MapResult {
+  const r = exactTreeMap(run.engine);
+  run.bestX = r.x;
+  run.bound = r.best;
+  run.iterations = 2;
+  run.timeToBest = run.elapsed();
+  // a forest's bound is exact for the big-M model; if that optimum breaks a hard factor, none is feasible
+  run.finish('tree', 'optimal', true, r.maxMarginals);
+  return run.result!;
 }

@@ -7,7 +7,7 @@
  */
 import type { Engine } from './engine';
 import { engineScore } from './engine';
-import { CompactOp } from './ops';
+import { CompactOp } from './factor-operators';
 
 /** Small deterministic PRNG (mulberry32). */
 export function rng(seed: number): () => number {
@@ -44,23 +44,23 @@ export class LocalSearch {
   /** Variables local search must not change (pins, forced alternatives). */
   fixed: Uint8Array;
 
-  constructor(private E: Engine, x: ArrayLike<number>, private random: () => number, fixed?: Uint8Array) {
-    this.fixed = fixed ?? new Uint8Array(E.n);
+  constructor(private engine: Engine, x: ArrayLike<number>, private random: () => number, fixed?: Uint8Array) {
+    this.fixed = fixed ?? new Uint8Array(engine.n);
     this.x = Int32Array.from(x);
     let maxK = 1;
-    for (let i = 0; i < E.n; i++) if (E.card[i]! > maxK) maxK = E.card[i]!;
+    for (let i = 0; i < engine.n; i++) if (engine.card[i]! > maxK) maxK = engine.card[i]!;
     this.acc = new Float64Array(maxK);
     this.acc2 = new Float64Array(maxK);
-    this.sums = new Float64Array(E.ops.length);
-    this.counting = E.ops.map((op) => op instanceof CompactOp);
-    for (let i = 0; i < E.n; i++) this.hold(i, this.x[i]!, true);
-    E.ops.forEach((op, oi) => {
+    this.sums = new Float64Array(engine.ops.length);
+    this.counting = engine.ops.map((op) => op instanceof CompactOp);
+    for (let i = 0; i < engine.n; i++) this.hold(i, this.x[i]!, true);
+    engine.ops.forEach((op, oi) => {
       if (op instanceof CompactOp) this.sums[oi] = op.sumOf(this.x, -1);
     });
   }
 
   private hold(i: number, v: number, add: boolean): void {
-    const g = this.E.keys.group[i]![v]!;
+    const g = this.engine.keys.group[i]![v]!;
     if (g === 0) return;
     let s = this.holders.get(g);
     if (!s) this.holders.set(g, (s = new Set()));
@@ -70,12 +70,12 @@ export class LocalSearch {
 
   /** acc[v] = score as a function of x_i = v, others fixed, up to a constant. */
   local(i: number, acc: Float64Array): void {
-    const E = this.E, K = E.card[i]!;
-    acc.set(E.theta[i]!.subarray(0, K));
-    const ao = E.adjOp[i]!, as = E.adjSlot[i]!;
+    const engine = this.engine, K = engine.card[i]!;
+    acc.set(engine.theta[i]!.subarray(0, K));
+    const ao = engine.adjOp[i]!, as = engine.adjSlot[i]!;
     for (let k = 0; k < ao.length; k++) {
       const oi = ao[k]!, s = as[k]!;
-      const op = E.ops[oi]!;
+      const op = engine.ops[oi]!;
       if (this.counting[oi]) {
         const c = op as CompactOp;
         c.condFromSum(s, this.sums[oi]! - c.weightAt(s, this.x[i]!), acc);
@@ -86,11 +86,11 @@ export class LocalSearch {
   set(i: number, v: number): void {
     const old = this.x[i]!;
     if (old === v) return;
-    const ao = this.E.adjOp[i]!, as = this.E.adjSlot[i]!;
+    const ao = this.engine.adjOp[i]!, as = this.engine.adjSlot[i]!;
     for (let k = 0; k < ao.length; k++) {
       const oi = ao[k]!, s = as[k]!;
       if (this.counting[oi]) {
-        const c = this.E.ops[oi] as CompactOp;
+        const c = this.engine.ops[oi] as CompactOp;
         this.sums[oi]! += c.weightAt(s, v) - c.weightAt(s, old);
       }
     }
@@ -114,7 +114,7 @@ export class LocalSearch {
     for (const i of order) {
       if (this.late(++step)) break;
       if (this.fixed[i]) continue;
-      const K = this.E.card[i]!;
+      const K = this.engine.card[i]!;
       this.local(i, acc);
       const cur = this.x[i]!;
       let best = cur;
@@ -130,24 +130,24 @@ export class LocalSearch {
   /** One pass of key swaps / ejections; returns the total gain. */
   swapPass(order: number[], candidates = 3): number {
     let gain = 0, step = 0;
-    const E = this.E, acc = this.acc, acc2 = this.acc2;
+    const engine = this.engine, acc = this.acc, acc2 = this.acc2;
     for (const a of order) {
       if (this.late(++step)) break;
       if (this.fixed[a]) continue;
-      const K = E.card[a]!;
+      const K = engine.card[a]!;
       this.local(a, acc);
       const cur = this.x[a]!;
       const base = acc[cur]!;
       const cands: number[] = [];
       for (let v = 0; v < K; v++) {
-        if (v === cur || E.keys.group[a]![v] === 0) continue;
-        const hs = this.holders.get(E.keys.group[a]![v]!);
+        if (v === cur || engine.keys.group[a]![v] === 0) continue;
+        const hs = this.holders.get(engine.keys.group[a]![v]!);
         if (!hs || hs.size === 0) continue;
         cands.push(v);
       }
       cands.sort((p, q) => acc[q]! - acc[p]!);
       for (const v of cands.slice(0, candidates)) {
-        const hs = this.holders.get(E.keys.group[a]![v]!);
+        const hs = this.holders.get(engine.keys.group[a]![v]!);
         if (!hs) continue;
         const b = hs.values().next().value as number | undefined;
         if (b === undefined || b === a || this.fixed[b]) continue;
@@ -156,7 +156,7 @@ export class LocalSearch {
         this.local(b, acc2);
         const xb = this.x[b]!;
         let vb = xb;
-        for (let u = 0; u < E.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
+        for (let u = 0; u < engine.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
         const db = acc2[vb]! - acc2[xb]!;
         if (da + db > EPS) {
           this.set(b, vb);
@@ -176,14 +176,14 @@ export class LocalSearch {
    */
   guided(target: Int32Array, order: number[]): number {
     let gain = 0, step = 0;
-    const E = this.E, acc = this.acc, acc2 = this.acc2;
+    const engine = this.engine, acc = this.acc, acc2 = this.acc2;
     for (const a of order) {
       if (this.late(++step)) break;
       const v = target[a]!, cur = this.x[a]!;
       if (v === cur || this.fixed[a]) continue;
       this.local(a, acc);
       const da = acc[v]! - acc[cur]!;
-      const g = E.keys.group[a]![v]!;
+      const g = engine.keys.group[a]![v]!;
       const hs = g !== 0 ? this.holders.get(g) : undefined;
       const b = hs && hs.size ? (hs.values().next().value as number) : -1;
       this.set(a, v);
@@ -192,7 +192,7 @@ export class LocalSearch {
         this.local(b, acc2);
         const xb = this.x[b]!;
         let vb = xb;
-        for (let u = 0; u < E.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
+        for (let u = 0; u < engine.card[b]!; u++) if (acc2[u]! > acc2[vb]! + EPS) vb = u;
         db = acc2[vb]! - acc2[xb]!;
         if (da + db >= -EPS) {
           this.set(b, vb);
@@ -212,7 +212,7 @@ export class LocalSearch {
   run(deadline: number, maxRounds = 100): number {
     this.deadline = deadline;
     this.converged = false;
-    const order = shuffle(Array.from({ length: this.E.n }, (_, i) => i), this.random);
+    const order = shuffle(Array.from({ length: this.engine.n }, (_, i) => i), this.random);
     for (let r = 0; r < maxRounds; r++) {
       let g = this.icmPass(order);
       if (this.clock() > deadline) break;
@@ -225,15 +225,15 @@ export class LocalSearch {
         if (this.clock() > deadline) break;
       }
     }
-    return engineScore(this.E, this.x);
+    return engineScore(this.engine, this.x);
   }
   /** Whether the last run reached a local optimum (no improving move or swap) before its deadline. */
   converged = false;
 }
 
 /** Improve x in place with moves and swaps; returns the big-M score. */
-export function improve(E: Engine, x: Int32Array, seed: number, deadline: number, fixed?: Uint8Array): number {
-  const ls = new LocalSearch(E, x, rng(seed), fixed);
+export function improve(engine: Engine, x: Int32Array, seed: number, deadline: number, fixed?: Uint8Array): number {
+  const ls = new LocalSearch(engine, x, rng(seed), fixed);
   const s = ls.run(deadline);
   x.set(ls.x);
   return s;

@@ -54,15 +54,15 @@ describe('forced values (max-marginals) on a loopy model past the exact limit', 
     // 25 models: with branch and bound in the dual pass, 2 of these 1,050 bounds were too low (measured).
     for (let seed = 1; seed <= 25; seed++) {
       const model = randomModel(seed);
-      const E = buildEngine(model);
-      expect(exactlySolvable(E)).toBe(false);
+      const engine = buildEngine(model);
+      expect(exactlySolvable(engine)).toBe(false);
       const truth = bruteForce(model);
       if (truth.best === -Infinity) continue; // nothing feasible: no run to weigh
       // the "run": the exact optimum, as a finished run would hold; bounds from the server's short dual pass
       const base = Int32Array.from(truth.arg);
       const dual = await dualPass(model, base, 300);
       for (let i = 0; i < N; i++) {
-        const forced = await forcedValues(model, E, base, i, dual, { budgetMs: 100, seed: 1 });
+        const forced = await forcedValues(model, engine, base, i, dual, { budgetMs: 100, seed: 1 });
         expect(forced.map((f) => f.value).sort()).toEqual(Array.from({ length: K }, (_, v) => v).filter((v) => v !== base[i]));
         for (const f of forced) {
           const exact = truth.mm[i][f.value];

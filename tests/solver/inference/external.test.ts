@@ -53,15 +53,15 @@ describe('against munkres-js (Hungarian algorithm) on assignment-structured mode
   it('unary scores + one all-different over all variables: the same optimum', () => {
     for (const [seed, n, k] of [[1, 6, 6], [2, 9, 9], [3, 8, 12], [4, 12, 12]] as const) {
       const r0 = prng(seed);
-      const S = Array.from({ length: n }, () => Array.from({ length: k }, () => Math.round(r0() * 1000) / 100));
+      const scores = Array.from({ length: n }, () => Array.from({ length: k }, () => Math.round(r0() * 1000) / 100));
       const m: Model = {
         variables: Array.from({ length: n }, (_, i) => ({ name: `task${i}`, cardinality: k })),
-        factors: [...S.map((row, i): Factor => ({ kind: 'unary', v: i, table: row })), { kind: 'allDifferent', vars: Array.from({ length: n }, (_, i) => i) }],
+        factors: [...scores.map((row, i): Factor => ({ kind: 'unary', v: i, table: row })), { kind: 'allDifferent', vars: Array.from({ length: n }, (_, i) => i) }],
       };
       // munkres minimizes cost: cost = max - score
-      const max = Math.max(...S.flat());
-      const pairs = computeMunkres(S.map((row) => row.map((s) => max - s))) as Array<[number, number]>;
-      const hungarian = pairs.reduce((a, [i, j]) => a + S[i]![j]!, 0);
+      const max = Math.max(...scores.flat());
+      const pairs = computeMunkres(scores.map((row) => row.map((s) => max - s))) as Array<[number, number]>;
+      const hungarian = pairs.reduce((a, [i, j]) => a + scores[i]![j]!, 0);
       const r = solveMapSync(m, { timeLimitMs: 30_000 });
       expect(r.feasible).toBe(true);
       expect(r.score).toBeCloseTo(hungarian, 9);
@@ -73,17 +73,17 @@ describe('against munkres-js (Hungarian algorithm) on assignment-structured mode
     const r0 = prng(21);
     const seats = 7, people = 5;
     // values 0..4 are people (keys 0..4), value 5 is "open" (key -1, score 0 and may repeat)
-    const S = Array.from({ length: seats }, () => Array.from({ length: people }, () => Math.round(r0() * 600 - 100) / 100));
+    const scores = Array.from({ length: seats }, () => Array.from({ length: people }, () => Math.round(r0() * 600 - 100) / 100));
     const m: Model = {
       variables: Array.from({ length: seats }, (_, i) => ({ name: `seat${i}`, cardinality: people + 1, keys: [0, 1, 2, 3, 4, -1] })),
-      factors: [...S.map((row, i): Factor => ({ kind: 'unary', v: i, table: [...row, 0] })), { kind: 'allDifferent', vars: Array.from({ length: seats }, (_, i) => i) }],
+      factors: [...scores.map((row, i): Factor => ({ kind: 'unary', v: i, table: [...row, 0] })), { kind: 'allDifferent', vars: Array.from({ length: seats }, (_, i) => i) }],
     };
     // Hungarian on a square matrix: people plus one dummy "open" column per seat
-    const big = Math.max(...S.flat(), 0) + 1;
-    const cost = S.map((row) => [...row.map((s) => big - s), ...Array.from({ length: seats }, () => big)]);
+    const big = Math.max(...scores.flat(), 0) + 1;
+    const cost = scores.map((row) => [...row.map((s) => big - s), ...Array.from({ length: seats }, () => big)]);
     while (cost.length < people + seats) cost.push(Array.from({ length: people + seats }, () => 0));
     const pairs = computeMunkres(cost) as Array<[number, number]>;
-    const hungarian = pairs.filter(([i, j]) => i < seats && j < people).reduce((a, [i, j]) => a + S[i]![j]!, 0);
+    const hungarian = pairs.filter(([i, j]) => i < seats && j < people).reduce((a, [i, j]) => a + scores[i]![j]!, 0);
     const r = solveMapSync(m, { timeLimitMs: 5_000 });
     expect(r.score).toBeCloseTo(hungarian, 9);
   });

@@ -17,8 +17,8 @@ describe('regression: flat hard penalties hid breaches from local search', () =>
         { kind: 'allDifferent', vars: [0, 1, 2, 3] },
       ],
     };
-    const E = buildEngine(m);
-    const ls = new LocalSearch(E, [0, 0, 0, 0], rng(1));
+    const engine = buildEngine(m);
+    const ls = new LocalSearch(engine, [0, 0, 0, 0], rng(1));
     ls.run(Date.now() + 1_000);
     expect(violatedFactors(m, ls.x)).toEqual([]);
     // and it reaches the optimum here (one seat each for persons 0 and 1, the rest open)

@@ -192,8 +192,8 @@ export class TableOp implements Op {
   cond(slot: number, x: Int32Array, acc: Float64Array): void {
     let e = 0;
     for (let j = 0; j < this.vars.length; j++) if (j !== slot) e += x[this.vars[j]!]! * this.strides[j]!;
-    const st = this.strides[slot]!;
-    for (let v = 0; v < this.cards[slot]!; v++) acc[v]! += this.t[e + v * st]!;
+    const stride = this.strides[slot]!;
+    for (let v = 0; v < this.cards[slot]!; v++) acc[v]! += this.t[e + v * stride]!;
   }
 }
 
@@ -230,17 +230,17 @@ export class PottsOp implements Op {
     this.off = denseOffsets([keys.group[a]!.length, keys.group[b]!.length]);
   }
   private one(sr: Semiring, fromSlot: number, inc: Float64Array, out: Float64Array): void {
-    const K = this.keys, S = this.scratch, w = this.w;
+    const keyInfo = this.keys, scratch = this.scratch, w = this.w;
     const toSlot = 1 - fromSlot;
-    const gf = K.group[this.vars[fromSlot]!]!, gt = K.group[this.vars[toSlot]!]!;
+    const gf = keyInfo.group[this.vars[fromSlot]!]!, gt = keyInfo.group[this.vars[toSlot]!]!;
     const fo = this.off[fromSlot]!, to = this.off[toSlot]!;
-    const now = ++S.stampNow.v;
-    const G = S.groupA;
-    groupReduce(sr, gf, inc, fo, G, S.stamp, now, this.present);
+    const now = ++scratch.stampNow.v;
+    const groupBest = scratch.groupA;
+    groupReduce(sr, gf, inc, fo, groupBest, scratch.stamp, now, this.present);
     if (sr === 'max') {
       let b1 = NEG, g1 = -1, b2 = NEG, free = NEG;
       for (const g of this.present) {
-        const v = G[g]!;
+        const v = groupBest[g]!;
         if (g === 0) {
           free = v;
           continue;
@@ -254,26 +254,26 @@ export class PottsOp implements Op {
       const all = b1 > free ? b1 : free;
       for (let x = 0; x < gt.length; x++) {
         const g = gt[x]!;
-        if (g === 0 || S.stamp[g] !== now) {
+        if (g === 0 || scratch.stamp[g] !== now) {
           out[to + x] = all;
           continue;
         }
         const o = g === g1 ? b2 : b1;
         const other = free > o ? free : o;
-        const same = G[g]! + w;
+        const same = groupBest[g]! + w;
         out[to + x] = other > same ? other : same;
       }
     } else {
       let total = NEG;
-      for (const g of this.present) total = lse2(total, G[g]!);
+      for (const g of this.present) total = lse2(total, groupBest[g]!);
       const em1 = Math.expm1(w); // e^w - 1
       for (let x = 0; x < gt.length; x++) {
         const g = gt[x]!;
-        if (g === 0 || S.stamp[g] !== now) {
+        if (g === 0 || scratch.stamp[g] !== now) {
           out[to + x] = total;
           continue;
         }
-        const sg = G[g]!;
+        const sg = groupBest[g]!;
         if (em1 >= 0) {
           out[to + x] = em1 === 0 ? total : lse2(total, sg + Math.log(em1));
           continue;
@@ -283,7 +283,7 @@ export class PottsOp implements Op {
         else {
           // cancellation risk: sum the other groups directly
           let other = NEG;
-          for (const h of this.present) if (h !== g) other = lse2(other, G[h]!);
+          for (const h of this.present) if (h !== g) other = lse2(other, groupBest[h]!);
           out[to + x] = lse2(other, sg + w);
         }
       }
@@ -351,15 +351,15 @@ export class SparseOp implements Op {
   private topV = new Float64Array(0);
   private one(sr: Semiring, fromSlot: 0 | 1, inc: Float64Array, out: Float64Array): void {
     const toSlot = 1 - fromSlot;
-    const K = this.keys, S = this.scratch, def = this.def;
-    const gf = K.group[this.vars[fromSlot]!]!, gt = K.group[this.vars[toSlot]!]!;
+    const keyInfo = this.keys, scratch = this.scratch, def = this.def;
+    const gf = keyInfo.group[this.vars[fromSlot]!]!, gt = keyInfo.group[this.vars[toSlot]!]!;
     const fo = this.off[fromSlot]!, to = this.off[toSlot]!;
-    const now = ++S.stampNow.v;
-    const G = S.groupA;
-    groupReduce(sr, gf, inc, fo, G, S.stamp, now, this.present);
+    const now = ++scratch.stampNow.v;
+    const groupBest = scratch.groupA;
+    groupReduce(sr, gf, inc, fo, groupBest, scratch.stamp, now, this.present);
     const map = this.byGroup[fromSlot];
     let all = NEG;
-    for (const h of this.present) all = sr === 'max' ? (G[h]! > all ? G[h]! : all) : lse2(all, G[h]!);
+    for (const h of this.present) all = sr === 'max' ? (groupBest[h]! > all ? groupBest[h]! : all) : lse2(all, groupBest[h]!);
     // the L+1 best groups, L = longest list: one of them is never listed with the target
     const L = this.maxList[fromSlot] + 1;
     let nTop = 0;
@@ -370,7 +370,7 @@ export class SparseOp implements Op {
       }
       const tg = this.topG, tv = this.topV;
       for (const h of this.present) {
-        const v = G[h]!;
+        const v = groupBest[h]!;
         if (nTop === L && v <= tv[L - 1]!) continue;
         let p = nTop < L ? nTop++ : L - 1;
         while (p > 0 && tv[p - 1]! < v) {
@@ -392,7 +392,7 @@ export class SparseOp implements Op {
       }
       let r = NEG;
       if (sr === 'max') {
-        for (const [h, sc] of list) if (S.stamp[h] === now && G[h]! + sc > r) r = G[h]! + sc;
+        for (const [h, sc] of list) if (scratch.stamp[h] === now && groupBest[h]! + sc > r) r = groupBest[h]! + sc;
         for (let q = 0; q < nTop; q++) {
           const h = this.topG[q]!;
           let listed = false;
@@ -407,9 +407,9 @@ export class SparseOp implements Op {
         const base = all + def;
         let add = 0, sub = 0;
         for (const [h, sc] of list) {
-          if (S.stamp[h] !== now) continue;
-          add += Math.exp(G[h]! + sc - base);
-          sub += Math.exp(G[h]! + def - base);
+          if (scratch.stamp[h] !== now) continue;
+          add += Math.exp(groupBest[h]! + sc - base);
+          sub += Math.exp(groupBest[h]! + def - base);
         }
         const val = 1 + add - sub;
         if (val > 1e-6 * (1 + add)) r = base + Math.log(val);
@@ -417,7 +417,7 @@ export class SparseOp implements Op {
           for (const h of this.present) {
             let sc = def;
             for (const e of list) if (e[0] === h) sc = e[1];
-            r = lse2(r, G[h]! + sc);
+            r = lse2(r, groupBest[h]! + sc);
           }
         }
       }
@@ -510,37 +510,37 @@ export abstract class CompactOp implements Op {
 
 /**
  * Counting factor θ = g(Σ_j w_j(x_j)). Messages by forward/backward dynamic programming
- * over sums clamped at S (g is constant from S on):
- *   F_{j+1}(min(t+w,S)) ⊕= F_j(t) + h_j(w),   B_j(t) = ⊕_w h_j(w) + B_{j+1}(min(t+w,S)),  B_n = g,
- *   out_j(w) = ⊕_t F_j(t) + B_{j+1}(min(t+w,S)),
+ * over sums clamped at lastSum (g is constant from lastSum on):
+ *   F_{j+1}(min(t+w,lastSum)) ⊕= F_j(t) + h_j(w),   B_j(t) = ⊕_w h_j(w) + B_{j+1}(min(t+w,lastSum)),  B_n = g,
+ *   out_j(w) = ⊕_t F_j(t) + B_{j+1}(min(t+w,lastSum)),
  * where h_j(w) ranges over the slot's supported states and the rest class (w = 0).
- * O(n · S · (support + 1)).
+ * O(n · lastSum · (support + 1)).
  */
 export class CountingOp extends CompactOp {
   kind = 'counting';
-  S: number;
+  lastSum: number;
   constructor(factor: number, vars: ArrayLike<number>, off: ArrayLike<number>, sup: ArrayLike<number>, wts: ArrayLike<number>, cards: ArrayLike<number>, public table: Float64Array, private scratch: Scratch) {
     super(factor, vars, off, sup, wts, cards);
-    this.S = table.length - 1;
+    this.lastSum = table.length - 1;
   }
   g(sum: number): number {
-    return this.table[sum > this.S ? this.S : sum]!;
+    return this.table[sum > this.lastSum ? this.lastSum : sum]!;
   }
   upper(): number {
     return maxOf(this.table);
   }
-  /** Graded local-search scores over 0..S (hard sums cost H per unit of distance to an allowed sum). */
+  /** Graded local-search scores over 0..lastSum (hard sums cost H per unit of distance to an allowed sum). */
   localTable: Float64Array | null = null;
-  /** Whether sums past S are hard (then each extra unit costs another H). */
+  /** Whether sums past lastSum are hard (then each extra unit costs another H). */
   tailHard = false;
   override gLocal(sum: number): number {
     const lt = this.localTable;
     if (!lt) return this.g(sum);
-    if (sum <= this.S) return lt[sum]!;
-    return this.tailHard ? lt[this.S]! - this.H * (sum - this.S) : lt[this.S]!;
+    if (sum <= this.lastSum) return lt[sum]!;
+    return this.tailHard ? lt[this.lastSum]! - this.H * (sum - this.lastSum) : lt[this.lastSum]!;
   }
   message(sr: Semiring, inc: Float64Array, incRest: Float64Array, out: Float64Array, outRest: Float64Array): void {
-    const n = this.vars.length, S = this.S, W = S + 1, g = this.table, off = this.off, wts = this.wts;
+    const n = this.vars.length, lastSum = this.lastSum, W = lastSum + 1, g = this.table, off = this.off, wts = this.wts;
     const need = 2 * (n + 1) * W;
     if (this.scratch.dp.length < need) this.scratch.dp = new Float64Array(need * 2);
     const dp = this.scratch.dp;
@@ -559,7 +559,7 @@ export class CountingOp extends CompactOp {
           dp[dst + t] = mx ? (v > dp[dst + t]! ? v : dp[dst + t]!) : lse2(dp[dst + t]!, v);
         }
         for (let k = off[j]!; k < off[j + 1]!; k++) {
-          const u = t + wts[k]! > S ? S : t + wts[k]!;
+          const u = t + wts[k]! > lastSum ? lastSum : t + wts[k]!;
           const v = f + inc[k]!;
           dp[dst + u] = mx ? (v > dp[dst + u]! ? v : dp[dst + u]!) : lse2(dp[dst + u]!, v);
         }
@@ -572,7 +572,7 @@ export class CountingOp extends CompactOp {
       for (let t = 0; t < W; t++) {
         let acc = hasRest ? ir + dp[nxt + t]! : NEG;
         for (let k = off[j]!; k < off[j + 1]!; k++) {
-          const u = t + wts[k]! > S ? S : t + wts[k]!;
+          const u = t + wts[k]! > lastSum ? lastSum : t + wts[k]!;
           const v = inc[k]! + dp[nxt + u]!;
           acc = mx ? (v > acc ? v : acc) : lse2(acc, v);
         }
@@ -589,7 +589,7 @@ export class CountingOp extends CompactOp {
         const v0 = ft + dp[nb + t]!;
         rest = mx ? (v0 > rest ? v0 : rest) : lse2(rest, v0);
         for (let k = off[j]!; k < off[j + 1]!; k++) {
-          const u = t + wts[k]! > S ? S : t + wts[k]!;
+          const u = t + wts[k]! > lastSum ? lastSum : t + wts[k]!;
           const v = ft + dp[nb + u]!;
           out[k] = mx ? (v > out[k]! ? v : out[k]!) : lse2(out[k]!, v);
         }

@@ -15,12 +15,12 @@ function lse(v: number[]): number {
 /** Compare every slot's message of the single operator(s) compiled from `f` with brute force. */
 function checkFactor(variables: Model['variables'], f: Factor, seed: number) {
   const model: Model = { variables, factors: [f] };
-  const E = buildEngine(model);
+  const engine = buildEngine(model);
   const r = prng(seed);
   const scope = scopeOf(f);
   const full = variables.map((v) => Array.from({ length: v.cardinality }, () => r() * 4 - 2));
   for (const sr of ['max', 'sum'] as const) {
-    for (const op of E.ops) {
+    for (const op of engine.ops) {
       const n = op.vars.length, len = op.off[n]!;
       const inc = new Float64Array(len), out = new Float64Array(len), incRest = new Float64Array(n), outRest = new Float64Array(n);
       for (let s = 0; s < n; s++) {
@@ -62,7 +62,7 @@ function checkFactor(variables: Model['variables'], f: Factor, seed: number) {
             const k = Array.from(op.sup.subarray(op.off[s]!, op.off[s + 1]!)).indexOf(xs);
             got = k >= 0 ? out[op.off[s]! + k]! : outRest[s]!;
           }
-          if (want === -Infinity) expect(got).toBeLessThan(-E.H / 2);
+          if (want === -Infinity) expect(got).toBeLessThan(-engine.H / 2);
           else expect(got).toBeCloseTo(want, 8);
         }
       }
@@ -118,11 +118,11 @@ describe('memory: structured factors are not expanded', () => {
     const m = rosterModel({ people: 200, days: 28, shiftsPerDay: 3, seatsPerShift: 24, dayAllDifferent: true, weeklyCap: 5, pairings: true, seed: 3 });
     expect(m.variables.length).toBeGreaterThanOrEqual(2000);
     expect(Math.max(...m.variables.map((v) => v.cardinality))).toBe(201);
-    const E = buildEngine(m);
-    expect(E.ops.some((op) => op.kind === 'pairwise' || op.kind === 'table')).toBe(false);
+    const engine = buildEngine(m);
+    expect(engine.ops.some((op) => op.kind === 'pairwise' || op.kind === 'table')).toBe(false);
     // total message storage stays within a few K-vectors per variable and factor scope
-    const entries = E.ops.reduce((a, op) => a + op.off[op.vars.length]!, 0);
-    const pairwiseScopes = E.ops.filter((op) => !op.sup).length;
-    expect(entries).toBeLessThan(2 * 201 * pairwiseScopes + 10 * E.ops.reduce((a, op) => a + (op.sup ? op.vars.length : 0), 0));
+    const entries = engine.ops.reduce((a, op) => a + op.off[op.vars.length]!, 0);
+    const pairwiseScopes = engine.ops.filter((op) => !op.sup).length;
+    expect(entries).toBeLessThan(2 * 201 * pairwiseScopes + 10 * engine.ops.reduce((a, op) => a + (op.sup ? op.vars.length : 0), 0));
   }, 60_000);
 });

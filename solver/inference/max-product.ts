@@ -1,0 +1,97 @@
+/**
+ * Damped loopy max-product (max-sum), sequential schedule. Its bound is the dual value of its
+ * messages read as a reparametrisation (valid, usually looser than MPLP's). Exact after two
+ * passes on a forest (exact.ts runs those).
+ */
+import type { Model } from '../model/types';
+import { AnytimeRun, runToEnd, runYielding, startRun, type RunSteps } from './anytime';
+import type { Engine } from './engine';
+import { NEG } from './factor-operators';
+import { ensureBound, newLoopyRun, offerStarts, repairRestarts, sweeps, tabuPhase } from './loopy';
+import { tabuApplies } from './tabu';
+import type { MapResult, MapSolver } from './map-solver';
+import { OperatorBuffers, newMessageState, productUpdate, type MessageState } from './message-state';
+import { DEFAULT_MAX_PRODUCT_OPTIONS, withDefaults, type MaxProductOptions } from './options';
+
+/**
+ * One max-product update of operator c:
+ *   m_{c→i}(x_i) ← d·m_{c→i}(x_i) + (1-d)·[ max_{x_c\i} (θ_c + Σ_{j≠i} (b_j - m_{c→j})) - norm ],
+ * normalised to max 0 (dense) or rest 0 (compact). Returns the largest change.
+ */
+export function maxProductUpdate(engine: Engine, state: MessageState, oi: number, buf: OperatorBuffers, damping: number): number {
+  return productUpdate(engine, state, oi, buf, false, damping);
+}
+
+/**
+ * Dual bound for ANY message state, treating messages as a reparametrization:
+ * U = Σ_i max b_i + Σ_c max_{x_c} [θ_c - Σ_i m_{c→i}]. Used for loopy max-product runs.
+ */
+export function reparametrizationBound(engine: Engine, state: MessageState, buf: OperatorBuffers): number {
+  let u = engine.constant;
+  for (const b of state.belief) {
+    let m = NEG;
+    for (let x = 0; x < b.length; x++) if (b[x]! > m) m = b[x]!;
+    u += m;
+  }
+  for (let oi = 0; oi < engine.ops.length; oi++) {
+    const op = engine.ops[oi]!;
+    buf.prepare(op);
+    const m = state.msg[oi]!, n = op.vars.length, len = op.off[n]!;
+    for (let k = 0; k < len; k++) buf.inc[k] = -m[k]!;
+    for (let s = 0; s < n; s++) buf.incRest[s] = op.sup && op.restCount![s]! > 0 ? 0 : NEG;
+    op.message('max', buf.inc, buf.incRest, buf.out, buf.outRest);
+    let best = NEG;
+    for (let k = 0; k < op.off[1]!; k++) if (buf.out[k]! + buf.inc[k]! > best) best = buf.out[k]! + buf.inc[k]!;
+    if (op.sup && op.restCount![0]! > 0 && buf.outRest[0]! > best) best = buf.outRest[0]!;
+    u += best;
+  }
+  return u;
+}
+
+/** The max-product run on a compiled engine. */
+export function* maxProductSteps(run: AnytimeRun, opt: MaxProductOptions, signal: AbortSignal | undefined): RunSteps {
+  const engine = run.engine, now = run.now;
+  const state = newMessageState(engine);
+  const buf = new OperatorBuffers();
+  const loopy = newLoopyRun(run, state, opt.seed);
+  offerStarts(loopy, opt);
+  run.progress();
+  yield;
+  let stopReason = yield* sweeps(
+    loopy,
+    {
+      update: (oi) => void maxProductUpdate(engine, state, oi, buf, opt.damping),
+      bound: (iteration) => (iteration % opt.decodeEvery === 0 ? reparametrizationBound(engine, state, buf) : Infinity),
+      stopAtStall: false,
+    },
+    opt,
+    signal,
+  );
+  if (stopReason === 'stalled' && !run.gapClosed() && now() < run.deadline && !signal?.aborted) {
+    if (opt.tabuSearch && tabuApplies(engine)) yield* tabuPhase(loopy, signal, run.deadline);
+    else yield* repairRestarts(loopy, signal);
+    stopReason = signal?.aborted ? 'aborted' : 'time';
+  }
+  ensureBound(run);
+  run.finish('maxProduct', run.gapClosed() ? 'gap' : stopReason, false, state.belief);
+}
+
+function maxProductRun(model: Model, options: Partial<MaxProductOptions> | undefined): { run: AnytimeRun; opt: MaxProductOptions } {
+  const opt = withDefaults(DEFAULT_MAX_PRODUCT_OPTIONS, options);
+  return { run: startRun(model, opt), opt };
+}
+
+export const maxProductSolver: MapSolver<MaxProductOptions> = {
+  name: 'maxProduct',
+  defaults: DEFAULT_MAX_PRODUCT_OPTIONS,
+  async solve(model, options, signal): Promise<MapResult> {
+    const { run, opt } = maxProductRun(model, options);
+    await runYielding(maxProductSteps(run, opt, signal));
+    return run.result!;
+  },
+  solveSync(model, options, signal): MapResult {
+    const { run, opt } = maxProductRun(model, options);
+    runToEnd(maxProductSteps(run, opt, signal));
+    return run.result!;
+  },
+};
