@@ -7,6 +7,9 @@ import type { WorkboxPlugin } from 'workbox-core/types';
 import { fontFileNames } from '../../constants/fonts';
 import { OFFLINE_API_PATHS, OFFLINE_CACHE, OFFLINE_OWNER_KEY, SAVED_AT_HEADER } from '../../shared/offline';
 import { HASHED_FILE } from '../web/hashed';
+import { APP_SHELL, NOT_FOUND_PAGE, PRECOMPRESSED, ROUTES_FILE } from '../web/build-files';
+
+export { APP_SHELL, NOT_FOUND_PAGE, PRECOMPRESSED, ROUTES_FILE };
 
 /**
  * What the web build does after `expo export -p web`: declares the fonts in index.html and writes
@@ -25,10 +28,6 @@ export async function finishWebBuild(outDir: string): Promise<void> {
   await precompress(outDir);
 }
 
-/** As server/web/static.ts reads them. A dotfile: express.static does not serve it. */
-export const ROUTES_FILE = '.rotaloom-routes.json';
-/** The page unknown addresses get with their 404 (server/web/static.ts). */
-export const NOT_FOUND_PAGE = 'not-found.html';
 
 /** One address of the app: its route file's path, the pattern the address matches, what its page needs besides the shell. */
 export interface WebRoute {
@@ -101,8 +100,6 @@ export function preloadScript(routes: WebRoute[]): string {
   );
 }
 
-/** What a browser may be sent Brotli-compressed: text, and the fonts (TrueType shrinks by half). */
-export const PRECOMPRESSED = /\.(js|html|css|json|webmanifest|svg|ttf)$/;
 
 /**
  * A Brotli copy (`x.js.br`, quality 11) beside every text file of the build, which
@@ -140,8 +137,6 @@ export function dropEmptyTitle(outDir: string, page = 'index.html'): void {
   writeFileSync(indexFile, readFileSync(indexFile, 'utf8').replace(/<title data-rh="true"><\/title>/, ''));
 }
 
-/** The page every address but the landing page gets (server/web/static.ts, the service worker). */
-export const APP_SHELL = 'app-shell.html';
 
 /** What hooks/api/get-session.ts asks for first on every page. */
 const SESSION_PATH = '/api/auth/session';

@@ -2,12 +2,7 @@ import express, { Router, type Request, type Response } from 'express';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { HASHED_FILE } from './hashed';
-
-/** As server/bootstrap/web-finish.ts names them (not imported: that module pulls in workbox-build). */
-const APP_SHELL = 'app-shell.html';
-const NOT_FOUND_PAGE = 'not-found.html';
-const ROUTES_FILE = '.rotaloom-routes.json';
-const PRECOMPRESSED = /\.(js|html|css|json|webmanifest|svg|ttf)$/;
+import { APP_SHELL, NOT_FOUND_PAGE, PRECOMPRESSED, ROUTES_FILE } from './build-files';
 
 /**
  * Serves the exported web app. The landing page gets index.html, which the build rendered with its
