@@ -12,6 +12,13 @@ export function addCounts(into: LedgerCounts, more: LedgerCounts): LedgerCounts 
   return into;
 }
 
+/** Each count over `n` (a per-person average), to the hundredth as sums are kept. */
+export function dividedCounts(c: LedgerCounts, n: number): LedgerCounts {
+  const out = zeroCounts();
+  for (const k of COUNT_KEYS) out[k] = Math.round((c[k] / n) * 100) / 100;
+  return out;
+}
+
 export interface PeriodData {
   timeZone: string;
   /** The period clipped to the ledger's range. */

@@ -1,24 +1,12 @@
 import type { Request } from 'express';
 import { ApiRoutes, STAFF_UP } from '../http/routes';
 import { validate } from '../http/validate';
-import { ledgerQuery, MIN_COLLEAGUES, type LedgerCounts, type MyLedgerAnswer } from '../../shared/api/ledger';
+import { ledgerQuery, MIN_COLLEAGUES, type MyLedgerAnswer } from '../../shared/api/ledger';
 import { me } from '../staff/router';
-import { addCounts, zeroCounts } from './count';
+import { addCounts, dividedCounts, zeroCounts } from './count';
 import { ledger } from './service';
 
 const ws = (req: Request) => req.auth!.workspaceId;
-
-const counts = (c: LedgerCounts): LedgerCounts => {
-  const out = zeroCounts();
-  for (const k of Object.keys(out) as Array<keyof LedgerCounts>) out[k] = c[k];
-  return out;
-};
-
-const divided = (c: LedgerCounts, n: number): LedgerCounts => {
-  const out = zeroCounts();
-  for (const k of Object.keys(out) as Array<keyof LedgerCounts>) out[k] = Math.round((c[k] / n) * 100) / 100;
-  return out;
-};
 
 /**
  * /api/me/ledger: a person's own line beside the team's per-person average, no one else's line.
@@ -36,7 +24,7 @@ export function myLedgerRouter() {
     const byPeriod = all.team.byPeriod.map((t) => {
       const people = all.people.filter((p) => p.byPeriod.some((b) => b.rosterId === t.rosterId)).length;
       const colleagues = people - (own?.byPeriod.some((b) => b.rosterId === t.rosterId) ? 1 : 0);
-      return { rosterId: t.rosterId, people, average: colleagues >= MIN_COLLEAGUES ? divided(counts(t), people) : null };
+      return { rosterId: t.rosterId, people, average: colleagues >= MIN_COLLEAGUES ? dividedCounts(t, people) : null };
     });
     const shown = byPeriod.filter((t) => t.average !== null);
     const average = zeroCounts();
@@ -44,7 +32,7 @@ export function myLedgerRouter() {
     for (const t of shown) {
       addCounts(average, t.average!);
       const mineThen = own?.byPeriod.find((b) => b.rosterId === t.rosterId);
-      if (mineThen) addCounts(ownShown, counts(mineThen));
+      if (mineThen) addCounts(ownShown, mineThen);
     }
     const answer: MyLedgerAnswer = {
       from: all.from,
