@@ -70,8 +70,9 @@ export class LocalSearch {
 
   /** acc[v] = score as a function of x_i = v, others fixed, up to a constant. */
   local(i: number, acc: Float64Array): void {
-    const engine = this.engine, K = engine.card[i]!;
-    acc.set(engine.theta[i]!.subarray(0, K));
+    const engine = this.engine;
+    // theta[i] has the variable's cardinality: copied as it is, no view per call
+    acc.set(engine.theta[i]!);
     const ao = engine.adjOp[i]!, as = engine.adjSlot[i]!;
     for (let k = 0; k < ao.length; k++) {
       const oi = ao[k]!, s = as[k]!;

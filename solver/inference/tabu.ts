@@ -51,9 +51,10 @@ export class TabuSearch {
   private current: number;
   private local: Float64Array;
   private offset: Int32Array;
+  /** Per variable, its own stretch of `local` (made once: LocalSearch.local writes into it directly). */
+  private localOf: Float64Array[];
   private neighbours: Int32Array[];
   private tabuUntil: Float64Array;
-  private acc: Float64Array;
   private sinceBest = 0;
   private readonly tenure: number;
   private readonly stagnation: number;
@@ -71,13 +72,9 @@ export class TabuSearch {
     this.current = engineScore(engine, this.ls.x);
     this.bestScore = this.current;
     this.offset = new Int32Array(n + 1);
-    let maxK = 1;
-    for (let i = 0; i < n; i++) {
-      this.offset[i + 1] = this.offset[i]! + engine.card[i]!;
-      maxK = Math.max(maxK, engine.card[i]!);
-    }
+    for (let i = 0; i < n; i++) this.offset[i + 1] = this.offset[i]! + engine.card[i]!;
     this.local = new Float64Array(this.offset[n]!);
-    this.acc = new Float64Array(maxK);
+    this.localOf = Array.from({ length: n }, (_, i) => this.local.subarray(this.offset[i]!, this.offset[i + 1]!));
     this.neighbours = Array.from({ length: n }, (_, i) => {
       const seen = new Set<number>();
       for (const oi of engine.adjOp[i]!) for (const j of engine.ops[oi]!.vars) if (j !== i) seen.add(j);
@@ -91,8 +88,7 @@ export class TabuSearch {
   }
 
   private refresh(i: number): void {
-    this.ls.local(i, this.acc);
-    this.local.set(this.acc.subarray(0, this.engine.card[i]!), this.offset[i]!);
+    this.ls.local(i, this.localOf[i]!);
   }
 
   private move(i: number, v: number, gain: number): void {
