@@ -1,7 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Express } from 'express';
-import Holidays from 'date-holidays';
-import { TZDate } from '@date-fns/tz';
 import { isWeekend, parseISO } from 'date-fns';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp, makeWorkspace, signedIn } from '../auth/helpers';
@@ -11,29 +9,16 @@ import { scoreRoster } from '../../../solver/roster';
 import type { Workspace } from '../../../server/db/models';
 import { makeApiRoster } from '../rosters/fixtures';
 import { publishDirectly, seatsOf } from '../staff/publish-helper';
+import { isNightSpan, publicHolidays, zoneHours } from './direct-count';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>['agent'];
 
-/** Elapsed hours of a local span in London, by @date-fns/tz (an independent zone implementation). */
-const londonHours = (a: string, b: string) => {
-  const at = (s: string) => new TZDate(Number(s.slice(0, 4)), Number(s.slice(5, 7)) - 1, Number(s.slice(8, 10)), Number(s.slice(11, 13)), Number(s.slice(14, 16)), 'Europe/London').getTime();
-  return (at(b) - at(a)) / 3_600_000;
-};
-
 /**
- * Night work as Directive 2003/88/EC Art. 2(3)–(4) puts it: a period including 00:00–05:00 (here
- * 23:00–06:00, seven hours), and a night shift one with at least three hours in it. Counted by
- * wall-clock minutes here, independently of shared/roster/derive.
+ * Elapsed hours of a local span in London. The counts below are made apart from server/ledger with
+ * direct-count.ts's pieces (hours, Directive 2003/88/EC night work, public holidays); not with its
+ * directCounts, which counts whole periods only and this test counts a range too.
  */
-const isNight = (start: string, end: string) => {
-  const minutes = (s: string) => Date.UTC(Number(s.slice(0, 4)), Number(s.slice(5, 7)) - 1, Number(s.slice(8, 10)), Number(s.slice(11, 13)), Number(s.slice(14, 16))) / 60_000;
-  let inNight = 0;
-  for (let t = minutes(start); t < minutes(end); t++) {
-    const m = ((t % 1440) + 1440) % 1440;
-    if (m >= 23 * 60 || m < 6 * 60) inNight++;
-  }
-  return inNight >= 180;
-};
+const londonHours = (a: string, b: string) => zoneHours(a, b, 'Europe/London');
 
 describe('fairness ledger across published rosters', () => {
   let db: TestDb;
@@ -107,13 +92,13 @@ describe('fairness ledger across published rosters', () => {
     expect((await coordinator.post('/api/ledger/holidays').send({ date: '2027-02-30', name: 'Nope' })).body.error.fields[0].path).toBe('body.date');
     const now = (await coordinator.get('/api/ledger/settings')).body;
     // Good Friday and Easter Monday 2027 in England, as date-holidays has them.
-    const dh = new Holidays('GB', 'ENG').getHolidays(2027).filter((h) => h.type === 'public').map((h) => h.date.slice(0, 10));
+    const dh = publicHolidays('GB', 'ENG', 2027);
     expect(dh).toEqual(expect.arrayContaining(['2027-03-26', '2027-03-29']));
     expect(now.holidays.filter((h: { date: string }) => h.date >= '2027-03-22' && h.date <= '2027-04-04').map((h: { date: string; source: string }) => `${h.date} ${h.source}`)).toEqual(['2027-03-24 entered', '2027-03-26 region', '2027-03-29 region']);
   });
 
   it('counts per person what the stored assignments say, over the whole period and a range', async () => {
-    const holidays = new Set([...new Holidays('GB', 'ENG').getHolidays(2027).filter((h) => h.type === 'public').map((h) => h.date.slice(0, 10)), '2027-03-24']);
+    const holidays = new Set([...publicHolidays('GB', 'ENG', 2027), '2027-03-24']);
     const roster = (await Roster.findByPk(rosterId))!;
     const rows = await AssignmentRow.findAll({ where: { runId: roster.publishedRunId! } });
     const seats = await SeatRow.findAll({ where: { id: rows.map((r) => r.seatId) } });
@@ -129,7 +114,7 @@ describe('fairness ledger across published rosters', () => {
         const c = out.get(r.personId) ?? { shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0 };
         c.shifts++;
         c.hours += londonHours(shift.startsLocal, shift.endsLocal);
-        if (isNight(shift.startsLocal, shift.endsLocal)) c.nights++;
+        if (isNightSpan(shift.startsLocal, shift.endsLocal)) c.nights++;
         if (isWeekend(parseISO(shift.startsLocal.slice(0, 10)))) c.weekendShifts++;
         if (holidays.has(shift.startsLocal.slice(0, 10))) c.holidayShifts++;
         if (against(shift) > 0) c.unpopularShifts++;
