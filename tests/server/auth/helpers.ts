@@ -61,9 +61,13 @@ export async function makePerson(workspace: Workspace, overrides: { name?: strin
   return Person.create({ workspaceId: workspace.id, name: overrides.name ?? 'Fixture Person', email: overrides.email ?? null, userId: overrides.userId ?? null, contractedHours: 30, skills: [] });
 }
 
-/** A signed-in agent for a new user with this role in the workspace. */
-export async function signedIn(app: Express, workspace: Workspace, role: Role) {
+/**
+ * A signed-in agent for a new user with this role in the workspace; with `personId`, the user is
+ * that person's account (as "my shifts", "my ledger" and the calendar feed need).
+ */
+export async function signedIn(app: Express, workspace: Workspace, role: Role, options: { personId?: number } = {}) {
   const user = await makeUser({ workspace, role });
+  if (options.personId !== undefined) await Person.update({ userId: user.id }, { where: { id: options.personId } });
   const a = agent(app);
   const res = await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD });
   if (res.status !== 200) throw new Error(`fixture sign-in failed: ${res.status} ${JSON.stringify(res.body)}`);

@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
-import { agent, makeApp, makePerson, makeUser, makeWorkspace, PASSWORD, signedIn } from '../auth/helpers';
-import { Person, type Workspace } from '../../../server/db/models';
+import { agent, makeApp, makePerson, makeWorkspace, signedIn } from '../auth/helpers';
+import type { Workspace } from '../../../server/db/models';
 import { AssignmentRow, Roster, SeatRow, ShiftRow, WishRow } from '../../../server/rosters/models';
 import { OfferRow, SwapRow } from '../../../server/swaps/models';
 import { makeApiRoster } from '../rosters/fixtures';
@@ -10,15 +10,6 @@ import { publishDirectly, seatsOf } from '../staff/publish-helper';
 import { directCounts, publicHolidays, type Direct } from './direct-count';
 
 type Agent = ReturnType<typeof agent>;
-
-async function staffAgent(app: Express, workspace: Workspace, personId: number): Promise<Agent> {
-  const user = await makeUser({ workspace, role: 'staff' });
-  await Person.update({ userId: user.id }, { where: { id: personId } });
-  const a = agent(app);
-  const res = await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD });
-  if (res.status !== 200) throw new Error(`sign-in ${res.status}`);
-  return a;
-}
 
 /** Every value of a key anywhere in a JSON answer. */
 function valuesOf(body: unknown, key: string): unknown[] {
@@ -93,7 +84,7 @@ describe('a staff member’s own ledger', () => {
     await publishDirectly(workspace.id, week, weekSeats.map((s, i) => ({ seatId: s.seatId, personId: i % 2 === 0 ? a.id : b.id })));
 
     expect((await coordinator.put('/api/ledger/settings').send({ region: 'GB-ENG', nightWeight: 3, weekendWeight: 3, lookbackDays: 91, version: 1 })).status).toBe(200);
-    me = await staffAgent(app, workspace, a.id);
+    me = (await signedIn(app, workspace, 'staff', { personId: a.id })).agent;
 
     const holidays = new Set(publicHolidays('GB', 'ENG', 2027));
     direct = new Map();
@@ -207,7 +198,7 @@ describe('a staff member’s own ledger', () => {
     const other = await makeWorkspace('Another house');
     const coord = (await signedIn(app, other, 'coordinator')).agent;
     const person = await makePerson(other, { name: 'Quill Ashby' });
-    const staff = await staffAgent(app, other, person.id);
+    const staff = (await signedIn(app, other, 'staff', { personId: person.id })).agent;
     const empty = await staff.get('/api/me/ledger');
     expect(empty.status).toBe(200);
     expect(empty.body).toMatchObject({ from: null, to: null, periods: [], me: null, teamSize: 0, team: { byPeriod: [], rosterIds: [] } });

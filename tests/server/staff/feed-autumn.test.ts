@@ -2,8 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
-import { agent, makeApp, makeUser, makeWorkspace, PASSWORD, signedIn } from '../auth/helpers';
-import { Person } from '../../../server/db/models';
+import { makeApp, makeWorkspace, signedIn } from '../auth/helpers';
 import { makeApiRoster } from '../rosters/fixtures';
 import { publishDirectly, seatsOf } from './publish-helper';
 import { readCalendar, readEvents } from '../helpers/ical-read';
@@ -49,10 +48,7 @@ describe('calendar feed across the autumn daylight-saving change (ambiguous loca
     });
     const [me, colleague] = fixture.people;
     const feedOf = async (personId: number) => {
-      const user = await makeUser({ workspace, role: 'staff' });
-      await Person.update({ userId: user.id }, { where: { id: personId } });
-      const a = agent(app);
-      expect((await a.post('/api/auth/sign-in').send({ email: user.email, password: PASSWORD })).status).toBe(200);
+      const a = (await signedIn(app, workspace, 'staff', { personId })).agent;
       const made = await a.post('/api/me/feed');
       expect(made.status).toBe(201);
       return { agent: a, path: new URL(made.body.url).pathname };
