@@ -5,12 +5,12 @@ import path from 'node:path';
 import vm from 'node:vm';
 import { brotliDecompressSync } from 'node:zlib';
 import express from 'express';
-import http from 'node:http';
 import request from 'supertest';
-import { APP_SHELL, DATA_FIRST, NOT_FOUND_PAGE, preloadScript, ROUTES_FILE, routeTable, writeAppShell, writeNotFoundPage } from '../../../server/bootstrap/web-finish';
+import { APP_SHELL, DATA_FIRST, NOT_FOUND_PAGE, precompress, preloadScript, ROUTES_FILE, routeTable, writeAppShell, writeNotFoundPage } from '../../../server/bootstrap/web-finish';
 import { webRouter } from '../../../server/web/static';
 import { OFFLINE_OWNER_KEY } from '../../../shared/offline';
 import { fontFileNames } from '../../../constants/fonts';
+import { rawServer } from '../helpers/raw-http';
 
 /** An export as Expo Router's static output writes it: the landing page rendered, the hydration flag, its own chunks. */
 const RENDERED = [
@@ -77,23 +77,11 @@ describe('Brotli copies made at build time', () => {
     const name = '_expo/static/js/web/entry-0123456789abcdef3.js';
     writeFileSync(path.join(dir, name), code);
     writeAppShell(dir);
-    const { precompress } = await import('../../../server/bootstrap/web-finish');
     await precompress(dir);
     const app = express().use(webRouter(dir));
-    // plain node:http, so the bytes are read as sent (supertest would decode them)
-    const server = app.listen(0, '127.0.0.1');
-    await new Promise((r) => server.once('listening', r));
-    const { port } = server.address() as import('node:net').AddressInfo;
-    const get = (url: string, encodings: string) =>
-      new Promise<{ headers: import('node:http').IncomingHttpHeaders; body: Buffer }>((resolve, reject) => {
-        http.get({ host: '127.0.0.1', port, path: url, headers: { 'Accept-Encoding': encodings } }, (r) => {
-          const chunks: Buffer[] = [];
-          r.on('data', (c: Buffer) => chunks.push(c));
-          r.on('end', () => resolve({ headers: r.headers, body: Buffer.concat(chunks) }));
-        }).on('error', reject);
-      });
-    const br = await get(`/${name}`, 'gzip, deflate, br');
-    const page = await get('/my-shifts', 'br');
+    const server = await rawServer(app);
+    const br = await server.get(`/${name}`, 'gzip, deflate, br');
+    const page = await server.get('/my-shifts', 'br');
     server.close();
     expect(br.headers['content-encoding']).toBe('br');
     expect(br.headers['content-type']).toMatch(/javascript/);
@@ -232,16 +220,8 @@ describe('the app’s addresses, from the static export', () => {
       expect(res.text, url).toContain('<a href="/">Back to the start</a>');
     }
     // the Brotli copy keeps the status (plain node:http: the bytes as sent)
-    const server = app.listen(0, '127.0.0.1');
-    await new Promise((r) => server.once('listening', r));
-    const { port } = server.address() as import('node:net').AddressInfo;
-    const br = await new Promise<{ status: number; headers: import('node:http').IncomingHttpHeaders; body: Buffer }>((resolve, reject) => {
-      http.get({ host: '127.0.0.1', port, path: '/no/such/page', headers: { 'Accept-Encoding': 'br' } }, (r) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => resolve({ status: r.statusCode!, headers: r.headers, body: Buffer.concat(chunks) }));
-      }).on('error', reject);
-    });
+    const server = await rawServer(app);
+    const br = await server.get('/no/such/page', 'br');
     server.close();
     expect(br.status).toBe(404);
     expect(br.headers['content-encoding']).toBe('br');
@@ -261,6 +241,5 @@ async function finishSteps(dir: string): Promise<void> {
   writeAppShell(dir, routes);
   writeNotFoundPage(dir);
   writeFileSync(path.join(dir, ROUTES_FILE), JSON.stringify({ routes }));
-  const { precompress } = await import('../../../server/bootstrap/web-finish');
   await precompress(dir);
 }

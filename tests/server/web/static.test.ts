@@ -3,11 +3,11 @@ import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import http from 'node:http';
 import request from 'supertest';
 import type { Express } from 'express';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp } from '../auth/helpers';
+import { rawServer } from '../helpers/raw-http';
 
 describe('the web app and API answers: compressed, and cached for as long as they cannot change', () => {
   let db: TestDb;
@@ -29,22 +29,13 @@ describe('the web app and API answers: compressed, and cached for as long as the
   });
 
   it('gzips the bundle and lets browsers keep a hashed file for a year (RFC 9111 max-age, immutable)', async () => {
-    // plain node:http, so the bytes on the wire are read as sent (supertest would unzip them)
-    const server = app.listen(0, '127.0.0.1');
-    await new Promise((r) => server.once('listening', r));
-    const { port } = server.address() as import('node:net').AddressInfo;
-    const res = await new Promise<{ status: number; headers: import('node:http').IncomingHttpHeaders; raw: Buffer }>((resolve, reject) => {
-      http.get({ host: '127.0.0.1', port, path: `/${bundleName}`, headers: { 'Accept-Encoding': 'gzip' } }, (r) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => resolve({ status: r.statusCode!, headers: r.headers, raw: Buffer.concat(chunks) }));
-      }).on('error', reject);
-    });
+    const server = await rawServer(app);
+    const res = await server.get(`/${bundleName}`, 'gzip');
     server.close();
     expect(res.status).toBe(200);
     expect(res.headers['content-encoding']).toBe('gzip');
     expect(res.headers['cache-control']).toBe('public, max-age=31536000, immutable');
-    const raw = res.raw;
+    const raw = res.body;
     expect(raw.length).toBeLessThan(bundle.length / 10);
     expect(gunzipSync(raw).toString()).toBe(bundle);
   });
