@@ -1,13 +1,14 @@
 /**
  * What every anytime MAP run keeps: the incumbent (scored exactly and on the big-M engine), the
  * bound, the history and progress reports, and the result; plus the two ways of driving a run
- * written as a generator (to the end, or yielding to the event loop between slices).
+ * written as a generator (to the end, or yielding to the event loop between slices), and the
+ * MapSolver every algorithm is made into from its run (`anytimeSolver`).
  */
 import type { Model } from '../model/types';
 import { score as exactScore } from '../model/score';
 import { buildEngine, engineScore, type Engine } from './engine';
-import { relativeGap, type HistoryPoint, type MapResult, type StopReason } from './map-solver';
-import type { BaseMapOptions, Progress } from './options';
+import { relativeGap, type HistoryPoint, type MapResult, type MapSolver, type StopReason } from './map-solver';
+import { withDefaults, type BaseMapOptions, type Progress } from './options';
 
 export class AnytimeRun {
   readonly now: () => number;
@@ -178,4 +179,34 @@ export async function runYielding(steps: RunSteps): Promise<void> {
       last = Date.now();
     }
   }
+}
+
+/**
+ * The MapSolver of an algorithm written as a run: the caller's options over `defaults`, the run
+ * started on them (the engine is built on the run's clock), then driven to the end (solveSync)
+ * or with the event loop's turns between slices (solve).
+ */
+export function anytimeSolver<O extends BaseMapOptions>(
+  name: string,
+  defaults: Readonly<O>,
+  steps: (run: AnytimeRun, opt: O, signal: AbortSignal | undefined) => RunSteps,
+): MapSolver<O> {
+  const begin = (model: Model, options: Partial<O> | undefined): { run: AnytimeRun; opt: O } => {
+    const opt = withDefaults(defaults, options);
+    return { run: startRun(model, opt), opt };
+  };
+  return {
+    name,
+    defaults,
+    async solve(model, options, signal): Promise<MapResult> {
+      const { run, opt } = begin(model, options);
+      await runYielding(steps(run, opt, signal));
+      return run.result!;
+    },
+    solveSync(model, options, signal): MapResult {
+      const { run, opt } = begin(model, options);
+      runToEnd(steps(run, opt, signal));
+      return run.result!;
+    },
+  };
 }

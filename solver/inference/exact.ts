@@ -3,12 +3,12 @@
  * sum-product on forests, and the two MapSolvers built on them.
  */
 import type { Model } from '../model/types';
-import { startRun, type AnytimeRun } from './anytime';
+import { anytimeSolver, type AnytimeRun } from './anytime';
 import { NEG, lseArray } from './factor-operators';
 import { buildEngine, engineScore, isForest, type Engine } from './engine';
-import type { MapResult, MapSolver } from './map-solver';
+import type { MapSolver } from './map-solver';
 import { OperatorBuffers, gatherIncoming, newMessageState, productUpdate, type MessageState } from './message-state';
-import { DEFAULT_BASE_OPTIONS, DEFAULT_ENUMERATION_OPTIONS, withDefaults, type EnumerationOptions, type TreeOptions } from './options';
+import { DEFAULT_BASE_OPTIONS, DEFAULT_ENUMERATION_OPTIONS, type EnumerationOptions, type TreeOptions } from './options';
 import { betheLogZ } from './sum-product';
 
 export interface EnumerationResult {
@@ -193,40 +193,27 @@ export function beliefsToMarginals(belief: Float64Array[]): Float64Array[] {
 }
 
 /** Exhaustive enumeration as a MapSolver: exact, for models of at most `maxStates` joint assignments. */
-export const enumerationSolver: MapSolver<EnumerationOptions> = {
-  name: 'enumerate',
-  defaults: DEFAULT_ENUMERATION_OPTIONS,
-  solve: async (model, options) => enumerationSolver.solveSync!(model, options),
-  solveSync(model, options): MapResult {
-    const opt = withDefaults(DEFAULT_ENUMERATION_OPTIONS, options);
-    return enumerationSteps(startRun(model, opt), opt.maxStates);
-  },
-};
+export const enumerationSolver: MapSolver<EnumerationOptions> = anytimeSolver('enumerate', DEFAULT_ENUMERATION_OPTIONS, function* (run, opt) {
+  enumerationSteps(run, opt.maxStates);
+});
 
 /** Enumeration inside a run (the dispatcher's first choice on tiny models). */
-export function enumerationSteps(run: AnytimeRun, maxStates: number): MapResult {
+export function enumerationSteps(run: AnytimeRun, maxStates: number): void {
   const r = enumerateModel(run.model, maxStates);
   run.bestX = Int32Array.from(r.assignment);
   run.bound = r.score;
   run.iterations = r.states;
   run.timeToBest = run.elapsed();
   run.finish('enumerate', 'optimal', true);
-  return run.result!;
 }
 
 /** Two-pass max-product with clamped decoding as a MapSolver: exact on forest-shaped factor graphs (throws on a cycle). */
-export const treeSolver: MapSolver<TreeOptions> = {
-  name: 'tree',
-  defaults: DEFAULT_BASE_OPTIONS,
-  solve: async (model, options) => treeSolver.solveSync!(model, options),
-  solveSync(model, options): MapResult {
-    const opt = withDefaults(DEFAULT_BASE_OPTIONS, options);
-    return treeSteps(startRun(model, opt));
-  },
-};
+export const treeSolver: MapSolver<TreeOptions> = anytimeSolver('tree', DEFAULT_BASE_OPTIONS, function* (run) {
+  treeSteps(run);
+});
 
 /** The tree pass inside a run. */
-export function treeSteps(run: AnytimeRun): MapResult {
+export function treeSteps(run: AnytimeRun): void {
   const r = exactTreeMap(run.engine);
   run.bestX = r.x;
   run.bound = r.best;
@@ -234,5 +221,4 @@ export function treeSteps(run: AnytimeRun): MapResult {
   run.timeToBest = run.elapsed();
   // a forest's bound is exact for the big-M model; if that optimum breaks a hard factor, none is feasible
   run.finish('tree', 'optimal', true, r.maxMarginals);
-  return run.result!;
 }

@@ -3,15 +3,14 @@
  * messages read as a reparametrisation (valid, usually looser than MPLP's). Exact after two
  * passes on a forest (exact.ts runs those).
  */
-import type { Model } from '../model/types';
-import { AnytimeRun, runToEnd, runYielding, startRun, type RunSteps } from './anytime';
+import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import type { Engine } from './engine';
 import { NEG } from './factor-operators';
 import { ensureBound, newLoopyRun, offerStarts, repairRestarts, sweeps, tabuPhase } from './loopy';
 import { tabuApplies } from './tabu';
-import type { MapResult, MapSolver } from './map-solver';
+import type { MapSolver } from './map-solver';
 import { OperatorBuffers, newMessageState, productUpdate, type MessageState } from './message-state';
-import { DEFAULT_MAX_PRODUCT_OPTIONS, withDefaults, type MaxProductOptions } from './options';
+import { DEFAULT_MAX_PRODUCT_OPTIONS, type MaxProductOptions } from './options';
 
 /**
  * One max-product update of operator c:
@@ -76,22 +75,4 @@ export function* maxProductSteps(run: AnytimeRun, opt: MaxProductOptions, signal
   run.finish('maxProduct', run.gapClosed() ? 'gap' : stopReason, false, state.belief);
 }
 
-function maxProductRun(model: Model, options: Partial<MaxProductOptions> | undefined): { run: AnytimeRun; opt: MaxProductOptions } {
-  const opt = withDefaults(DEFAULT_MAX_PRODUCT_OPTIONS, options);
-  return { run: startRun(model, opt), opt };
-}
-
-export const maxProductSolver: MapSolver<MaxProductOptions> = {
-  name: 'maxProduct',
-  defaults: DEFAULT_MAX_PRODUCT_OPTIONS,
-  async solve(model, options, signal): Promise<MapResult> {
-    const { run, opt } = maxProductRun(model, options);
-    await runYielding(maxProductSteps(run, opt, signal));
-    return run.result!;
-  },
-  solveSync(model, options, signal): MapResult {
-    const { run, opt } = maxProductRun(model, options);
-    runToEnd(maxProductSteps(run, opt, signal));
-    return run.result!;
-  },
-};
+export const maxProductSolver: MapSolver<MaxProductOptions> = anytimeSolver('maxProduct', DEFAULT_MAX_PRODUCT_OPTIONS, maxProductSteps);

@@ -5,16 +5,15 @@
  * stalls, small models get branch and bound on the reparametrised model (exact when it
  * finishes), others the primal search of loopy.ts.
  */
-import type { Model } from '../model/types';
-import { AnytimeRun, runToEnd, runYielding, startRun, type RunSteps } from './anytime';
+import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import { branchAndBound } from './branch-bound';
 import type { Engine } from './engine';
 import { NEG } from './factor-operators';
 import { ensureBound, newLoopyRun, offerStarts, repairRestarts, sweeps, tabuPhase } from './loopy';
 import { tabuApplies } from './tabu';
-import type { MapResult, MapSolver } from './map-solver';
+import type { MapSolver } from './map-solver';
 import { OperatorBuffers, gatherIncoming, newMessageState, setSlot, type MessageState } from './message-state';
-import { DEFAULT_MPLP_OPTIONS, withDefaults, type MplpOptions } from './options';
+import { DEFAULT_MPLP_OPTIONS, type MplpOptions } from './options';
 
 /**
  * One MPLP star update of operator c (Globerson & Jaakkola 2007, generalized to
@@ -121,23 +120,5 @@ export function* mplpSteps(run: AnytimeRun, opt: MplpOptions, signal: AbortSigna
   run.finish('mplp', run.gapClosed() ? 'gap' : stopReason, false, state.belief);
 }
 
-function mplpRun(model: Model, options: Partial<MplpOptions> | undefined): { run: AnytimeRun; opt: MplpOptions } {
-  const opt = withDefaults(DEFAULT_MPLP_OPTIONS, options);
-  return { run: startRun(model, opt), opt };
-}
-
 /** MPLP on any model with at least one variable (no enumeration or tree shortcut: solve.ts decides those). */
-export const mplpSolver: MapSolver<MplpOptions> = {
-  name: 'mplp',
-  defaults: DEFAULT_MPLP_OPTIONS,
-  async solve(model, options, signal): Promise<MapResult> {
-    const { run, opt } = mplpRun(model, options);
-    await runYielding(mplpSteps(run, opt, signal));
-    return run.result!;
-  },
-  solveSync(model, options, signal): MapResult {
-    const { run, opt } = mplpRun(model, options);
-    runToEnd(mplpSteps(run, opt, signal));
-    return run.result!;
-  },
-};
+export const mplpSolver: MapSolver<MplpOptions> = anytimeSolver('mplp', DEFAULT_MPLP_OPTIONS, mplpSteps);

@@ -13,13 +13,13 @@
  * found). gap = (bound - score) / max(1, |score|).
  */
 import type { Model } from '../model/types';
-import { AnytimeRun, runToEnd, runYielding, startRun, type RunSteps } from './anytime';
+import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import { isForest, log10States, type Engine } from './engine';
 import { enumerationSteps, treeSteps } from './exact';
 import type { MapResult, MapSolver } from './map-solver';
 import { maxProductSteps } from './max-product';
 import { mplpSteps } from './mplp';
-import { DEFAULT_MAP_OPTIONS, resolveMapOptions, type MapOptions } from './options';
+import { DEFAULT_MAP_OPTIONS, type MapOptions } from './options';
 
 export type { HistoryPoint, MapResult, StopReason } from './map-solver';
 export { relativeGap } from './map-solver';
@@ -50,26 +50,8 @@ function* autoSteps(run: AnytimeRun, opt: MapOptions, signal: AbortSignal | unde
   else yield* mplpSteps(run, opt, signal);
 }
 
-function autoRun(model: Model, options: Partial<MapOptions> | undefined): { run: AnytimeRun; opt: MapOptions } {
-  const opt = resolveMapOptions(options);
-  return { run: startRun(model, opt), opt };
-}
-
 /** The 'auto' dispatcher (and every `method`) behind one MapSolver. */
-export const autoSolver: MapSolver<MapOptions> = {
-  name: 'auto',
-  defaults: DEFAULT_MAP_OPTIONS,
-  async solve(model, options, signal): Promise<MapResult> {
-    const { run, opt } = autoRun(model, options);
-    await runYielding(autoSteps(run, opt, signal));
-    return run.result!;
-  },
-  solveSync(model, options, signal): MapResult {
-    const { run, opt } = autoRun(model, options);
-    runToEnd(autoSteps(run, opt, signal));
-    return run.result!;
-  },
-};
+export const autoSolver: MapSolver<MapOptions> = anytimeSolver('auto', DEFAULT_MAP_OPTIONS, autoSteps);
 
 /**
  * Solve for the MAP assignment synchronously. The signal is checked between
