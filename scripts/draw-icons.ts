@@ -1,7 +1,8 @@
 /**
  * Draws Rotaloom's app icons (our own: three warp threads crossed by one weft, the wordmark's
  * threads) and writes them to public/icons/: the SVG, and PNGs in the sizes browsers and phones
- * ask a web app manifest for. Rasterised by the Chromium the browser tests use, so nothing is
+ * ask a web app manifest for; and public/favicon.ico, which browsers ask for on any page that names
+ * no icon (the development mail page, the server's own plain pages). Rasterised by the Chromium the browser tests use, so nothing is
  * downloaded. Run after changing the drawing: `npx tsx scripts/draw-icons.ts`; the PNGs are
  * committed, so builds do not need a browser.
  */
@@ -10,7 +11,29 @@ import path from 'node:path';
 import { chromium } from 'playwright-core';
 import { colors } from '../constants/colors';
 
-const OUT = path.resolve(import.meta.dirname, '..', 'public', 'icons');
+const PUBLIC = path.resolve(import.meta.dirname, '..', 'public');
+const OUT = path.join(PUBLIC, 'icons');
+
+/**
+ * An ICO file holding one PNG image (the ICO format's PNG entries, read by every current browser):
+ * a 6-byte header (reserved 0, type 1 = icon, one image), a 16-byte directory entry (width,
+ * height, no palette, 1 plane, 32 bits, the PNG's length and its offset 22), then the PNG.
+ */
+export function icoFromPng(png: Buffer, size: number): Buffer {
+  const head = Buffer.alloc(22);
+  head.writeUInt16LE(0, 0);
+  head.writeUInt16LE(1, 2);
+  head.writeUInt16LE(1, 4);
+  head.writeUInt8(size >= 256 ? 0 : size, 6);
+  head.writeUInt8(size >= 256 ? 0 : size, 7);
+  head.writeUInt8(0, 8);
+  head.writeUInt8(0, 9);
+  head.writeUInt16LE(1, 10);
+  head.writeUInt16LE(32, 12);
+  head.writeUInt32LE(png.length, 14);
+  head.writeUInt32LE(22, 18);
+  return Buffer.concat([head, png]);
+}
 
 /**
  * `corner` rounds the tile for icons shown as they are; maskable icons fill the square edge to
@@ -45,7 +68,9 @@ async function main() {
       const page = await browser.newPage({ viewport: { width: size, height: size }, deviceScaleFactor: 1 });
       const svg = iconSvg(corner).replace('width="512" height="512"', `width="${size}" height="${size}"`);
       await page.setContent(`<html><body style="margin:0;background:transparent">${svg}</body></html>`);
-      writeFileSync(path.join(OUT, file), await page.screenshot({ omitBackground: true, clip: { x: 0, y: 0, width: size, height: size } }));
+      const png = await page.screenshot({ omitBackground: true, clip: { x: 0, y: 0, width: size, height: size } });
+      writeFileSync(path.join(OUT, file), png);
+      if (file === 'favicon-32.png') writeFileSync(path.join(PUBLIC, 'favicon.ico'), icoFromPng(png, size));
       await page.close();
       console.log(`${file} ${size}×${size}`);
     }
