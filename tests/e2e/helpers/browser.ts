@@ -78,6 +78,10 @@ export async function signIn(page: Page, email = 'coordinator@willowmere.example
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   await page.getByTestId('sign-in-submit').click();
   await page.getByRole('navigation', { name: 'Main' }).waitFor();
+  // The first screen's own requests finish before a test moves on, as a person waits for the page:
+  // a goto while they are still out cancels them, and openPage counts a cancelled API call. The
+  // service worker, registered once someone is signed in, now competes with them for the line.
+  await page.waitForLoadState('networkidle');
 }
 
 /**
