@@ -1,14 +1,14 @@
 /**
  * The part MPLP and loopy max-product share: starting incumbents, sweeps over the operators
  * (forward and backward in turn) with the algorithm's own update and bound, decoding of the
- * beliefs every few sweeps improved by local search, the stall test, and the primal search that
- * spends what is left of the budget once the dual has stalled.
+ * beliefs every few sweeps improved by local search, the stall test, the primal search that
+ * spends what is left of the budget once the dual has stalled, and the result.
  */
 import { AnytimeRun, safeStart, unaryStart, type RunSteps } from './anytime';
 import { engineScore } from './engine';
 import { LocalSearch, rng, shuffle } from './local-search';
-import { TabuSearch } from './tabu';
-import { decodeBeliefs, type MessageState } from './message-state';
+import { TabuSearch, tabuApplies } from './tabu';
+import { decodeBeliefs, newMessageState, type MessageState } from './message-state';
 import type { StopReason } from './map-solver';
 import type { LoopyOptions } from './options';
 
@@ -34,10 +34,19 @@ export interface LoopyRun {
   random: () => number;
   /** Whether the incumbent's local search reached a local optimum. */
   incumbentConverged: boolean;
+  /**
+   * Whether the primal search is tabu search (tabu.ts): asked for (`tabuSearch`) and every
+   * operator small enough (`tabuApplies`); otherwise randomized repairs (`repairRestarts`).
+   */
+  tabu: boolean;
 }
 
-export function newLoopyRun(run: AnytimeRun, state: MessageState, seed: number): LoopyRun {
-  return { run, state, random: rng(seed), incumbentConverged: true };
+/** A loopy run at its start: messages at zero and the starting incumbents offered (offerStarts). */
+export function startLoopy(run: AnytimeRun, opt: LoopyOptions): LoopyRun {
+  const loopy: LoopyRun = { run, state: newMessageState(run.engine), random: rng(opt.seed), incumbentConverged: true, tabu: opt.tabuSearch && tabuApplies(run.engine) };
+  offerStarts(loopy, opt);
+  run.progress();
+  return loopy;
 }
 
 /**
@@ -187,6 +196,29 @@ export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, unt
     run.progress();
     yield;
   }
+}
+
+/** Whether a search after the sweeps has anything to do: the gap open, time left, no abort. */
+export function searchLeft(loopy: LoopyRun, signal: AbortSignal | undefined): boolean {
+  const run = loopy.run;
+  return !run.gapClosed() && run.now() < run.deadline && !signal?.aborted;
+}
+
+/**
+ * The primal search on a stalled dual when no exact method follows: tabu search (loopy.tabu) or
+ * randomized repairs, until the deadline. Returns the run's stop reason.
+ */
+export function* primalSearch(loopy: LoopyRun, signal: AbortSignal | undefined): Generator<void, StopReason, void> {
+  if (loopy.tabu) yield* tabuPhase(loopy, signal, loopy.run.deadline);
+  else yield* repairRestarts(loopy, signal);
+  return signal?.aborted ? 'aborted' : 'time';
+}
+
+/** The result of a loopy run that proved nothing by itself: a finite bound, 'gap' once it closed. */
+export function finishLoopy(loopy: LoopyRun, method: string, stopReason: StopReason): void {
+  const run = loopy.run;
+  ensureBound(run);
+  run.finish(method, run.gapClosed() ? 'gap' : stopReason, false, loopy.state.belief);
 }
 
 /** No sweep finished in time: the sum of each part's own maximum is always a valid bound. */

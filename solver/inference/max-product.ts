@@ -6,10 +6,9 @@
 import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import type { Engine } from './engine';
 import { NEG } from './factor-operators';
-import { ensureBound, newLoopyRun, offerStarts, repairRestarts, sweeps, tabuPhase } from './loopy';
-import { tabuApplies } from './tabu';
+import { finishLoopy, primalSearch, searchLeft, startLoopy, sweeps } from './loopy';
 import type { MapSolver } from './map-solver';
-import { OperatorBuffers, newMessageState, productUpdate, type MessageState } from './message-state';
+import { OperatorBuffers, productUpdate, type MessageState } from './message-state';
 import { DEFAULT_MAX_PRODUCT_OPTIONS, type MaxProductOptions } from './options';
 
 /**
@@ -49,12 +48,9 @@ export function reparametrizationBound(engine: Engine, state: MessageState, buf:
 
 /** The max-product run on a compiled engine. */
 export function* maxProductSteps(run: AnytimeRun, opt: MaxProductOptions, signal: AbortSignal | undefined): RunSteps {
-  const engine = run.engine, now = run.now;
-  const state = newMessageState(engine);
-  const buf = new OperatorBuffers();
-  const loopy = newLoopyRun(run, state, opt.seed);
-  offerStarts(loopy, opt);
-  run.progress();
+  const engine = run.engine;
+  const loopy = startLoopy(run, opt);
+  const state = loopy.state, buf = new OperatorBuffers();
   yield;
   let stopReason = yield* sweeps(
     loopy,
@@ -66,13 +62,8 @@ export function* maxProductSteps(run: AnytimeRun, opt: MaxProductOptions, signal
     opt,
     signal,
   );
-  if (stopReason === 'stalled' && !run.gapClosed() && now() < run.deadline && !signal?.aborted) {
-    if (opt.tabuSearch && tabuApplies(engine)) yield* tabuPhase(loopy, signal, run.deadline);
-    else yield* repairRestarts(loopy, signal);
-    stopReason = signal?.aborted ? 'aborted' : 'time';
-  }
-  ensureBound(run);
-  run.finish('maxProduct', run.gapClosed() ? 'gap' : stopReason, false, state.belief);
+  if (stopReason === 'stalled' && searchLeft(loopy, signal)) stopReason = yield* primalSearch(loopy, signal);
+  finishLoopy(loopy, 'maxProduct', stopReason);
 }
 
 export const maxProductSolver: MapSolver<MaxProductOptions> = anytimeSolver('maxProduct', DEFAULT_MAX_PRODUCT_OPTIONS, maxProductSteps);

@@ -9,10 +9,9 @@ import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import { branchAndBound } from './branch-bound';
 import type { Engine } from './engine';
 import { NEG } from './factor-operators';
-import { ensureBound, newLoopyRun, offerStarts, repairRestarts, sweeps, tabuPhase } from './loopy';
-import { tabuApplies } from './tabu';
+import { finishLoopy, primalSearch, searchLeft, startLoopy, sweeps, tabuPhase } from './loopy';
 import type { MapSolver } from './map-solver';
-import { OperatorBuffers, gatherIncoming, newMessageState, setSlot, type MessageState } from './message-state';
+import { OperatorBuffers, gatherIncoming, setSlot, type MessageState } from './message-state';
 import { DEFAULT_MPLP_OPTIONS, type MplpOptions } from './options';
 
 /**
@@ -75,49 +74,41 @@ const IDLE_RESTARTS_BEFORE_BRANCHING = 5;
 /** The MPLP run on a compiled engine (the dispatcher in solve.ts calls it after its own checks). */
 export function* mplpSteps(run: AnytimeRun, opt: MplpOptions, signal: AbortSignal | undefined): RunSteps {
   const engine = run.engine, now = run.now;
-  const state = newMessageState(engine);
-  const buf = new OperatorBuffers();
-  const loopy = newLoopyRun(run, state, opt.seed);
+  const loopy = startLoopy(run, opt);
+  const state = loopy.state, buf = new OperatorBuffers();
   const branchAllowed = engine.n <= opt.branchAndBoundMaxVars;
-  offerStarts(loopy, opt);
-  run.progress();
   yield;
-  const tabu = opt.tabuSearch && tabuApplies(engine);
   let stopReason = yield* sweeps(
     loopy,
     {
       update: (oi) => mplpUpdate(engine, state, oi, buf),
       bound: () => mplpBound(engine, state),
       stopAtStall: branchAllowed,
-      sweepShare: tabu ? SWEEP_SHARE_BEFORE_TABU : 1,
+      sweepShare: loopy.tabu ? SWEEP_SHARE_BEFORE_TABU : 1,
     },
     opt,
     signal,
   );
   // only a stalled (or time-shared) dual hands over: a run capped by maxIterations ends there
-  if (tabu && stopReason === 'stalled' && !run.gapClosed() && now() < run.deadline && !signal?.aborted) {
+  if (!branchAllowed) {
+    if (stopReason === 'stalled' && searchLeft(loopy, signal)) stopReason = yield* primalSearch(loopy, signal);
+  } else {
     // small models: tabu search first, then branch and bound with the better incumbent; tabu
     // gives way early once its restarts stop finding anything, so branch and bound can finish
     // a model it closes in milliseconds
-    if (branchAllowed) yield* tabuPhase(loopy, signal, now() + (run.deadline - now()) * TABU_SHARE_BEFORE_BRANCHING, IDLE_RESTARTS_BEFORE_BRANCHING);
-    else yield* tabuPhase(loopy, signal, run.deadline);
-    if (!branchAllowed) stopReason = signal?.aborted ? 'aborted' : 'time';
-  }
-  if (branchAllowed && !run.gapClosed() && stopReason !== 'aborted' && now() < run.deadline) {
-    const r = branchAndBound(engine, state, run.bestX, run.bestBig, run.deadline, signal, 1e-7, now);
-    if (r.x) run.offer(r.x, r.best);
-    if (r.complete) {
-      run.bound = Math.min(run.bound, Math.max(run.bestBig, r.best));
-      run.finish('mplp+bb', 'optimal', true, state.belief);
-      return;
+    if (loopy.tabu && stopReason === 'stalled' && searchLeft(loopy, signal)) yield* tabuPhase(loopy, signal, now() + (run.deadline - now()) * TABU_SHARE_BEFORE_BRANCHING, IDLE_RESTARTS_BEFORE_BRANCHING);
+    if (!run.gapClosed() && stopReason !== 'aborted' && now() < run.deadline) {
+      const r = branchAndBound(engine, state, run.bestX, run.bestBig, run.deadline, signal, 1e-7, now);
+      if (r.x) run.offer(r.x, r.best);
+      if (r.complete) {
+        run.bound = Math.min(run.bound, Math.max(run.bestBig, r.best));
+        run.finish('mplp+bb', 'optimal', true, state.belief);
+        return;
+      }
+      stopReason = signal?.aborted ? 'aborted' : 'time';
     }
-    stopReason = signal?.aborted ? 'aborted' : 'time';
-  } else if (!tabu && stopReason === 'stalled' && !run.gapClosed() && now() < run.deadline && !signal?.aborted) {
-    yield* repairRestarts(loopy, signal);
-    stopReason = signal?.aborted ? 'aborted' : 'time';
   }
-  ensureBound(run);
-  run.finish('mplp', run.gapClosed() ? 'gap' : stopReason, false, state.belief);
+  finishLoopy(loopy, 'mplp', stopReason);
 }
 
 /** MPLP on any model with at least one variable (no enumeration or tree shortcut: solve.ts decides those). */
