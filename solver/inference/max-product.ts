@@ -8,7 +8,7 @@ import type { Engine } from './engine';
 import { NEG } from './factor-operators';
 import { finishLoopy, primalSearch, searchLeft, startLoopy, sweeps } from './loopy';
 import type { MapSolver } from './map-solver';
-import { OperatorBuffers, productUpdate, type MessageState } from './message-state';
+import { OperatorBuffers, beliefMaxSum, productUpdate, type MessageState } from './message-state';
 import { DEFAULT_MAX_PRODUCT_OPTIONS, type MaxProductOptions } from './options';
 
 /**
@@ -25,12 +25,7 @@ export function maxProductUpdate(engine: Engine, state: MessageState, oi: number
  * U = Σ_i max b_i + Σ_c max_{x_c} [θ_c - Σ_i m_{c→i}]. Used for loopy max-product runs.
  */
 export function reparametrizationBound(engine: Engine, state: MessageState, buf: OperatorBuffers): number {
-  let u = engine.constant;
-  for (const b of state.belief) {
-    let m = NEG;
-    for (let x = 0; x < b.length; x++) if (b[x]! > m) m = b[x]!;
-    u += m;
-  }
+  let u = beliefMaxSum(engine, state);
   for (let oi = 0; oi < engine.ops.length; oi++) {
     const op = engine.ops[oi]!;
     buf.prepare(op);

@@ -210,6 +210,17 @@ export function setSlot(engine: Engine, state: MessageState, oi: number, s: numb
     }
 }
 
+/** The dual's variable part: the engine's constant plus Σ_i max_x b_i(x) (both bounds start from it). */
+export function beliefMaxSum(engine: Engine, state: MessageState): number {
+  let u = engine.constant;
+  for (const b of state.belief) {
+    let m = NEG;
+    for (let x = 0; x < b.length; x++) if (b[x]! > m) m = b[x]!;
+    u += m;
+  }
+  return u;
+}
+
 /** Argmax of each belief (lowest index on ties). */
 export function decodeBeliefs(state: MessageState): Int32Array {
   return Int32Array.from(state.belief, (b) => {

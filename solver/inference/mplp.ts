@@ -8,10 +8,9 @@
 import { AnytimeRun, anytimeSolver, type RunSteps } from './anytime';
 import { branchAndBound } from './branch-bound';
 import type { Engine } from './engine';
-import { NEG } from './factor-operators';
 import { finishLoopy, primalSearch, searchLeft, startLoopy, sweeps, tabuPhase } from './loopy';
 import type { MapSolver } from './map-solver';
-import { OperatorBuffers, gatherIncoming, setSlot, type MessageState } from './message-state';
+import { OperatorBuffers, beliefMaxSum, gatherIncoming, setSlot, type MessageState } from './message-state';
 import { DEFAULT_MPLP_OPTIONS, type MplpOptions } from './options';
 
 /**
@@ -48,12 +47,7 @@ export function mplpUpdate(engine: Engine, state: MessageState, oi: number, buf:
 
 /** Dual bound U(δ) of an MPLP state (valid once every operator has been updated). */
 export function mplpBound(engine: Engine, state: MessageState): number {
-  let u = engine.constant;
-  for (const b of state.belief) {
-    let m = NEG;
-    for (let x = 0; x < b.length; x++) if (b[x]! > m) m = b[x]!;
-    u += m;
-  }
+  let u = beliefMaxSum(engine, state);
   for (let c = 0; c < state.opConst.length; c++) u += state.opConst[c]!;
   return u;
 }
