@@ -184,7 +184,7 @@ export function* repairRestarts(loopy: LoopyRun, signal: AbortSignal | undefined
 /**
  * Tabu search (tabu.ts) from the incumbent until `until` (or until `maxIdleRestarts` restarts in
  * a row found no new best), in slices of ~50 ms so the signal and the event loop get their turn;
- * every new best is offered to the run.
+ * each slice's best is offered to the run (which keeps it only when it beats the incumbent).
  */
 export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, until: number, maxIdleRestarts = Infinity): RunSteps {
   const { run, random } = loopy, now = run.now;
@@ -192,7 +192,7 @@ export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, unt
   while (now() < until && !signal?.aborted && !run.gapClosed() && tabu.idleRestarts < maxIdleRestarts) {
     const sliceEnd = Math.min(until, now() + 50);
     tabu.run(() => now() >= sliceEnd || signal?.aborted === true || tabu.idleRestarts >= maxIdleRestarts);
-    if (tabu.bestScore > run.bestBig + 1e-9) run.offer(tabu.best, tabu.bestScore);
+    run.offer(tabu.best, tabu.bestScore);
     run.progress();
     yield;
   }
