@@ -30,6 +30,7 @@ const COMPARED: Array<{ key: keyof LedgerCounts; short: string; label: string }>
 const TABLE: Array<{ key: keyof LedgerCounts; label: string; unit?: 'h' }> = [
   { key: 'shifts', label: 'Shifts' },
   ...COMPARED.map(({ key, label }) => ({ key, label })),
+  { key: 'weekendsWorked', label: 'Weekends worked' },
   { key: 'wishesHonoured', label: 'Wishes kept' },
   { key: 'wishesRefused', label: 'Wishes not kept' },
   { key: 'hours', label: 'Hours worked', unit: 'h' },

@@ -1,8 +1,8 @@
-import { isNightShift } from '../../shared/roster/derive';
+import { isNightShift, weekendOf } from '../../shared/roster/derive';
 import { daysBetween, isoWeekday, localDateTimeToInstant } from '../../shared/roster/time';
 import type { LedgerCounts } from '../../shared/api/ledger';
 
-export const zeroCounts = (): LedgerCounts => ({ shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 });
+export const zeroCounts = (): LedgerCounts => ({ shifts: 0, hours: 0, nights: 0, weekendShifts: 0, weekendsWorked: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 });
 
 const COUNT_KEYS = Object.keys(zeroCounts()) as Array<keyof LedgerCounts>;
 
@@ -36,6 +36,7 @@ export interface PeriodData {
  * One published period's counts per person, straight from who works what:
  * - a night is a shift with 3 h or more in 23:00–06:00 (shared/roster/derive isNightShift, unless the shift says);
  * - a weekend shift starts on a Saturday or Sunday, a holiday shift on a public holiday, on its roster's wall clock;
+ *   weekends worked are the distinct weekends of someone's weekend shifts;
  * - an unpopular shift is one more of the team wished to avoid (avoid or cannot) than to work (prefer);
  * - a prefer wish is honoured when the person works that shift (or any shift that day), avoid and
  *   cannot when they do not; the others are refused;
@@ -46,6 +47,7 @@ export function countPeriod(p: PeriodData): Map<number, LedgerCounts> {
   const of = (person: number) => out.get(person) ?? out.set(person, zeroCounts()).get(person)!;
   const inRange = p.shifts.filter((s) => s.startsLocal.slice(0, 10) >= p.start && s.startsLocal.slice(0, 10) <= p.end);
   const dateOf = new Map(inRange.map((s) => [s.id, s.startsLocal.slice(0, 10)]));
+  const weekends = new Map<number, Set<string>>();
   const stance = new Map<number, number>();
   for (const w of p.wishes) {
     const hits = w.shiftId !== null ? [w.shiftId] : inRange.filter((s) => dateOf.get(s.id) === w.date).map((s) => s.id);
@@ -60,11 +62,15 @@ export function countPeriod(p: PeriodData): Map<number, LedgerCounts> {
       c.shifts += 1;
       c.hours += hours;
       if (night) c.nights += 1;
-      if (isoWeekday(date) >= 6) c.weekendShifts += 1;
+      if (isoWeekday(date) >= 6) {
+        c.weekendShifts += 1;
+        (weekends.get(person) ?? weekends.set(person, new Set()).get(person)!).add(weekendOf(date));
+      }
       if (p.holidays.has(date)) c.holidayShifts += 1;
       if ((stance.get(s.id) ?? 0) > 0) c.unpopularShifts += 1;
     }
   }
+  for (const [person, set] of weekends) of(person).weekendsWorked = set.size;
   const works = (person: number, shiftId: number) => (p.workers.get(shiftId) ?? []).includes(person);
   for (const w of p.wishes) {
     const shifts = w.shiftId !== null ? (dateOf.has(w.shiftId) ? [w.shiftId] : []) : inRange.filter((s) => dateOf.get(s.id) === w.date).map((s) => s.id);

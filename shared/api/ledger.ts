@@ -34,6 +34,8 @@ export interface LedgerCounts {
   hours: number;
   nights: number;
   weekendShifts: number;
+  /** Weekends with at least one shift (Saturday or Sunday start), counted per period: a weekend split by two periods counts in each. */
+  weekendsWorked: number;
   holidayShifts: number;
   unpopularShifts: number;
   wishesHonoured: number;

@@ -91,6 +91,9 @@ export function contractedTarget(person: Person, totalDays: number): number | un
   return person.contractedHoursPerWeek === undefined ? undefined : (person.contractedHoursPerWeek * totalDays) / 7;
 }
 
+/** Saturday's local date of the weekend a Saturday or Sunday belongs to (its key when weekends are counted, not weekend shifts). */
+export const weekendOf = (date: string) => (isoWeekday(date) === 7 ? addLocalDays(date, -1) : date);
+
 /**
  * Fair share of a kind of shift (nights or weekends) per person: each such seat is split
  * among the people who could take it by skill, in proportion to contracted hours (people

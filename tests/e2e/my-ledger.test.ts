@@ -117,7 +117,7 @@ describe('my ledger in the browser', () => {
 
       // Something of every kind to count for Hattie, so a screen of zeros cannot pass.
       const mine = expected.get(hattie.id)!;
-      for (const k of ['nights', 'weekendShifts', 'holidayShifts', 'wishesHonoured', 'wishesRefused'] as const) expect(mine[k], k).toBeGreaterThan(0);
+      for (const k of ['nights', 'weekendShifts', 'weekendsWorked', 'holidayShifts', 'wishesHonoured', 'wishesRefused'] as const) expect(mine[k], k).toBeGreaterThan(0);
       // The API's line for the fortnight is what the stored rows say.
       const apiFortnight = api.me!.byPeriod.find((b) => b.rosterId === fortnight)!;
       for (const [k, v] of Object.entries(mine)) expect(apiFortnight[k as keyof Direct], k).toBeCloseTo(v, 2);
@@ -138,7 +138,7 @@ describe('my ledger in the browser', () => {
       // The table and the chart's words give the API's totals (every published roster Hattie is on).
       const totals = page.getByTestId('my-ledger-table');
       await totals.scrollIntoViewIfNeeded();
-      for (const k of ['shifts', 'nights', 'weekendShifts', 'holidayShifts', 'wishesHonoured'] as const) {
+      for (const k of ['shifts', 'nights', 'weekendShifts', 'weekendsWorked', 'holidayShifts', 'wishesHonoured'] as const) {
         const cells = await page.getByTestId(`my-ledger-total-${k}`).getByRole('cell').allTextContents();
         expect(cells, k).toEqual([num(api.me!.totals[k]), num(api.team.average[k])]);
       }
@@ -175,7 +175,7 @@ describe('my ledger in the browser', () => {
   it('says in words when nothing is published and when the ledger cannot be reached (phone)', { timeout: 120_000 }, async () => {
     // Routed on the context, which also sees requests the service worker passes on.
     const { context, page, problems, close } = await openPage(browser, PHONE, [/\/api\/me\/ledger/, /ERR_INTERNET_DISCONNECTED/]);
-    const zeros = { shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 };
+    const zeros = { shifts: 0, hours: 0, nights: 0, weekendShifts: 0, weekendsWorked: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 };
     await signIn(page, 'staff@willowmere.example');
     await page.waitForLoadState('networkidle');
     // The server's answer for a workspace with nothing published (tests/server/ledger/my-ledger.test.ts checks it).

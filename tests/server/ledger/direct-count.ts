@@ -1,6 +1,6 @@
 import Holidays from 'date-holidays';
 import { TZDate } from '@date-fns/tz';
-import { isWeekend, parseISO } from 'date-fns';
+import { format, isSunday, isWeekend, parseISO, subDays } from 'date-fns';
 
 /** Elapsed hours of a local span on a zone's wall clock, by @date-fns/tz (an independent zone implementation). */
 export const zoneHours = (a: string, b: string, zone: string) => {
@@ -40,9 +40,9 @@ export interface StoredPeriod {
   swapPeople: number[];
 }
 
-export type Direct = Record<'shifts' | 'hours' | 'nights' | 'weekendShifts' | 'holidayShifts' | 'unpopularShifts' | 'wishesHonoured' | 'wishesRefused' | 'contractHours' | 'swaps', number>;
+export type Direct = Record<'shifts' | 'hours' | 'nights' | 'weekendShifts' | 'weekendsWorked' | 'holidayShifts' | 'unpopularShifts' | 'wishesHonoured' | 'wishesRefused' | 'contractHours' | 'swaps', number>;
 
-const zero = (): Direct => ({ shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 });
+const zero = (): Direct => ({ shifts: 0, hours: 0, nights: 0, weekendShifts: 0, weekendsWorked: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0, contractHours: 0, swaps: 0 });
 
 /**
  * One whole period's counts per person from the stored rows, written apart from server/ledger:
@@ -55,6 +55,7 @@ export function directCounts(p: StoredPeriod): Map<number, Direct> {
   const day = (s: { startsLocal: string }) => s.startsLocal.slice(0, 10);
   const against = (shift: { id: number; startsLocal: string }) =>
     p.wishes.filter((w) => w.shiftId === shift.id || (w.shiftId === null && w.date === day(shift))).reduce((n, w) => n + (w.kind === 'prefer' ? -1 : 1), 0);
+  const weekends = new Map<number, Set<string>>();
   for (const r of p.rows) {
     const shift = p.shifts.find((s) => s.id === r.shiftId)!;
     if (r.personId === null) continue;
@@ -62,7 +63,11 @@ export function directCounts(p: StoredPeriod): Map<number, Direct> {
     c.shifts++;
     c.hours += zoneHours(shift.startsLocal, shift.endsLocal, p.timeZone);
     if (isNightSpan(shift.startsLocal, shift.endsLocal)) c.nights++;
-    if (isWeekend(parseISO(day(shift)))) c.weekendShifts++;
+    if (isWeekend(parseISO(day(shift)))) {
+      c.weekendShifts++;
+      const date = parseISO(day(shift));
+      (weekends.get(r.personId) ?? weekends.set(r.personId, new Set()).get(r.personId)!).add(format(isSunday(date) ? subDays(date, 1) : date, 'yyyy-MM-dd'));
+    }
     if (p.holidays.has(day(shift))) c.holidayShifts++;
     if (against(shift) > 0) c.unpopularShifts++;
   }
@@ -72,6 +77,7 @@ export function directCounts(p: StoredPeriod): Map<number, Direct> {
     const works = p.rows.some((r) => r.personId === w.personId && hit.some((s) => s.id === r.shiftId));
     of(w.personId)[(w.kind === 'prefer') === works ? 'wishesHonoured' : 'wishesRefused']++;
   }
+  for (const [id, set] of weekends) of(id).weekendsWorked = set.size;
   for (const id of p.swapPeople) of(id).swaps++;
   const days = (Date.parse(p.end) - Date.parse(p.start)) / 86_400_000 + 1;
   for (const [id, c] of out) c.contractHours = ((p.contractWeekly.get(id) ?? 0) * days) / 7;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Express } from 'express';
-import { isWeekend, parseISO } from 'date-fns';
+import { format, isSunday, isWeekend, parseISO, subDays } from 'date-fns';
 import { createTestDb, type TestDb } from '../helpers/test-db';
 import { makeApp, makeWorkspace, signedIn } from '../auth/helpers';
 import { AssignmentRow, Roster, SeatRow, ShiftRow, WishRow } from '../../../server/rosters/models';
@@ -106,16 +106,24 @@ describe('fairness ledger across published rosters', () => {
     const wishes = await WishRow.findAll({ where: { rosterId } });
     const expected = (from: string, to: string) => {
       const out = new Map<number, Record<string, number>>();
+      const weekends = new Map<number, Set<string>>();
       const inRange = shifts.filter((s) => s.startsLocal.slice(0, 10) >= from && s.startsLocal.slice(0, 10) <= to);
       const against = (s: ShiftRow) => wishes.filter((w) => w.date === s.startsLocal.slice(0, 10)).reduce((n, w) => n + (w.kind === 'prefer' ? -1 : 1), 0);
       for (const r of rows) {
         const shift = inRange.find((s) => s.id === seats.find((x) => x.id === r.seatId)!.shiftId);
         if (!shift || !r.personId) continue;
-        const c = out.get(r.personId) ?? { shifts: 0, hours: 0, nights: 0, weekendShifts: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0 };
+        const c = out.get(r.personId) ?? { shifts: 0, hours: 0, nights: 0, weekendShifts: 0, weekendsWorked: 0, holidayShifts: 0, unpopularShifts: 0, wishesHonoured: 0, wishesRefused: 0 };
         c.shifts++;
         c.hours += londonHours(shift.startsLocal, shift.endsLocal);
         if (isNightSpan(shift.startsLocal, shift.endsLocal)) c.nights++;
-        if (isWeekend(parseISO(shift.startsLocal.slice(0, 10)))) c.weekendShifts++;
+        const date = parseISO(shift.startsLocal.slice(0, 10));
+        if (isWeekend(date)) {
+          c.weekendShifts++;
+          // a weekend is known by its Saturday (date-fns)
+          const set = weekends.get(r.personId) ?? weekends.set(r.personId, new Set()).get(r.personId)!;
+          set.add(format(isSunday(date) ? subDays(date, 1) : date, 'yyyy-MM-dd'));
+          c.weekendsWorked = set.size;
+        }
         if (holidays.has(shift.startsLocal.slice(0, 10))) c.holidayShifts++;
         if (against(shift) > 0) c.unpopularShifts++;
         out.set(r.personId, c);
@@ -135,7 +143,7 @@ describe('fairness ledger across published rosters', () => {
       const want = expected(from, to);
       const sum = (k: string) => [...want.values()].reduce((n, c) => n + c[k], 0);
       // The fixture has something of every kind to count, so a ledger of zeros cannot pass.
-      if (from === '2027-03-22') for (const k of ['nights', 'weekendShifts', 'holidayShifts', 'unpopularShifts', 'wishesHonoured', 'wishesRefused']) expect(sum(k), k).toBeGreaterThan(0);
+      if (from === '2027-03-22') for (const k of ['nights', 'weekendShifts', 'weekendsWorked', 'holidayShifts', 'unpopularShifts', 'wishesHonoured', 'wishesRefused']) expect(sum(k), k).toBeGreaterThan(0);
       expect(res.body.people.map((p: { personId: number }) => p.personId).sort()).toEqual([...want.keys()].sort());
       for (const p of res.body.people) {
         const w = want.get(p.personId)!;

@@ -120,7 +120,7 @@ describe('a staff member’s own ledger', () => {
     const a = people[0];
     const mineIn = (rosterId: number) => direct.get(rosterId)!.get(a.id)!;
     // The fixture has something of every kind for A, so a line of zeros cannot pass.
-    for (const k of ['nights', 'weekendShifts', 'holidayShifts', 'unpopularShifts', 'wishesHonoured', 'wishesRefused', 'swaps'] as const) expect(mineIn(fortnight)[k], k).toBeGreaterThan(0);
+    for (const k of ['nights', 'weekendShifts', 'weekendsWorked', 'holidayShifts', 'unpopularShifts', 'wishesHonoured', 'wishesRefused', 'swaps'] as const) expect(mineIn(fortnight)[k], k).toBeGreaterThan(0);
     expect(res.body.periods.map((p: { rosterId: number }) => p.rosterId)).toEqual([fortnight, week]);
     expect(res.body.me.personId).toBe(a.id);
     for (const rosterId of [fortnight, week]) {
@@ -180,7 +180,7 @@ describe('a staff member’s own ledger', () => {
     // Only the A-and-B week: nothing of the team's to show.
     const weekOnly = (await me.get('/api/me/ledger').query({ from: '2027-04-06' })).body;
     expect(weekOnly.team).toMatchObject({ rosterIds: [], byPeriod: [{ rosterId: week, people: 2, average: null }] });
-    expect(Object.values(weekOnly.team.average)).toEqual(Array(10).fill(0));
+    expect(Object.values(weekOnly.team.average)).toEqual(Array(11).fill(0));
   });
 
   it('answers bad input and an unlinked account with a 4xx naming the field', async () => {

@@ -9,13 +9,12 @@
  * number of values grows as binomials of the weekends the person could work: past
  * MAX_WEEKEND_SETS the compiler refuses with a message rather than build a huge variable.
  */
-import { addLocalDays, isoWeekday } from '../../../../shared/roster/time';
+import { weekendOf } from '../../../../shared/roster/derive';
+import { addLocalDays } from '../../../../shared/roster/time';
 import { covers, defineTerm, type AuxChoice } from '../types';
 
 export const MAX_WEEKEND_SETS = 4096;
 
-/** Saturday's local date of the weekend a weekend date belongs to. */
-export const weekendOf = (date: string) => (isoWeekday(date) === 7 ? addLocalDays(date, -1) : date);
 
 function subsets(n: number, minSize: number, maxSize: number): number[][] {
   const out: number[][] = [];
