@@ -7,10 +7,11 @@
  * out in another order) to show the spread.
  */
 import { disagreements, learnableRules, learnWeights, makeFeaturizer, scorerTermKeys, type LearnOptions, type LearnResult } from '../../../solver/learn';
-import { countingClock, editsFrom, fixture, hiddenWeights, kendallTauB, type SyntheticEdit } from './helpers';
+import { countingClock, editsFrom, fixture, hiddenWeights, kendallTauB, type CoordinatorKind, type SyntheticEdit } from './helpers';
 
 export type CheckResult = {
   seed: number;
+  kind: CoordinatorKind;
   keys: string[];
   hidden: Record<string, number>;
   train: SyntheticEdit[];
@@ -26,15 +27,31 @@ export type CheckResult = {
   ms: number;
 };
 
-export async function runCheck(seed: number, learn: Partial<LearnOptions> = {}): Promise<CheckResult> {
+/**
+ * The edits of one seed's check: 30 training edits and the held-out ones, by a coordinator of the
+ * given kind with the seed's hidden weights. A coordinator who edits a roster a stretch at a time
+ * works on four rosters (10 edits each at most; one may reach a roster they cannot improve before
+ * their tenth edit), and two others are held out; one who re-plans whole rosters edits 30 rosters
+ * once each, and 20 others are held out.
+ */
+export async function checkEdits(seed: number, kind: CoordinatorKind = 'single') {
   const off = 100 * seed;
   const probe = fixture(11 + off, 6);
   const rules = probe.rules;
   const keys = learnableRules(rules, scorerTermKeys(probe));
   const hidden = hiddenWeights(keys, seed);
-  // four rosters: a coordinator may reach a roster they cannot improve before their tenth edit
-  const train = (await editsFrom([[11 + off, 6], [12 + off, 7], [13 + off, 6], [14 + off, 7]], 10, hidden)).slice(0, 30);
-  const held = await editsFrom([[21 + off, 6], [22 + off, 7]], 10, hidden);
+  const rosters = (from: number, n: number) => Array.from({ length: n }, (_, i) => [from + off + i, 6 + (i % 2)] as const);
+  const whole = kind === 'resolve';
+  const train = (await editsFrom(whole ? rosters(11, 30) : rosters(11, 4), 10, hidden, kind)).slice(0, 30);
+  const held = await editsFrom(whole ? rosters(61, 20) : rosters(21, 2), 10, hidden, kind);
+  return { rules, keys, hidden, train, held };
+}
+
+export type CheckEdits = Awaited<ReturnType<typeof checkEdits>>;
+
+/** `edits`: checkEdits(seed, kind) made earlier (to try several learners on the same edits). */
+export async function runCheck(seed: number, learn: Partial<LearnOptions> = {}, kind: CoordinatorKind = 'single', edits?: CheckEdits): Promise<CheckResult> {
+  const { rules, keys, hidden, train, held } = edits ?? (await checkEdits(seed, kind));
   const t0 = Date.now();
   // the counting clock makes the oracle's time limits counts of work (seeded runs repeat exactly)
   const result = await learnWeights(rules, train, { timeLimitMs: 100_000, clock: countingClock(), ...learn });
@@ -49,9 +66,9 @@ export async function runCheck(seed: number, learn: Partial<LearnOptions> = {}):
   const tau0 = kendallTauB(moved.map((k) => result.start[at(k)]), moved.map((k) => hidden[k]));
   const before = disagreements(rules, keys, result.start, held);
   const after = disagreements(rules, keys, result.weights, held);
-  return { seed, keys, hidden, train, held, moved, tau, tau0, heldCounted: before.counted, heldDisagreeBefore: before.disagree.length, heldDisagreeAfter: after.disagree.length, result, ms };
+  return { seed, kind, keys, hidden, train, held, moved, tau, tau0, heldCounted: before.counted, heldDisagreeBefore: before.disagree.length, heldDisagreeAfter: after.disagree.length, result, ms };
 }
 
 export function summary(c: CheckResult): string {
-  return JSON.stringify({ seed: c.seed, edits: c.train.length, moved: c.moved.length, tau: +c.tau.toFixed(3), tau0: +c.tau0.toFixed(3), heldOut: `${c.heldDisagreeBefore} → ${c.heldDisagreeAfter} of ${c.heldCounted} disagree`, ms: c.ms, oracleCalls: c.result.oracleCalls, stop: c.result.stopReason });
+  return JSON.stringify({ seed: c.seed, kind: c.kind, edits: c.train.length, moved: c.moved.length, tau: +c.tau.toFixed(3), tau0: +c.tau0.toFixed(3), heldOut: `${c.heldDisagreeBefore} → ${c.heldDisagreeAfter} of ${c.heldCounted} disagree`, ms: c.ms, oracleCalls: c.result.oracleCalls, stop: c.result.stopReason });
 }

@@ -51,11 +51,11 @@ export function hiddenWeights(keys: readonly string[], shuffle = 0): Record<stri
 }
 
 /** Up to `perRoster` edits on each fixture roster (seed, people) by the coordinator who goes by `hidden`. */
-export async function editsFrom(seeds: readonly (readonly [number, number])[], perRoster: number, hidden: Record<string, number>): Promise<SyntheticEdit[]> {
+export async function editsFrom(seeds: readonly (readonly [number, number])[], perRoster: number, hidden: Record<string, number>, kind: CoordinatorKind = 'single'): Promise<SyntheticEdit[]> {
   const out: SyntheticEdit[] = [];
   for (const [seed, people] of seeds) {
     const r = fixture(seed, people);
-    out.push(...(await syntheticEdits(r, rulesWith(r.rules, hidden as never), perRoster, seed)));
+    out.push(...(await syntheticEdits(r, rulesWith(r.rules, hidden as never), perRoster, seed, 1000, countingClock(), kind)));
   }
   return out;
 }
@@ -99,57 +99,96 @@ export function countingClock(stepMs = 1): () => number {
 
 export type SyntheticEdit = { roster: Roster; kept: RosterAssignment; proposed: RosterAssignment; gain: number };
 
+/**
+ * How the synthetic coordinator edits. 'single': one seat reassigned or two seats swapped, the best
+ * such change by brute force with scoreRoster. 'day' and 'week': a stretch of the roster reworked to
+ * their liking, the way a coordinator redoes a day or a week: the seats of one day (or of seven days
+ * in a row) re-planned by the solver under the hidden weights, every seat outside the stretch pinned
+ * as it is. 'resolve': the coordinator re-plans the whole roster under their own weights (the
+ * solver's roster under the hidden weights, from the proposed one): one edit per roster.
+ */
+export type CoordinatorKind = 'single' | 'day' | 'week' | 'resolve';
+export const COORDINATOR_KINDS: readonly CoordinatorKind[] = ['single', 'day', 'week', 'resolve'];
+
 const DAY_MS = 86_400_000;
 
 /**
  * The solver's roster under the roster's own (current) weights, then a session of edits by a
- * coordinator who goes by `hidden`. Each edit takes the first seat (in a seeded random order) where
- * some change raises the hidden-weight score and makes the best such change there: someone else in
- * the seat, or its holder swapped with a seat within two days, every candidate tried by brute force
- * with scoreRoster (not the solver). Each edit is saved, so the next starts from it: its proposed
- * roster is the previous kept one, as with manual saves based on the last run. Every edit strictly
- * raises the hidden-weight score.
+ * coordinator who goes by `hidden`, each of the kind `kind` (see CoordinatorKind). Each edit is
+ * saved, so the next starts from it: its proposed roster is the previous kept one, as with manual
+ * saves based on the last run. Whatever proposes a change (brute force or the solver), the change
+ * is kept only if scoreRoster under the hidden weights scores it strictly higher, so every edit
+ * strictly raises the hidden-weight score, checked outside the solver and the learner.
  */
-export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000, clock: () => number = countingClock()): Promise<SyntheticEdit[]> {
-  const solved = await solveRoster(roster, { timeLimitMs: solveMs, seed, lagrangianShare: 0, lnsShare: 0, clock });
+export async function syntheticEdits(roster: Roster, hidden: RuleSet, count: number, seed: number, solveMs = 1000, clock: () => number = countingClock(), kind: CoordinatorKind = 'single', proposalRules?: RuleSet): Promise<SyntheticEdit[]> {
+  const proposalRoster = proposalRules ? { ...roster, rules: proposalRules } : roster;
+  const solved = await solveRoster(proposalRoster, { timeLimitMs: solveMs, seed, lagrangianShare: 0, lnsShare: 0, clock });
   if (solved.status !== 'solved') throw new Error('fixture roster is infeasible');
   const score = makeRosterScorer({ ...roster, rules: hidden });
   const rnd = seededRandom(seed * 7919);
   const seats = roster.seats.map((s) => s.id);
-  const skillOf = new Map(roster.seats.map((s) => [s.id, s.skill]));
   const startOf = new Map(roster.shifts.map((s) => [s.id, Date.parse(`${s.start}Z`)]));
   const seatStart = new Map(roster.seats.map((s) => [s.id, startOf.get(s.shift)!]));
   const edits: SyntheticEdit[] = [];
   let current = solved.decoded.assignment;
   let currentScore = score(current).total;
-  while (edits.length < count) {
-    const order = [...seats].sort(() => rnd() - 0.5);
-    let found: { kept: RosterAssignment; s: number } | null = null;
-    for (const seat of order) {
-      let best: RosterAssignment | null = null;
-      let bestScore = currentScore + 1e-6;
-      const consider = (trial: RosterAssignment) => {
-        const s = score(trial).total;
-        if (s > bestScore) {
-          bestScore = s;
-          best = trial;
+  if (kind === 'single') {
+    const skillOf = new Map(roster.seats.map((s) => [s.id, s.skill]));
+    while (edits.length < count) {
+      const order = [...seats].sort(() => rnd() - 0.5);
+      let found: { kept: RosterAssignment; s: number } | null = null;
+      for (const seat of order) {
+        let best: RosterAssignment | null = null;
+        let bestScore = currentScore + 1e-6;
+        const consider = (trial: RosterAssignment) => {
+          const s = score(trial).total;
+          if (s > bestScore) {
+            bestScore = s;
+            best = trial;
+          }
+        };
+        const need = skillOf.get(seat);
+        const here = current[seat] ?? null;
+        for (const person of [null, ...roster.people.filter((p) => need === null || p.skills.includes(need!)).map((p) => p.id)])
+          if (here !== person) consider({ ...current, [seat]: person });
+        for (const other of seats)
+          if ((current[other] ?? null) !== here && Math.abs(seatStart.get(other)! - seatStart.get(seat)!) <= 2 * DAY_MS) consider({ ...current, [seat]: current[other] ?? null, [other]: here });
+        if (best) {
+          found = { kept: best, s: bestScore };
+          break;
         }
-      };
-      const need = skillOf.get(seat);
-      const here = current[seat] ?? null;
-      for (const person of [null, ...roster.people.filter((p) => need === null || p.skills.includes(need!)).map((p) => p.id)])
-        if (here !== person) consider({ ...current, [seat]: person });
-      for (const other of seats)
-        if ((current[other] ?? null) !== here && Math.abs(seatStart.get(other)! - seatStart.get(seat)!) <= 2 * DAY_MS) consider({ ...current, [seat]: current[other] ?? null, [other]: here });
-      if (best) {
-        found = { kept: best, s: bestScore };
-        break;
       }
+      if (!found) break; // a local optimum under the hidden weights: this coordinator would edit no more
+      edits.push({ roster, kept: found.kept, proposed: current, gain: found.s - currentScore });
+      current = found.kept;
+      currentScore = found.s;
     }
-    if (!found) break; // a local optimum under the hidden weights: this coordinator would edit no more
-    edits.push({ roster, kept: found.kept, proposed: current, gain: found.s - currentScore });
-    current = found.kept;
-    currentScore = found.s;
+    return edits;
+  }
+  // the stretches: whole roster, each day, or each run of seven days (by the shifts' start dates)
+  const first = Math.min(...seatStart.values());
+  const dayOf = (seat: string) => Math.floor((seatStart.get(seat)! - first) / DAY_MS);
+  const days = Math.max(...seats.map(dayOf)) + 1;
+  const span = kind === 'day' ? 1 : kind === 'week' ? 7 : days;
+  const windows: string[][] = [];
+  for (let d = 0; d + span <= days; d++) windows.push(seats.filter((s) => dayOf(s) >= d && dayOf(s) < d + span));
+  const hiddenRoster = { ...roster, rules: hidden };
+  let idle = 0;
+  let calls = 0;
+  const order = windows.map((_, i) => i).sort(() => rnd() - 0.5);
+  for (let at = 0; edits.length < count && idle < windows.length; at = (at + 1) % order.length) {
+    const free = new Set(windows[order[at]]);
+    const pins = roster.seats.filter((s) => !free.has(s.id)).map((s) => ({ seat: s.id, person: current[s.id] ?? null }));
+    const r = await solveRoster({ ...hiddenRoster, pins: [...roster.pins.filter((p) => free.has(p.seat)), ...pins] }, { timeLimitMs: kind === 'resolve' ? solveMs : 300, seed: seed + ++calls, start: current, lagrangianShare: 0, lnsShare: 0, clock });
+    const kept = r.status === 'solved' ? r.decoded.assignment : null;
+    const s = kept ? score(kept).total : -Infinity;
+    if (kept && s > currentScore + 1e-6) {
+      edits.push({ roster, kept, proposed: current, gain: s - currentScore });
+      current = kept;
+      currentScore = s;
+      idle = 0;
+    } else idle++;
+    if (kind === 'resolve') break;
   }
   return edits;
 }

@@ -10,23 +10,21 @@
  */
 import { seededRandom } from '../../../shared/demo/make-roster';
 import type { RosterAssignment } from '../../../shared/roster/schema';
-import { learnableRules, makeFeaturizer, scorerTermKeys } from '../../../solver/learn';
-import { editsFrom, fixture, hiddenWeights, kendallTauB } from './helpers';
+import { makeFeaturizer } from '../../../solver/learn';
+import { checkEdits } from './check';
+import { kendallTauB, type CoordinatorKind } from './helpers';
 
 const BOX = 60;
 /** Fillings of the changed seats enumerated per edit, at most (larger edits keep only kept vs proposed). */
-const MAX_FILLINGS = 5000;
+const MAX_FILLINGS = 6000;
 
 async function main() {
-  for (const seed of (process.argv[2] ?? '0,1,2,3,4').split(',').map(Number)) {
-    const off = 100 * seed;
-    const probe = fixture(11 + off, 6);
-    const rules = probe.rules;
-    const keys = learnableRules(rules, scorerTermKeys(probe));
-    const hidden = hiddenWeights(keys, seed);
+  const kinds = (process.argv[3] ?? 'single').split(',') as CoordinatorKind[];
+  for (const kind of kinds) for (const seed of (process.argv[2] ?? '0,1,2,3,4').split(',').map(Number)) {
+    const { rules, keys, hidden, train } = await checkEdits(seed, kind);
     const hw = keys.map((k) => hidden[k]);
-    const train = (await editsFrom([[11 + off, 6], [12 + off, 7], [13 + off, 6], [14 + off, 7]], 10, hidden)).slice(0, 30);
     const cons: { d: number[]; e: number }[] = [];
+    const seen = new Set<string>();
     let broken = 0;
     const moved = new Array<number>(keys.length).fill(0);
     for (const t of train) {
@@ -36,18 +34,25 @@ async function main() {
       const proposed = f(t.proposed);
       kept.rules.forEach((x, i) => (moved[i] += x !== proposed.rules[i] ? 1 : 0));
       const changed = r.seats.filter((s) => (t.kept[s.id] ?? null) !== (t.proposed[s.id] ?? null));
+      const who = (skill: string | null) => [null, ...r.people.filter((p) => skill === null || p.skills.includes(skill)).map((p) => p.id)];
+      const count = changed.reduce((m, seat) => m * who(seat.skill).length, 1);
       let fillings: RosterAssignment[] = [{ ...t.kept }];
-      for (const seat of changed) {
-        const who = [null, ...r.people.filter((p) => seat.skill === null || p.skills.includes(seat.skill)).map((p) => p.id)];
-        fillings = fillings.flatMap((y) => who.map((p) => ({ ...y, [seat.id]: p })));
+      if (count <= MAX_FILLINGS) for (const seat of changed) fillings = fillings.flatMap((y) => who(seat.skill).map((p) => ({ ...y, [seat.id]: p })));
+      else {
+        fillings = [t.proposed];
+        for (const seat of changed) for (const p of who(seat.skill)) if (p !== (t.kept[seat.id] ?? null)) fillings.push({ ...t.kept, [seat.id]: p });
+        for (const [i, a] of changed.entries()) for (const b of changed.slice(i + 1)) fillings.push({ ...t.kept, [a.id]: t.kept[b.id] ?? null, [b.id]: t.kept[a.id] ?? null });
       }
-      if (fillings.length > MAX_FILLINGS) fillings = [t.proposed];
       for (const y of fillings) {
         const fy = f(y);
         if (!fy.feasible) continue;
         const d = kept.rules.map((x, i) => x - fy.rules[i]);
         const e = kept.offset - fy.offset;
-        if (d.every((x) => x === 0)) continue;
+        // no constraint: the same comparison again, or one every w ≥ 0 keeps
+        if (d.every((x) => x === 0) || (d.every((x) => x >= 0) && e >= 0)) continue;
+        const key = `${d.join(',')}:${e}`;
+        if (seen.has(key)) continue;
+        seen.add(key);
         if (hw.reduce((m, w, i) => m + w * d[i], e) < 0) broken++;
         else cons.push({ d, e });
       }
@@ -82,7 +87,7 @@ async function main() {
       }
     }
     const m = mean.map((v) => v / draws);
-    console.log(JSON.stringify({ seed, comparisons: cons.length, brokenByHidden: broken, tauOfDraws: +(tauSum / draws).toFixed(2), tauOfMean: +kendallTauB(ranked.map((i) => m[i]), ranked.map((i) => hw[i])).toFixed(2) }));
+    console.log(JSON.stringify({ kind, seed, comparisons: cons.length, brokenByHidden: broken, tauOfDraws: +(tauSum / draws).toFixed(2), tauOfMean: +kendallTauB(ranked.map((i) => m[i]), ranked.map((i) => hw[i])).toFixed(2) }));
   }
 }
 
