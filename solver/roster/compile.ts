@@ -362,6 +362,14 @@ export function compileRoster(roster: Roster): CompiledRoster {
   const auxVars: AuxVariable[] = [];
   const auxLabels: string[][] = [];
   const auxNames: string[] = [];
+  // 0 up to M, −∞ past it; one shared read-only table per M (factor tables are never written
+  // after compiling): on 200 people × 4 weeks the weekly rest alone made 84,000 of them.
+  const forbidTables = new Map<number, Float64Array>();
+  const forbidScore = (M: number) => {
+    let t = forbidTables.get(M);
+    if (!t) forbidTables.set(M, (t = new Float64Array(M + 2))), (t[M + 1] = -Infinity);
+    return t;
+  };
   const auxChoice = (term: TermName, detail: string, label: string, p: number, first: number, last: number, choices: AuxChoice[]): number => {
     const v = nSeats + auxVars.length;
     const entry: AuxVariable = {
@@ -383,8 +391,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       // value j weighs M (more than every seat together): sum ≤ M ⇔ not (aux = j and one of the seats held)
       const M = c.seats.length + 1;
       const auxWeights: [number, number][] = [[j, M]];
-      const score = new Float64Array(M + 2);
-      score[M + 1] = -Infinity;
+      const score = forbidScore(M);
       factors.push({
         kind: 'counting',
         vars: [v, ...c.seats],
