@@ -1,6 +1,6 @@
 import { useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { useForm, useWatch, type Resolver } from 'react-hook-form';
+import type { Resolver } from 'react-hook-form';
 import { space } from '@/constants/theme';
 import { ABSENCE_KIND_WORDS, ABSENCE_KINDS, createAbsenceBody, requestAbsenceBody, updateAbsenceBody, type AbsenceDto, type AbsenceKindName } from '@/shared/api/absences';
 import { ApiError } from '@/hooks/api/api-client';
@@ -15,6 +15,7 @@ import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
+import { useFormKit, withFormKit } from '@/components/forms/form-kit';
 import { PersonPicker, type PickedPerson } from '@/components/pairings/person-picker';
 import { Choices } from '@/components/rosters/panel';
 
@@ -81,7 +82,7 @@ function absenceResolver(mode: Mode, absence: AbsenceDto | undefined): Resolver<
  * Add or change an absence. `mode` decides who it is for and which endpoint takes it:
  * a coordinator's new or edited absence (approved at once), or the person's own request.
  */
-export function AbsenceForm({
+export const AbsenceForm = withFormKit(function AbsenceForm({
   mode,
   absence,
   person,
@@ -95,6 +96,7 @@ export function AbsenceForm({
   onDone?: (a: AbsenceDto) => void;
   onCancel?: () => void;
 }) {
+  const { useForm, useWatch } = useFormKit();
   const create = useCreateAbsence();
   const update = useUpdateAbsence();
   const request = useRequestMyAbsence();
@@ -176,7 +178,7 @@ export function AbsenceForm({
       </View>
     </View>
   );
-}
+});
 
 const styles = StyleSheet.create({
   form: { gap: space.md },

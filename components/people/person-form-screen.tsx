@@ -1,7 +1,7 @@
 import { useEffect, useState, type ComponentProps } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { router } from 'expo-router';
-import { Controller, useForm, type UseFormReturn } from 'react-hook-form';
+import type { UseFormReturn } from 'react-hook-form';
 import { colors, space } from '@/constants/theme';
 import { createPersonBody, type PersonDto } from '@/shared/api/people';
 import { ApiError } from '@/hooks/api/api-client';
@@ -19,6 +19,7 @@ import { Section } from '@/components/auth/section';
 import { TextLink } from '@/components/auth/text-link';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
+import { useFormKit, withFormKit } from '@/components/forms/form-kit';
 import { PersonAbsencesSection } from '@/components/absences/person-absences-section';
 import { Chip, CoordinatorsOnly } from './inline-controls';
 import { TermsSection } from './terms-section';
@@ -42,7 +43,8 @@ const resolver = bodyResolver(createPersonBody, toBody);
 const FIELDS = ['name', 'email', 'contractedHours', 'skillIds', 'version'];
 type PersonForm = UseFormReturn<Values, unknown, ReturnType<typeof createPersonBody.parse>>;
 
-export function NewPersonScreen() {
+export const NewPersonScreen = withFormKit(function NewPersonScreen() {
+  const { useForm } = useFormKit();
   const create = useCreatePerson();
   const form = useForm({ defaultValues: EMPTY, resolver });
   // The list says who was added, so the tap is seen to have worked.
@@ -58,7 +60,7 @@ export function NewPersonScreen() {
       </View>
     </CoordinatorsOnly>
   );
-}
+});
 
 export function EditPersonScreen({ id }: { id: number }) {
   return (
@@ -68,7 +70,8 @@ export function EditPersonScreen({ id }: { id: number }) {
   );
 }
 
-function EditPerson({ id }: { id: number }) {
+const EditPerson = withFormKit(function EditPerson({ id }: { id: number }) {
+  const { useForm } = useFormKit();
   const person = usePerson(id);
   const update = useUpdatePerson();
   const remove = useDeletePerson();
@@ -163,9 +166,10 @@ function EditPerson({ id }: { id: number }) {
       </Section>
     </View>
   );
-}
+});
 
 function PersonFields({ form, error, onSubmit }: { form: PersonForm; error: unknown; onSubmit: () => void }) {
+  const { Controller } = useFormKit();
   const skills = useSkills();
   const errors = form.formState.errors;
   const text = (name: 'name' | 'email' | 'contractedHours', label: string, testID: string, extra: Partial<ComponentProps<typeof TextField>> = {}) => (

@@ -1,6 +1,5 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
-import { Controller, useForm } from 'react-hook-form';
 import { colors, radius, space } from '@/constants/theme';
 import { createRosterBody } from '@/shared/api/rosters';
 import { useSession } from '@/hooks/api/get-session';
@@ -14,6 +13,7 @@ import { DateField } from '@/components/ui/date-field';
 import { Body, Heading } from '@/components/ui/typography';
 import { formError } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
+import { useFormKit, withFormKit } from '@/components/forms/form-kit';
 import { Loadable, Panel, Pill } from './panel';
 import { periodWords } from './format';
 
@@ -70,7 +70,8 @@ interface NewRoster {
 const NAMES = ['name', 'periodStart', 'periodEnd', 'timeZone'] as const;
 const resolver = bodyResolver(createRosterBody, (v: NewRoster) => v);
 
-function CreateRoster({ timeZone }: { timeZone?: string }) {
+const CreateRoster = withFormKit(function CreateRoster({ timeZone }: { timeZone?: string }) {
+  const { Controller, useForm } = useFormKit();
   const create = useCreateRoster();
   const form = useForm({ defaultValues: { name: '', periodStart: '', periodEnd: '', timeZone: timeZone ?? 'Europe/London' }, resolver });
   const submit = form.handleSubmit((body) => create.mutate(body, { onSuccess: () => form.reset({ ...form.getValues(), name: '', periodStart: '', periodEnd: '' }) }));
@@ -101,7 +102,7 @@ function CreateRoster({ timeZone }: { timeZone?: string }) {
       <Button label="Create roster" onPress={() => void submit()} busy={create.isPending} testID="roster-create" />
     </Panel>
   );
-}
+});
 
 const styles = StyleSheet.create({
   page: { gap: space.lg, maxWidth: 1000 },

@@ -1,6 +1,6 @@
 import { useEffect } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { Controller, useForm, type Resolver } from 'react-hook-form';
+import type { Resolver, UseFormReturn } from 'react-hook-form';
 import { colors, space } from '@/constants/theme';
 import { rulesBody } from '@/shared/api/rosters';
 import { RULE_CATALOGUE, type ParamField, type RuleEntry } from '@/solver/roster/rules/catalogue-words';
@@ -11,6 +11,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { TextField } from '@/components/ui/text-field';
 import { Body } from '@/components/ui/typography';
+import { useFormKit, withFormKit } from '@/components/forms/form-kit';
 import { Choices, Loadable, Panel } from './panel';
 import { SkillMixEditor, type SkillMixRequirement } from './skill-mix-editor';
 
@@ -83,7 +84,8 @@ export function RulesSection({ roster }: { roster: RosterDto }) {
   );
 }
 
-function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleSet; version: number }) {
+const RulesForm = withFormKit(function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleSet; version: number }) {
+  const { useForm } = useFormKit();
   const put = usePutRules();
   const form = useForm<FormValues>({ defaultValues: toForm(rules), resolver, mode: 'onSubmit' });
   // A newer version from the server (after a save here) replaces the form; a conflict keeps what was typed.
@@ -104,9 +106,10 @@ function RulesForm({ roster, rules, version }: { roster: RosterDto; rules: RuleS
       <Button label="Save rules" onPress={save} busy={put.isPending} disabled={roster.status === 'published'} testID="rules-save" />
     </Panel>
   );
-}
+});
 
-function RuleRow({ rule, form, rosterId }: { rule: RuleEntry; form: ReturnType<typeof useForm<FormValues>>; rosterId: number }) {
+function RuleRow({ rule, form, rosterId }: { rule: RuleEntry; form: UseFormReturn<FormValues>; rosterId: number }) {
+  const { Controller } = useFormKit();
   const mode = form.watch(`${rule.id}.mode`);
   const errors = (form.formState.errors[rule.id] ?? {}) as Record<string, { message?: string } | undefined>;
   return (
@@ -153,7 +156,8 @@ function describe(rule: RuleEntry, draft: RuleDraft): string {
   });
 }
 
-function NumberField({ form, name, label, error }: { form: ReturnType<typeof useForm<FormValues>>; name: string; label: string; error?: string }) {
+function NumberField({ form, name, label, error }: { form: UseFormReturn<FormValues>; name: string; label: string; error?: string }) {
+  const { Controller } = useFormKit();
   return (
     <View style={styles.field}>
       <Controller

@@ -1,6 +1,5 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
-import { Controller, useFieldArray, useForm } from 'react-hook-form';
 import { colors, radius, space } from '@/constants/theme';
 import { patternBody, updateShiftBody } from '@/shared/api/rosters';
 import { useSkills } from '@/hooks/api/get-skills';
@@ -19,6 +18,7 @@ import { TimeField } from '@/components/ui/time-field';
 import { Body } from '@/components/ui/typography';
 import { checkForm, fieldError, formError, type FieldErrors } from '@/components/forms/form-errors';
 import { bodyResolver, messageFor } from '@/components/forms/schema-form';
+import { useFormKit, withFormKit } from '@/components/forms/form-kit';
 import { Choices, Loadable, Panel } from './panel';
 import { dayWords, timeOf } from './format';
 
@@ -68,7 +68,8 @@ const toPattern = (v: PatternValues): PatternInput => ({ ...v, seats: v.seats.ma
 const patternResolver = bodyResolver(patternBody, toPattern);
 const NEW_PATTERN: PatternValues = { label: '', weekdays: ['mon', 'tue', 'wed', 'thu', 'fri'], startTime: '07:00', endTime: '15:00', seats: [{ skill: 'any', count: '2' }] };
 
-function PatternForm({ roster }: { roster: RosterDto }) {
+const PatternForm = withFormKit(function PatternForm({ roster }: { roster: RosterDto }) {
+  const { Controller, useFieldArray, useForm } = useFormKit();
   const { options, name } = useSkillOptions();
   const preview = usePreviewPattern();
   const create = useCreatePattern();
@@ -133,7 +134,7 @@ function PatternForm({ roster }: { roster: RosterDto }) {
       {create.isSuccess ? <Notice kind="info">{`Pattern “${create.data.label}” saved; its shifts are in the list below.`}</Notice> : null}
     </Panel>
   );
-}
+});
 
 function PatternList({ roster }: { roster: RosterDto }) {
   const patterns = usePatterns(roster.id);

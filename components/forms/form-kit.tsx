@@ -1,0 +1,45 @@
+import { Suspense, use, type ComponentType } from 'react';
+import { ActivityIndicator } from 'react-native';
+import { colors } from '@/constants/theme';
+
+type FormKit = typeof import('./form-kit-impl');
+/** The thenable fields React's `use` reads, set here too so a kit already loaded is used at once. */
+type Loading = Promise<FormKit> & { status?: 'pending' | 'fulfilled' | 'rejected'; value?: FormKit };
+
+let loading: Loading | undefined;
+
+/**
+ * react-hook-form and its zod resolver (form-kit-impl.ts), fetched once. Imported statically by
+ * five screens' forms they would sit in __common, which the landing page loads too; behind import()
+ * they are one chunk, asked for as soon as a module with a form is evaluated (see below), so it
+ * arrives beside that screen's data rather than after it.
+ */
+export function loadFormKit(): Promise<FormKit> {
+  if (!loading) {
+    const started: Loading = import('./form-kit-impl');
+    started.then((kit) => Object.assign(started, { status: 'fulfilled', value: kit }));
+    // Failing offline is answered where a form is drawn (use rethrows it), not as an unhandled rejection.
+    started.catch(() => {});
+    loading = started;
+  }
+  return loading;
+}
+
+// Every module that imports this one draws a form.
+void loadFormKit();
+
+/** The form library inside a component wrapped by `withFormKit` (it waits there until loaded). */
+export function useFormKit(): FormKit {
+  return use(loadFormKit());
+}
+
+/** A form component that waits, behind a spinner of its own, for the form library to arrive. */
+export function withFormKit<P extends object>(Form: ComponentType<P>): ComponentType<P> {
+  const WithFormKit = (props: P) => (
+    <Suspense fallback={<ActivityIndicator color={colors.loom} accessibilityLabel="Loading the form" />}>
+      <Form {...props} />
+    </Suspense>
+  );
+  WithFormKit.displayName = `withFormKit(${Form.displayName ?? Form.name})`;
+  return WithFormKit;
+}
