@@ -30,8 +30,9 @@ export const OPEN = -1;
 /**
  * An auxiliary variable (contract with solver/roster/lagrangian.ts and local search): it comes
  * after every seat variable, belongs to one person, and every factor touching it touches only
- * it and seat variables restricted to that person's value. `choices[j]` = the seats (with the
- * person's value in each) that value j requires free, and value j's own score (its unary).
+ * it and seat variables restricted to that person's value. `choices[j]` = the seats that value j
+ * requires free of the person (`CompiledRoster.valueOf(seat, person)` is the person's value in
+ * each), and value j's own score (its unary).
  */
 export type AuxVariable = {
   v: number;
@@ -40,7 +41,7 @@ export type AuxVariable = {
   /** Period days the aux is about (the rule's window). */
   first: number;
   last: number;
-  choices: { seats: Int32Array; values: Int32Array; score: number }[];
+  choices: { seats: Int32Array; score: number }[];
 };
 
 export type CompiledRoster = {
@@ -68,6 +69,8 @@ export type CompiledRoster = {
   parts: ({ term: TermName; table: Float64Array }[] | undefined)[];
   /** Auxiliary variables, in variable order (all after the seats). */
   aux: AuxVariable[];
+  /** The value of a seat variable that puts the person in it (-1 when they cannot take the seat). */
+  valueOf: (seat: number, person: number) => number;
 };
 
 function gcd(a: number, b: number): number {
@@ -92,7 +95,7 @@ export function bestAux<T extends { [i: number]: number; length: number }>(compi
     let bestScore = -Infinity;
     a.choices.forEach((c, j) => {
       if (c.score <= bestScore) return;
-      for (let k = 0; k < c.seats.length; k++) if (x[c.seats[k]] === c.values[k]) return;
+      for (let k = 0; k < c.seats.length; k++) if (x[c.seats[k]] === compiled.valueOf(c.seats[k], a.person)) return;
       best = j;
       bestScore = c.score;
     });
@@ -380,7 +383,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       last,
       choices: choices.map((c) => {
         const seats = c.seats.filter((s) => valueAt(s, p) >= 0);
-        return { seats: Int32Array.from(seats), values: Int32Array.from(seats.map((s) => valueAt(s, p))), score: c.score };
+        return { seats: Int32Array.from(seats), score: c.score };
       }),
     };
     auxVars.push(entry);
@@ -395,7 +398,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       factors.push({
         kind: 'counting',
         vars: [v, ...c.seats],
-        weights: [auxWeights, ...Array.from(c.values, (x, k) => weightList(c.seats[k], x, 1))],
+        weights: [auxWeights, ...Array.from(c.seats, (seat) => weightList(seat, valueAt(seat, p), 1))],
         score,
         hard: true,
         id: `${term}:${detail}:${j}`,
@@ -474,6 +477,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
     minuteUnit: unit,
     parts,
     aux: auxVars,
+    valueOf: valueAt,
   };
 }
 

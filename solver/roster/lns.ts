@@ -351,7 +351,7 @@ export function settleAux(compiled: CompiledRoster, x: Int32Array, free: number[
       for (let k = 0; k < c.seats.length; k++) {
         const s = c.seats[k]!;
         if (freeSeat[s]) touchesFree = true;
-        else if (x[s] === c.values[k]) return void shut.add(j);
+        else if (x[s] === compiled.valueOf(s, a.person)) return void shut.add(j);
       }
       if (c.score > top) top = c.score;
       if (!touchesFree && (settled < 0 || c.score > a.choices[settled]!.score)) settled = j;
