@@ -186,9 +186,10 @@ export function* repairRestarts(loopy: LoopyRun, signal: AbortSignal | undefined
  * a row found no new best), in slices of ~50 ms so the signal and the event loop get their turn;
  * each slice's best is offered to the run (which keeps it only when it beats the incumbent).
  */
-export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, until: number, maxIdleRestarts = Infinity): RunSteps {
-  const { run, random } = loopy, now = run.now;
-  const tabu = new TabuSearch(run.engine, run.bestX ?? decodeBeliefs(loopy.state), random);
+export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, until: number, maxIdleRestarts = Infinity, tabu = newTabu(loopy)): RunSteps {
+  const run = loopy.run, now = run.now;
+  // a search carried over from an earlier phase counts its idle restarts afresh
+  tabu.idleRestarts = 0;
   while (now() < until && !signal?.aborted && !run.gapClosed() && tabu.idleRestarts < maxIdleRestarts) {
     const sliceEnd = Math.min(until, now() + 50);
     tabu.run(() => now() >= sliceEnd || signal?.aborted === true || tabu.idleRestarts >= maxIdleRestarts);
@@ -196,6 +197,11 @@ export function* tabuPhase(loopy: LoopyRun, signal: AbortSignal | undefined, unt
     run.progress();
     yield;
   }
+}
+
+/** Tabu search from the incumbent (the decoded beliefs while there is none). */
+export function newTabu(loopy: LoopyRun): TabuSearch {
+  return new TabuSearch(loopy.run.engine, loopy.run.bestX ?? decodeBeliefs(loopy.state), loopy.random);
 }
 
 /** Whether a search after the sweeps has anything to do: the gap open, time left, no abort. */
