@@ -3,7 +3,8 @@
 // (metro.config.cjs). The app never writes a JSON Schema from a zod schema nor calls `z.compile`
 // (shared/roster/write-json-schema.ts runs in Node, with zod as published), yet zod's `z` and
 // `z.core` namespaces keep everything they export: about 60 KiB minified in the chunk every
-// first screen loads. Each export keeps its name so zod's modules still link; calling one throws.
+// first screen loads. Here are only the names zod's own modules read outside the JSON Schema
+// writer (and `z.…` exports, so they keep their names); calling any of them throws.
 function leftOut(): never {
   throw new Error("zod's JSON Schema writer and z.compile are left out of the web bundle (metro.config.cjs)");
 }
@@ -12,19 +13,12 @@ function leftOut(): never {
 // from these when it is made, so they must return a function; the function throws if called.
 export const createToJSONSchemaMethod = () => leftOut;
 export const createStandardJSONSchemaMethod = () => leftOut;
-export const initializeContext = leftOut, handleUnrepresentable = leftOut, processSchema = leftOut, process = leftOut, extractDefs = leftOut, finalize = leftOut;
 
-// json-schema-processors.js. Schemas call the per-kind processors only while writing a JSON
-// Schema; `aggregateChecks` also backs the `minLength`, `maxLength`, `format`, `minValue` …
-// getters of string, number and bigint schemas, which the app does not read.
+// json-schema-processors.js. `aggregateChecks` backs the `minLength`, `maxLength`, `format`,
+// `minValue` … getters of string, number and bigint schemas, which the app does not read. The
+// per-kind processors (`stringProcessor` …) are left undefined: schemas call them only from inside
+// toJSONSchema, and each name exported here is also re-exported by zod's `z.core` namespace.
 export const toJSONSchema = leftOut, aggregateChecks = leftOut;
-export const stringProcessor = leftOut, numberProcessor = leftOut, booleanProcessor = leftOut, bigintProcessor = leftOut, symbolProcessor = leftOut,
-  nullProcessor = leftOut, undefinedProcessor = leftOut, voidProcessor = leftOut, neverProcessor = leftOut, anyProcessor = leftOut, unknownProcessor = leftOut,
-  dateProcessor = leftOut, enumProcessor = leftOut, literalProcessor = leftOut, nanProcessor = leftOut, templateLiteralProcessor = leftOut, fileProcessor = leftOut,
-  successProcessor = leftOut, customProcessor = leftOut, functionProcessor = leftOut, transformProcessor = leftOut, mapProcessor = leftOut, setProcessor = leftOut,
-  arrayProcessor = leftOut, objectProcessor = leftOut, unionProcessor = leftOut, intersectionProcessor = leftOut, tupleProcessor = leftOut, recordProcessor = leftOut,
-  nullableProcessor = leftOut, nonoptionalProcessor = leftOut, defaultProcessor = leftOut, prefaultProcessor = leftOut, catchProcessor = leftOut, pipeProcessor = leftOut,
-  readonlyProcessor = leftOut, promiseProcessor = leftOut, optionalProcessor = leftOut, lazyProcessor = leftOut;
 export const allProcessors = {};
 
 // json-schema-generator.js
@@ -39,4 +33,4 @@ export class JSONSchemaGenerator {
 export const INVALID = Symbol.for('zod.compile.invalid');
 export class ZodCompileAsyncError extends Error {}
 export class ZodCompileUnsupportedError extends Error {}
-export const compile = leftOut, withParser = leftOut, compileFn = leftOut;
+export const compile = leftOut, withParser = leftOut;
