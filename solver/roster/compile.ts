@@ -111,6 +111,22 @@ export function withAux(compiled: CompiledRoster, seats: ArrayLike<number>): Int
   return bestAux(compiled, x);
 }
 
+/**
+ * The seat × person value table as a function. Made outside compileRoster so that the function
+ * CompiledRoster keeps holds only the table: a closure made inside would keep the whole compile's
+ * scope alive (its merge keys and caches, 78 MB on 60 people × 13 weeks).
+ */
+/** An array of exactly n items (a spread into an array literal may leave spare capacity). */
+function exactArray<T>(n: number, at: (k: number) => T): T[] {
+  const out = new Array<T>(n);
+  for (let k = 0; k < n; k++) out[k] = at(k);
+  return out;
+}
+
+function seatValueLookup(table: Int32Array, nPeople: number): (seat: number, person: number) => number {
+  return (s, p) => table[s * nPeople + p];
+}
+
 export function compileRoster(roster: Roster): CompiledRoster {
   const rules = roster.rules;
   const on = (t: keyof typeof rules) => rules[t].enabled && (rules[t].hard || rules[t].weight > 0);
@@ -192,7 +208,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
   const nSeats = domains.length;
   const valueTable = new Int32Array(nSeats * nPeople).fill(-1);
   domains.forEach((d, s) => d.forEach((p, x) => p !== OPEN && (valueTable[s * nPeople + p] = x)));
-  const valueAt = (s: number, p: number): number => valueTable[s * nPeople + p];
+  const valueAt = seatValueLookup(valueTable, nPeople);
 
   for (const h of hardUnary) {
     const table = new Float64Array(domains[h.v].length);
@@ -397,8 +413,8 @@ export function compileRoster(roster: Roster): CompiledRoster {
       const score = forbidScore(M);
       factors.push({
         kind: 'counting',
-        vars: [v, ...c.seats],
-        weights: [auxWeights, ...Array.from(c.seats, (seat) => weightList(seat, valueAt(seat, p), 1))],
+        vars: exactArray(c.seats.length + 1, (k) => (k === 0 ? v : c.seats[k - 1])),
+        weights: exactArray(c.seats.length + 1, (k) => (k === 0 ? auxWeights : weightList(c.seats[k - 1], valueAt(c.seats[k - 1], p), 1))),
         score,
         hard: true,
         id: `${term}:${detail}:${j}`,
