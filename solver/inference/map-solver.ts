@@ -1,6 +1,6 @@
 /**
  * The one interface every MAP algorithm implements (enumeration, tree, MPLP, max-product, the
- * 'auto' dispatcher; the roster's Lagrangian can sit behind it too, see `MapSolver`), and the
+ * 'auto' dispatcher; the roster's Lagrangian too, see `MapSolver`), and the
  * result they all return.
  */
 import type { Model } from '../model/types';
@@ -43,9 +43,10 @@ export interface MapResult {
  * callers pass only what they change.
  *
  * `Input` is a Model for the general algorithms. A relaxation that needs more structure takes
- * its own input: the roster's person/shift Lagrangian (solver/roster/lagrangian.ts) fits as
- * `MapSolver<LagrangianOptions, { compiled: CompiledRoster; incumbent: MapResult }>`, returning
- * the incumbent's assignment with the lowest L(μ, ν) as its bound.
+ * its own input: the roster's person/shift Lagrangian is `lagrangianSolver`
+ * (solver/roster/bound/lagrangian-solver.ts), a `MapSolver<LagrangianSolverOptions,
+ * { compiled, incumbent }>` returning the incumbent's assignment (or a better one it found) with
+ * the lowest L(μ, ν) as its bound.
  */
 export interface MapSolver<Options extends BaseMapOptions = BaseMapOptions, Input = Model> {
   readonly name: string;

@@ -539,13 +539,13 @@ export interface DualStart {
 }
 
 /** Name of each μ: the (shift, person) it prices. */
-export function multiplierKeys(S: LagrangianSetup): string[] {
-  const { roster } = S.compiled;
-  const domains = S.domains;
-  const out: string[] = new Array(S.nMu);
+export function multiplierKeys(setup: LagrangianSetup): string[] {
+  const { roster } = setup.compiled;
+  const domains = setup.domains;
+  const out: string[] = new Array(setup.nMu);
   domains.forEach((d, s) =>
     d.forEach((p, x) => {
-      const q = S.muIndex[s]![x]!;
+      const q = setup.muIndex[s]![x]!;
       if (q >= 0) out[q] = `${roster.seats[s]!.shift}|${roster.people[p]!.id}`;
     }),
   );
@@ -553,19 +553,19 @@ export function multiplierKeys(S: LagrangianSetup): string[] {
 }
 
 /** Multipliers by name (zeros left out). */
-export function dualOf(S: LagrangianSetup, mu: Float64Array, nu: Float64Array[]): DualStart {
-  const keys = multiplierKeys(S);
+export function dualOf(setup: LagrangianSetup, mu: Float64Array, nu: Float64Array[]): DualStart {
+  const keys = multiplierKeys(setup);
   const out: DualStart = { mu: {}, nu: {} };
-  for (let q = 0; q < S.nMu; q++) if (mu[q] !== 0) out.mu[keys[q]!] = mu[q]!;
-  S.people.forEach((pp, i) => pp.period.forEach((pf, j) => nu[i]![j] !== 0 && (out.nu[pf.id] = nu[i]![j]!)));
+  for (let q = 0; q < setup.nMu; q++) if (mu[q] !== 0) out.mu[keys[q]!] = mu[q]!;
+  setup.people.forEach((pp, i) => pp.period.forEach((pf, j) => nu[i]![j] !== 0 && (out.nu[pf.id] = nu[i]![j]!)));
   return out;
 }
 
 /** Named multipliers of an earlier run into this setup's arrays (unknown names start at 0). */
-export function applyDual(S: LagrangianSetup, d: DualStart, mu: Float64Array, nu: Float64Array[]): void {
-  const keys = multiplierKeys(S);
-  for (let q = 0; q < S.nMu; q++) mu[q] = d.mu[keys[q]!] ?? 0;
-  S.people.forEach((pp, i) => pp.period.forEach((pf, j) => (nu[i]![j] = d.nu[pf.id] ?? 0)));
+export function applyDual(setup: LagrangianSetup, d: DualStart, mu: Float64Array, nu: Float64Array[]): void {
+  const keys = multiplierKeys(setup);
+  for (let q = 0; q < setup.nMu; q++) mu[q] = d.mu[keys[q]!] ?? 0;
+  setup.people.forEach((pp, i) => pp.period.forEach((pf, j) => (nu[i]![j] = d.nu[pf.id] ?? 0)));
 }
 
 /** Multipliers and step state of a subgradient run; pass it back in to continue. */
@@ -587,8 +587,8 @@ export interface LagrangianState {
   dNu?: Float64Array[];
 }
 
-export function newLagrangianState(S: LagrangianSetup): LagrangianState {
-  return { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)), best: Infinity, schedules: [], step: 1, sinceImprove: 0, iterations: 0 };
+export function newLagrangianState(setup: LagrangianSetup): LagrangianState {
+  return { mu: new Float64Array(setup.nMu), nu: setup.people.map((pp) => new Float64Array(pp.period.length)), best: Infinity, schedules: [], step: 1, sinceImprove: 0, iterations: 0 };
 }
 
 /** A shift side solution: the value of every seat of the shift, its own score (no μ) and its μ indices. */
@@ -618,13 +618,13 @@ export interface Columns {
  * One evaluation of L(μ, ν) with its subgradient (gMu = y − x, gNu = S(y) − t*). With `cols`,
  * each subproblem's maximiser is also pushed there as a column (shift index / person plan index).
  */
-export function evaluateLagrangian(S: LagrangianSetup, mu: Float64Array, nu: Float64Array[], gMu: Float64Array, gNu: Float64Array[], cols?: Columns): { L: number; schedules: number[][] } {
+export function evaluateLagrangian(setup: LagrangianSetup, mu: Float64Array, nu: Float64Array[], gMu: Float64Array, gNu: Float64Array[], cols?: Columns): { L: number; schedules: number[][] } {
   gMu.fill(0);
-  let L = S.constant;
-  S.shifts.forEach((sp, sh) => (L += solveShift(S, sp, mu, gMu, cols ? (values, score, mus) => cols.shifts.push({ shift: sh, values, score, mus }) : undefined)));
+  let L = setup.constant;
+  setup.shifts.forEach((sp, sh) => (L += solveShift(setup, sp, mu, gMu, cols ? (values, score, mus) => cols.shifts.push({ shift: sh, values, score, mus }) : undefined)));
   const schedules: number[][] = [];
-  S.people.forEach((pp, i) => {
-    const r = solvePerson(S, pp, mu, nu[i]!, gMu, gNu[i]!);
+  setup.people.forEach((pp, i) => {
+    const r = solvePerson(setup, pp, mu, nu[i]!, gMu, gNu[i]!);
     L += r.value;
     schedules.push(r.seats);
     cols?.people.push({ person: i, seats: r.seats, score: r.fixed, sums: r.sums, mus: r.mus });
@@ -633,7 +633,7 @@ export function evaluateLagrangian(S: LagrangianSetup, mu: Float64Array, nu: Flo
 }
 
 /** Steps on the diagonal scale of ν relative to μ (a preconditioner; any ν gives a valid bound). */
-const NU_SCALE = 0.1;
+export const NU_SCALE = 0.1;
 /**
  * Halve the step after this many evaluations without a new best: one per ~28 multipliers, between
  * 8 and 50. Measured on the demo (1,391 μ), 12 s of steps: patience 8 froze at 70 (step ~5e-4),
@@ -648,38 +648,38 @@ const DEFLECTION = 0.7;
 /**
  * Subgradient descent on L(μ, ν) with Polyak steps toward `target` (a known feasible score; without
  * one, 1 % below the best bound), until `deadline` (by `now`) or maxIterations more evaluations.
- * Every L is an upper bound; st.best keeps the lowest.
+ * Every L is an upper bound; state.best keeps the lowest.
  */
-export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { deadline: number; now: () => number; target?: number; maxIterations?: number; patience?: number; deflection?: number }): LagrangianState {
-  const gMu = new Float64Array(S.nMu);
-  const gNu = S.people.map((pp) => new Float64Array(pp.period.length));
+export function lagrangianSteps(setup: LagrangianSetup, state: LagrangianState, o: { deadline: number; now: () => number; target?: number; maxIterations?: number; patience?: number; deflection?: number }): LagrangianState {
+  const gMu = new Float64Array(setup.nMu);
+  const gNu = setup.people.map((pp) => new Float64Array(pp.period.length));
   const maxIt = o.maxIterations ?? Infinity;
-  const patience = o.patience ?? Math.min(PATIENCE_MAX, Math.max(PATIENCE_MIN, Math.round(S.nMu / MU_PER_PATIENCE)));
+  const patience = o.patience ?? Math.min(PATIENCE_MAX, Math.max(PATIENCE_MIN, Math.round(setup.nMu / MU_PER_PATIENCE)));
   for (let k = 0; k < maxIt; k++) {
     if (k > 0 && o.now() > o.deadline) break;
-    const { L, schedules } = evaluateLagrangian(S, st.mu, st.nu, gMu, gNu);
-    st.iterations++;
-    if (L < st.best) {
-      if (L < st.best - 1e-9 * Math.max(1, Math.abs(st.best))) st.sinceImprove = 0;
-      st.best = L;
-      st.schedules = schedules;
-      st.bestMu ??= new Float64Array(S.nMu);
-      st.bestNu ??= S.people.map((pp) => new Float64Array(pp.period.length));
-      st.bestMu.set(st.mu);
-      st.nu.forEach((v, i) => st.bestNu![i]!.set(v));
-    } else st.sinceImprove++;
-    if (st.sinceImprove >= patience) {
-      st.step *= 0.5;
-      st.sinceImprove = 0;
+    const { L, schedules } = evaluateLagrangian(setup, state.mu, state.nu, gMu, gNu);
+    state.iterations++;
+    if (L < state.best) {
+      if (L < state.best - 1e-9 * Math.max(1, Math.abs(state.best))) state.sinceImprove = 0;
+      state.best = L;
+      state.schedules = schedules;
+      state.bestMu ??= new Float64Array(setup.nMu);
+      state.bestNu ??= setup.people.map((pp) => new Float64Array(pp.period.length));
+      state.bestMu.set(state.mu);
+      state.nu.forEach((v, i) => state.bestNu![i]!.set(v));
+    } else state.sinceImprove++;
+    if (state.sinceImprove >= patience) {
+      state.step *= 0.5;
+      state.sinceImprove = 0;
     }
     // deflected direction d = g + β d_prev (β ≤ 1/2): damps the zig-zag of plain subgradient steps
     const beta = o.deflection ?? DEFLECTION;
     if (beta > 0) {
-      st.dMu ??= new Float64Array(S.nMu);
-      st.dNu ??= S.people.map((pp) => new Float64Array(pp.period.length));
-      for (let q = 0; q < gMu.length; q++) gMu[q] = st.dMu[q] = gMu[q]! + beta * st.dMu[q]!;
+      state.dMu ??= new Float64Array(setup.nMu);
+      state.dNu ??= setup.people.map((pp) => new Float64Array(pp.period.length));
+      for (let q = 0; q < gMu.length; q++) gMu[q] = state.dMu[q] = gMu[q]! + beta * state.dMu[q]!;
       gNu.forEach((g, i) => {
-        const dn = st.dNu![i]!;
+        const dn = state.dNu![i]!;
         for (let q = 0; q < g.length; q++) g[q] = dn[q] = g[q]! + beta * dn[q]!;
       });
     }
@@ -687,23 +687,23 @@ export function lagrangianSteps(S: LagrangianSetup, st: LagrangianState, o: { de
     for (let q = 0; q < gMu.length; q++) norm += gMu[q]! * gMu[q]!;
     for (const g of gNu) for (let q = 0; q < g.length; q++) norm += NU_SCALE * g[q]! * g[q]!;
     if (norm === 0) break; // both sides agree: L is the relaxation's optimum
-    const target = o.target !== undefined && o.target < st.best ? o.target : st.best - Math.max(1, Math.abs(st.best) * 0.01);
-    const alpha = (st.step * (L - target)) / norm;
+    const target = o.target !== undefined && o.target < state.best ? o.target : state.best - Math.max(1, Math.abs(state.best) * 0.01);
+    const alpha = (state.step * (L - target)) / norm;
     // ∂L/∂μ = y − x: μ ← μ − α g (a seat taking p that p does not take raises p's price there)
-    for (let q = 0; q < st.mu.length; q++) st.mu[q] -= alpha * gMu[q]!;
-    st.nu.forEach((v, i) => {
+    for (let q = 0; q < state.mu.length; q++) state.mu[q] -= alpha * gMu[q]!;
+    state.nu.forEach((v, i) => {
       const g = gNu[i]!;
       for (let q = 0; q < v.length; q++) v[q] -= alpha * NU_SCALE * g[q]!;
     });
   }
-  return st;
+  return state;
 }
 
 /** Shift side: max over the shift's seats of Σ (unary − μ) + mixed factors; gMu −= chosen. */
-function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Float64Array, emit?: (values: number[], score: number, mus: number[]) => void): number {
+function solveShift(setup: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Float64Array, emit?: (values: number[], score: number, mus: number[]) => void): number {
   const n = sp.seats.length;
-  const muIndex = S.muIndex;
-  const domains = S.domains;
+  const muIndex = setup.muIndex;
+  const domains = setup.domains;
   if (sp.mixed.length === 0) {
     let total = 0;
     const values: number[] = [], mus: number[] = [];
@@ -810,8 +810,8 @@ function solveShift(S: LagrangianSetup, sp: ShiftPlan, mu: Float64Array, gMu: Fl
  * score (unaries, majorants, the mixed factors kept in the DP) and μ indices; null when a value
  * is one the shift side excludes (a hard unary).
  */
-export function shiftColumnOf(S: LagrangianSetup, sh: number, x: ArrayLike<number>): ShiftColumn | null {
-  const sp = S.shifts[sh]!;
+export function shiftColumnOf(setup: LagrangianSetup, sh: number, x: ArrayLike<number>): ShiftColumn | null {
+  const sp = setup.shifts[sh]!;
   let score = 0;
   const values: number[] = [], mus: number[] = [];
   const sums = sp.mixed.map(() => 0);
@@ -821,7 +821,7 @@ export function shiftColumnOf(S: LagrangianSetup, sh: number, x: ArrayLike<numbe
     if (!sp.values[i]!.includes(v)) return null;
     values.push(v);
     score += sp.unary[i]![v]!;
-    const q = S.muIndex[s]![v]!;
+    const q = setup.muIndex[s]![v]!;
     if (q >= 0) mus.push(q);
     sp.mixed.forEach((f, j) => (sums[j] += f.weights[i]!.get(v) ?? 0));
   }
@@ -848,8 +848,8 @@ function maxReachable(pp: PersonPlan, j: number): number {
 }
 
 /** Person side: best schedule by DP over days; gMu += chosen seats; gNu = S(y) − t*. */
-function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: Float64Array, gMu: Float64Array, gNu: Float64Array): { value: number; seats: number[]; fixed: number; sums: number[]; mus: number[] } {
-  const muIndex = S.muIndex;
+function solvePerson(setup: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: Float64Array, gMu: Float64Array, gNu: Float64Array): { value: number; seats: number[]; fixed: number; sums: number[]; mus: number[] } {
+  const muIndex = setup.muIndex;
   // conjugate constants: max_t f(t) − ν t, and its argmax
   let value = 0;
   const tStar: number[] = [];
@@ -923,7 +923,7 @@ function solvePerson(S: LagrangianSetup, pp: PersonPlan, mu: Float64Array, nu: F
     fixed += pp.fixed[d]![k]!;
     for (const seat of bestSeat[d]![oi]!) {
       seats.push(seat);
-      const x = S.domains[seat]!.indexOf(pp.p);
+      const x = setup.domains[seat]!.indexOf(pp.p);
       const mi = muIndex[seat]![x]!;
       if (mi >= 0) (gMu[mi] += 1), mus.push(mi);
     }

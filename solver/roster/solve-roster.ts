@@ -7,8 +7,8 @@ import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { solveMap, type MapOptions, type MapResult } from '../inference';
 import { DEFAULT_MAP_OPTIONS } from '../inference/options';
 import { relativeGap, tick } from '../inference/solve';
-import { applyDual, buildLagrangian, dualOf, lagrangianSteps, newLagrangianState, type DualStart } from './lagrangian';
-import { createColumnGeneration } from './bound/column-generation';
+import type { DualStart } from './lagrangian';
+import { lagrangianSolver } from './bound/lagrangian-solver';
 import { loadHighsRuntime } from './bound/highs';
 import { roundToGrid, rosterIdeal, scoreGrid } from './bound/grid';
 import { score as modelScore } from '../model/score';
@@ -108,7 +108,7 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   // the whole call so far, compiling included (the bound's history goes on from here)
   result.timeMs = now() - t0;
   let dual: DualStart | undefined;
-  if (share > 0 && !result.optimal && !signal?.aborted) dual = await tightenWithLagrangian(compiled, result, t0 + timeLimitMs, now, mapOptions, grid, dualStart, signal);
+  if (share > 0 && !result.optimal && !signal?.aborted) dual = await tightenWithLagrangian(compiled, result, t0, timeLimitMs, now, mapOptions, grid, dualStart, signal);
   // a bound that converged early (column generation at the LP optimum, above the best roster: an
   // integrality gap) leaves time: LNS goes on with it (12 × 2 weeks: converged at 2.3 s of 4 s,
   // bound −34, roster −64.5; LNS reaches HiGHS's optimum −36.5 after about 2.4 s of its own)
@@ -203,94 +203,54 @@ function startResult(compiled: CompiledRoster, x: Int32Array, timeMs: number): M
 /** Rosters with at most this many seats give the bound 70 % of the time by default. */
 const SMALL_ROSTER_SEATS = 120;
 
-/** Rosters with at most this many (shift, person) multipliers get column generation (measured: 340 converge in ~2 s; the demo's 1,494 need minutes). */
-const COLUMN_GENERATION_MAX_MU = 800;
-
 /**
- * Lower result.bound with the person-decomposition bound, in slices of ~50 ms so an abort or the
- * event loop is never kept waiting; result keeps its meaning (bound: proven upper bound, gap
- * from it). Models outside the decomposition's structure keep the MPLP bound.
+ * Lower result.bound with the person-decomposition bound (bound/lagrangian-solver.ts), charged to
+ * the call's own budget; result keeps its meaning (bound: proven upper bound rounded to the grid,
+ * gap from it, the bound's history after the search's). Models outside the decomposition's
+ * structure keep the MPLP bound.
  */
 async function tightenWithLagrangian(
   compiled: CompiledRoster,
   result: MapResult,
-  deadline: number,
+  startedAt: number,
+  timeLimitMs: number,
   now: () => number,
   mapOptions: Partial<MapOptions>,
   grid: number,
   dualStart: DualStart | undefined,
   signal?: AbortSignal,
 ): Promise<DualStart | undefined> {
-  const t0 = now();
-  const S = buildLagrangian(compiled, { deadline, now });
-  if ('unsupported' in S) return undefined;
-  const startMs = result.timeMs - (now() - t0);
-  let lastProgress = now();
-  const report = (bound: number, iterations: number) => {
-    if (bound >= result.bound) return;
-    result.bound = Math.max(bound, result.score);
-    result.gap = relativeGap(result.score, result.bound);
-    onGrid(result, compiled, grid);
-    result.history.push({ iteration: result.iterations + iterations, timeMs: startMs + (now() - t0), score: result.score, bound: result.bound });
-    if (mapOptions.onProgress && now() - lastProgress >= (mapOptions.progressEveryMs ?? DEFAULT_MAP_OPTIONS.progressEveryMs)) {
-      lastProgress = now();
-      mapOptions.onProgress({ iteration: result.iterations + iterations, timeMs: startMs + (now() - t0), score: result.score, bound: result.bound, gap: result.gap });
-    }
-  };
-  const done = () => result.optimal || (result.score > -Infinity && result.bound - result.score <= (mapOptions.absoluteTolerance ?? DEFAULT_MAP_OPTIONS.absoluteTolerance));
-  if (S.nMu <= COLUMN_GENERATION_MAX_MU) {
-    // small rosters: column generation solves the relaxation exactly (HiGHS as the master)
-    const highs = await loadHighsRuntime().catch(() => null);
-    if (highs) {
-      const cg = createColumnGeneration(S, highs, { incumbent: result.score > -Infinity ? result.assignment : undefined, start: dualStart });
-      try {
-        while (now() < deadline && !signal?.aborted && !cg.converged && !cg.failed) {
-          cg.run(Math.min(deadline, now() + 50), now);
-          report(cg.bound, cg.rounds);
-          if (done()) break;
-          await tick();
-        }
-        // the master's own solution, put together shift by shift, is often the optimum itself
-        const x = cg.lpRoster();
-        if (x) {
-          const sc = modelScore(compiled.model, x);
-          if (sc > result.score) {
-            result.assignment = Array.from(x);
-            result.score = sc;
-            result.feasible = true;
-            result.timeToBestMs = startMs + (now() - t0);
-            result.gap = relativeGap(result.score, result.bound);
-            onGrid(result, compiled, grid);
-            result.history.push({ iteration: result.iterations + cg.rounds, timeMs: result.timeToBestMs, score: result.score, bound: result.bound });
-          }
-        }
-        result.method = `${result.method}+column-generation`;
-        if (done()) (result.optimal = true), (result.stopReason = 'gap');
-        // a master HiGHS could not solve: the subgradient goes on from here (below)
-        if (!cg.failed || result.optimal) return Number.isFinite(cg.bound) ? cg.dual() : undefined;
-        if (!dualStart && Number.isFinite(cg.bound)) dualStart = cg.dual();
-      } catch {
-        // HiGHS failed on the master: the bounds reported so far stay valid; the subgradient takes over
-      } finally {
-        cg.dispose();
-      }
-    }
+  const report = mapOptions.onProgress;
+  const bounded = await lagrangianSolver.solve(
+    { compiled, incumbent: result },
+    {
+      startedAt,
+      timeLimitMs,
+      clock: now,
+      dualStart,
+      roundBound: (bound) => roundToGrid(bound, compiled.model, grid),
+      absoluteTolerance: mapOptions.absoluteTolerance,
+      progressEveryMs: mapOptions.progressEveryMs,
+      onProgress: report && ((p) => report({ ...p, iteration: result.iterations + p.iteration })),
+    },
+    signal,
+  );
+  if (bounded.unsupported) return undefined;
+  for (const point of bounded.history) result.history.push({ ...point, iteration: result.iterations + point.iteration });
+  if (bounded.score > result.score) {
+    result.assignment = bounded.assignment;
+    result.score = bounded.score;
+    result.feasible = true;
+    result.timeToBestMs = bounded.timeToBestMs;
   }
-  const st = newLagrangianState(S);
-  if (dualStart) applyDual(S, dualStart, st.mu, st.nu);
-  const target = result.score > -Infinity ? result.score : undefined;
-  while (now() < deadline && !signal?.aborted) {
-    lagrangianSteps(S, st, { deadline: Math.min(deadline, now() + 50), now, target });
-    report(st.best, st.iterations);
-    if (done()) {
-      result.optimal = true;
-      result.stopReason = 'gap';
-      break;
-    }
-    await tick();
+  result.bound = bounded.bound;
+  result.gap = bounded.gap;
+  if (bounded.optimal) {
+    result.optimal = true;
+    result.stopReason = 'gap';
   }
-  result.method = `${result.method}+lagrangian`;
-  return st.bestMu ? dualOf(S, st.bestMu, st.bestNu!) : undefined;
+  result.method = `${result.method}+${bounded.method}`;
+  return bounded.dual;
 }
 
 const DAY_MS = 86_400_000;

@@ -72,16 +72,16 @@ export interface ColumnGeneration {
 
 const B = 1e6; // seeds the master with the incumbent's own schedules (see seed())
 
-export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, options: Partial<ColumnGenerationOptions> = {}): ColumnGeneration {
+export function createColumnGeneration(setup: LagrangianSetup, highs: HighsRuntime, options: Partial<ColumnGenerationOptions> = {}): ColumnGeneration {
   const o = { ...DEFAULT_COLUMN_GENERATION, ...options };
-  const compiled: CompiledRoster = S.compiled;
-  const domains = S.domains;
-  const nSh = S.shifts.length;
-  const nP = S.people.length;
+  const compiled: CompiledRoster = setup.compiled;
+  const domains = setup.domains;
+  const nSh = setup.shifts.length;
+  const nP = setup.people.length;
   const pj: number[] = []; // offset of person i's period factors
   let nPJ = 0;
-  S.people.forEach((pp, i) => ((pj[i] = nPJ), (nPJ += pp.period.length)));
-  const rowConvP = nSh, rowConvPJ = nSh + nP, rowMu = rowConvPJ + nPJ, rowNu = rowMu + S.nMu;
+  setup.people.forEach((pp, i) => ((pj[i] = nPJ), (nPJ += pp.period.length)));
+  const rowConvP = nSh, rowConvPJ = nSh + nP, rowMu = rowConvPJ + nPJ, rowNu = rowMu + setup.nMu;
   const nRows = rowNu + nPJ;
 
   let M = o.bigM;
@@ -154,7 +154,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
   };
 
   // θ columns (every finite sum up to what the person can reach) and the slacks
-  S.people.forEach((pp, i) =>
+  setup.people.forEach((pp, i) =>
     pp.period.forEach((pf, j) => {
       const tmax = pf.tmax ?? pf.table.length - 1;
       for (let t = 0; t <= tmax; t++) {
@@ -171,23 +171,23 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
   }
   const endSlack = cols.length;
 
-  const mu = new Float64Array(S.nMu);
-  const nu = S.people.map((pp) => new Float64Array(pp.period.length));
-  const gMu = new Float64Array(S.nMu);
-  const gNu = S.people.map((pp) => new Float64Array(pp.period.length));
-  const evalAt = (cmu: Float64Array, cnu: Float64Array[], collect?: Columns) => evaluateLagrangian(S, cmu, cnu, gMu, gNu, collect).L;
+  const mu = new Float64Array(setup.nMu);
+  const nu = setup.people.map((pp) => new Float64Array(pp.period.length));
+  const gMu = new Float64Array(setup.nMu);
+  const gNu = setup.people.map((pp) => new Float64Array(pp.period.length));
+  const evalAt = (cmu: Float64Array, cnu: Float64Array[], collect?: Columns) => evaluateLagrangian(setup, cmu, cnu, gMu, gNu, collect).L;
 
   // seed: with μ = ±B on the incumbent's (shift, person) pairs each side's DP returns exactly the
   // incumbent's schedule (a feasible roster keeps every hard rule the DPs encode), so the master
   // starts with an integral point worth the incumbent's score
   const seed = () => {
     const inc = o.incumbent;
-    const on = new Uint8Array(S.nMu);
+    const on = new Uint8Array(setup.nMu);
     if (inc) for (let s = 0; s < domains.length; s++) if (inc[s]! >= 0 && inc[s]! < domains[s]!.length) {
-      const q = S.muIndex[s]![inc[s]!]!;
+      const q = setup.muIndex[s]![inc[s]!]!;
       if (q >= 0) on[q] = 1;
     }
-    const zeroNu = S.people.map((pp) => new Float64Array(pp.period.length));
+    const zeroNu = setup.people.map((pp) => new Float64Array(pp.period.length));
     for (const sign of [1, -1]) {
       const c: Columns = { shifts: [], people: [] };
       const bm = Float64Array.from(on, (v) => (inc ? (v ? sign * B : -sign * B) : 0));
@@ -199,7 +199,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
     // the shift side is seeded with the incumbent's seats themselves (its DP may seat a person twice)
     if (inc)
       for (let sh = 0; sh < nSh; sh++) {
-        const col = shiftColumnOf(S, sh, inc);
+        const col = shiftColumnOf(setup, sh, inc);
         if (col) addShift(col);
       }
   };
@@ -210,8 +210,8 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
   let rounds = 0;
   let converged = false;
   let failed: string | undefined;
-  const center = { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)), set: false };
-  const best = { mu: new Float64Array(S.nMu), nu: S.people.map((pp) => new Float64Array(pp.period.length)) };
+  const center = { mu: new Float64Array(setup.nMu), nu: setup.people.map((pp) => new Float64Array(pp.period.length)), set: false };
+  const best = { mu: new Float64Array(setup.nMu), nu: setup.people.map((pp) => new Float64Array(pp.period.length)) };
   const keep = (cmu: Float64Array, cnu: Float64Array[], L: number) => {
     if (L < bound) {
       bound = L;
@@ -225,7 +225,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
   if (o.startArrays) {
     mu.set(o.startArrays.mu);
     o.startArrays.nu.forEach((v, i) => nu[i]!.set(v));
-  } else if (o.start) applyDual(S, o.start, mu, nu);
+  } else if (o.start) applyDual(setup, o.start, mu, nu);
   if (o.startArrays || o.start) {
     const c: Columns = { shifts: [], people: [] };
     keep(mu, nu, evalAt(mu, nu, c));
@@ -250,22 +250,22 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
       return null;
     }
     const sol = m.getSolution();
-    masterValue = m.getObjectiveValue() + S.constant;
+    masterValue = m.getObjectiveValue() + setup.constant;
     const y = sol.rowDual;
-    for (let q = 0; q < S.nMu; q++) mu[q] = y[rowMu + q]!;
-    S.people.forEach((pp, i) => pp.period.forEach((_, j) => (nu[i]![j] = -y[rowNu + pj[i]! + j]!)));
+    for (let q = 0; q < setup.nMu; q++) mu[q] = y[rowMu + q]!;
+    setup.people.forEach((pp, i) => pp.period.forEach((_, j) => (nu[i]![j] = -y[rowNu + pj[i]! + j]!)));
     return y;
   };
 
-  const sepMu = new Float64Array(S.nMu);
-  const sepNu = S.people.map((pp) => new Float64Array(pp.period.length));
+  const sepMu = new Float64Array(setup.nMu);
+  const sepNu = setup.people.map((pp) => new Float64Array(pp.period.length));
   let alpha = o.smoothing;
 
   const round = () => {
     const y = solveMaster();
     if (!y) return;
     const a = center.set ? alpha : 0;
-    for (let q = 0; q < S.nMu; q++) sepMu[q] = a * center.mu[q]! + (1 - a) * mu[q]!;
+    for (let q = 0; q < setup.nMu; q++) sepMu[q] = a * center.mu[q]! + (1 - a) * mu[q]!;
     sepNu.forEach((v, i) => v.forEach((_, j) => (v[j] = a * center.nu[i]![j]! + (1 - a) * nu[i]![j]!)));
     const c: Columns = { shifts: [], people: [] };
     const L = evalAt(sepMu, sepNu, c);
@@ -322,7 +322,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
       } while (now() < deadline);
     },
     dual() {
-      return dualOf(S, best.mu, best.nu);
+      return dualOf(setup, best.mu, best.nu);
     },
     lpRoster() {
       if (masterValue === -Infinity || m.getModelStatus() !== highs.constants.modelStatus.optimal) return null;
@@ -332,7 +332,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
       cols.forEach((c, k) => {
         if (c.kind === 'shift' && v[k]! > w[c.shift]!) {
           w[c.shift] = v[k]!;
-          S.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
+          setup.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
         }
       });
       return x.every((val) => val >= 0) ? withAux(compiled, x) : null;
@@ -355,7 +355,7 @@ export function createColumnGeneration(S: LagrangianSetup, highs: HighsRuntime, 
           const v = m.getSolution().colValue;
           const x = new Int32Array(domains.length).fill(-1);
           cols.forEach((c, k) => {
-            if (c.kind === 'shift' && v[k]! > 0.5) S.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
+            if (c.kind === 'shift' && v[k]! > 0.5) setup.shifts[c.shift]!.seats.forEach((s, i) => (x[s] = c.values[i]!));
           });
           if (x.every((val) => val >= 0)) out = withAux(compiled, x);
         }

@@ -7,49 +7,14 @@
  * reported bound (min of MPLP's and this one) is too.
  */
 import { describe, expect, it } from 'vitest';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
+import { seededRandom } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
-import type { Roster } from '../../../shared/roster/schema';
 import { enumerateModel } from '../../../solver/inference';
 import { compileRoster } from '../../../solver/roster/compile';
 import { solveRoster } from '../../../solver/roster/solve-roster';
 import { buildLagrangian, evaluateLagrangian, lagrangianSteps, newLagrangianState, type LagrangianSetup } from '../../../solver/roster/lagrangian';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
-import { bruteForceBest } from './helpers';
-
-/** 3 people, 7 days, 7 seats; every rule kind on, soft rest in half the seeds (sameKey factors), pairings incl. hard "never". */
-function smallRoster(seed: number): Roster {
-  const rnd = seededRandom(seed);
-  const r = makeRoster({
-    people: 3,
-    weeks: 1,
-    seed,
-    wishesPerPerson: 2,
-    pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' },
-    patterns: [
-      { label: 'early', weekdays: ['mon', 'tue', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
-      { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['mon'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
-    ],
-    rules: {
-      coverage: { weight: 2 + Math.floor(rnd() * 6), hard: rnd() < 0.2 },
-      minRest: { hard: seed % 2 === 0, weight: 3 },
-      // weeklyRest (Art. 5) adds rest-choice variables (compile.ts AuxVariable): tested on its own below
-      weeklyRest: { enabled: false },
-      shiftsPerWindow: { enabled: true, days: 3, maxShifts: 2, hard: rnd() < 0.5, weight: 2 },
-      maxConsecutiveDays: { days: 2, weight: 2 },
-      maxNightsInRow: { nights: 1, weight: 2 },
-      maxHoursPer7Days: { hours: 24, hard: rnd() < 0.5, weight: 1 },
-      contractedHours: { toleranceHours: 4, weight: 0.5 },
-      fairNights: { weight: 1 },
-      fairWeekends: { weight: 2 },
-      skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
-  });
-  if (seed % 3 === 0 && r.pairings.length) r.pairings[0] = { ...r.pairings[0]!, never: true };
-  return r;
-}
+import { bruteForceBest, lagrangianRoster as smallRoster } from './helpers';
 
 /** L at random multipliers and along a subgradient run: each value must be ≥ optimum. */
 function boundsAt(S: LagrangianSetup, seed: number): number[] {
