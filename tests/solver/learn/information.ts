@@ -3,7 +3,7 @@
  * the hidden weights, which the learner never sees). The learner's assumption is that the kept
  * roster beats every other filling of the seats the coordinator changed; those comparisons that
  * the hidden weights themselves keep (the others are dropped) cut out a set of weights that agree
- * with every edit. Hit-and-run sampling (Smith 1984, "Efficient Monte Carlo procedures for
+ * with every edit (comparisons the hidden weights score as a tie are dropped too). Hit-and-run sampling (Smith 1984, "Efficient Monte Carlo procedures for
  * generating points uniformly distributed over bounded regions") draws from that set inside the
  * box 0..60, and τ-b is taken for each draw and for the draws' mean. A τ well below 0.8 here means
  * the edits do not carry the ranking. `npx tsx tests/solver/learn/information.ts [seeds]`.
@@ -11,7 +11,7 @@
 import { seededRandom } from '../../../shared/demo/make-roster';
 import type { RosterAssignment } from '../../../shared/roster/schema';
 import { makeFeaturizer } from '../../../solver/learn';
-import { checkEdits } from './check';
+import { storedCheckEdits } from './check';
 import { kendallTauB, type CoordinatorKind } from './helpers';
 
 const BOX = 60;
@@ -21,7 +21,7 @@ const MAX_FILLINGS = 6000;
 async function main() {
   const kinds = (process.argv[3] ?? 'single').split(',') as CoordinatorKind[];
   for (const kind of kinds) for (const seed of (process.argv[2] ?? '0,1,2,3,4').split(',').map(Number)) {
-    const { rules, keys, hidden, train } = await checkEdits(seed, kind);
+    const { rules, keys, hidden, train } = await storedCheckEdits(seed, kind);
     const hw = keys.map((k) => hidden[k]);
     const cons: { d: number[]; e: number }[] = [];
     const seen = new Set<string>();
@@ -53,7 +53,9 @@ async function main() {
         const key = `${d.join(',')}:${e}`;
         if (seen.has(key)) continue;
         seen.add(key);
-        if (hw.reduce((m, w, i) => m + w * d[i], e) < 0) broken++;
+        // a tie under the hidden weights is no preference (and a pair of opposite ties would hold
+        // the draws at the hidden weights themselves)
+        if (hw.reduce((m, w, i) => m + w * d[i], e) <= 1e-9) broken++;
         else cons.push({ d, e });
       }
     }
@@ -64,6 +66,7 @@ async function main() {
     const mean = new Array<number>(keys.length).fill(0);
     let tauSum = 0;
     let draws = 0;
+    let stuck = 0; // directions with no room at all (the set is flat there)
     for (let it = 0; it < 20_000; it++) {
       const u = keys.map(gauss);
       let lo = -Infinity;
@@ -78,6 +81,7 @@ async function main() {
         if (a > 0) lo = Math.max(lo, -b / a);
         else if (a < 0) hi = Math.min(hi, -b / a);
       }
+      if (hi - lo < 1e-9) stuck++;
       const step = lo + (hi - lo) * rnd();
       x = x.map((v, i) => v + step * u[i]);
       if (it >= 2000 && it % 10 === 0) {
@@ -87,7 +91,7 @@ async function main() {
       }
     }
     const m = mean.map((v) => v / draws);
-    console.log(JSON.stringify({ kind, seed, comparisons: cons.length, brokenByHidden: broken, tauOfDraws: +(tauSum / draws).toFixed(2), tauOfMean: +kendallTauB(ranked.map((i) => m[i]), ranked.map((i) => hw[i])).toFixed(2) }));
+    console.log(JSON.stringify({ kind, seed, comparisons: cons.length, droppedByHidden: broken, stuckShare: +(stuck / 20_000).toFixed(2), tauOfDraws: +(tauSum / draws).toFixed(2), tauOfMean: +kendallTauB(ranked.map((i) => m[i]), ranked.map((i) => hw[i])).toFixed(2) }));
   }
 }
 

@@ -4,6 +4,7 @@
  * the rules as the hidden ones do (Kendall's τ-b, computed in helpers.ts) and agree with more
  * held-out edits than the current weights. Checked against the hidden weights themselves, never
  * against figures of the learner. Time limits run on a counting clock, so the run repeats exactly.
+ * Figures over seeds 0–4 and coordinator kinds: docs/learning.md.
  */
 import { describe, expect, test } from 'vitest';
 import { learnableRules, learnWeights, scorerTermKeys } from '../../../solver/learn';
@@ -11,7 +12,7 @@ import { fixture } from './helpers';
 import { runCheck, summary } from './check';
 
 describe('learnWeights', () => {
-  test('moves the ranking towards hidden weights from 30 edits and agrees with more held-out edits', async () => {
+  test('moves the ranking towards hidden weights from 30 single-change edits and agrees with more held-out edits', async () => {
     const c = await runCheck(0);
     console.log(summary(c));
     expect(c.train).toHaveLength(30);
@@ -30,4 +31,26 @@ describe('learnWeights', () => {
     expect(c.heldDisagreeAfter).toBeLessThan(c.heldDisagreeBefore);
     for (const w of c.result.weights) expect(w).toBeGreaterThanOrEqual(0);
   }, 120_000);
+
+  test('from 30 edits that each rework one day, agrees with most held-out edits and moves the ranking towards hidden weights', async () => {
+    // A coordinator who redoes a day at a time: the day's seats re-planned under the hidden weights
+    // (the solver, every other seat pinned), each edit kept only if scoreRoster under the hidden
+    // weights scores it strictly higher.
+    const c = await runCheck(0, {}, 'day');
+    console.log(summary(c));
+    expect(c.train).toHaveLength(30);
+    for (const e of [...c.train, ...c.held]) expect(e.gain).toBeGreaterThan(0);
+    expect(c.moved.length).toBeGreaterThanOrEqual(8);
+    // Held-out disagreement falls to a few edits on every seed of across-seeds.ts (13→2, 8→3, 15→1,
+    // 13→0, 16→0 on seeds 0–4): the one claim here that holds across seeds.
+    expect(c.heldDisagreeAfter).toBeLessThan(c.heldDisagreeBefore);
+    expect(c.heldDisagreeAfter).toBeLessThanOrEqual(c.heldCounted / 4);
+    // τ ≥ 0.8, as the issue asks, is not met with these edits either: τ is 0.63, 0.52, 0.39, 0.00,
+    // 0.34 on seeds 0–4 (mean 0.37; with a prior 100 times weaker 0.87, 0.76, 0.48, 0.25, 0.31,
+    // mean 0.53, see docs/learning.md). This floor is this seed's figure (0.63) less a margin, a
+    // guard against regressions that claims nothing general; above the current weights' τ (0.27).
+    expect(c.tau).toBeGreaterThanOrEqual(0.55);
+    expect(c.tau).toBeGreaterThan(c.tau0);
+    for (const w of c.result.weights) expect(w).toBeGreaterThanOrEqual(0);
+  }, 300_000);
 });
