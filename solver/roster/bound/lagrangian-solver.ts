@@ -56,7 +56,7 @@ export const DEFAULT_LAGRANGIAN_OPTIONS: Readonly<LagrangianSolverOptions> = Obj
   ...DEFAULT_BASE_OPTIONS,
   method: 'auto',
   columnGenerationMaxMu: 800,
-  largeMethod: 'subgradient',
+  largeMethod: 'bundle',
   sliceMs: 50,
   patience: 0,
   deflection: 0.7,
