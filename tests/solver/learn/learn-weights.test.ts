@@ -24,8 +24,8 @@ describe('learnWeights', () => {
     // 0.38, 0.16, −0.26, 0.50 (mean 0.30). So this floor guards this seed's figure against
     // regressions and claims nothing general. The 30 edits mostly say "this rule weighs at least
     // that much": weights drawn from all those that agree with every edit (information.ts; the
-    // hidden weights only drop the comparisons they break themselves) rank at τ 0.72, 0.58, 0.09,
-    // 0.17, 0.08 on those seeds, so no learner reaches 0.8 from these edits.
+    // hidden weights only drop the comparisons they break or tie themselves) rank at τ 0.75, 0.58,
+    // 0.09, 0.17, 0.08 on those seeds, so no learner reaches 0.8 from these edits.
     expect(c.tau).toBeGreaterThanOrEqual(0.7);
     // held-out disagreement falls on every seed of across-seeds.ts
     expect(c.heldDisagreeAfter).toBeLessThan(c.heldDisagreeBefore);
@@ -47,7 +47,9 @@ describe('learnWeights', () => {
     expect(c.heldDisagreeAfter).toBeLessThanOrEqual(c.heldCounted / 4);
     // τ ≥ 0.8, as the issue asks, is not met with these edits either: τ is 0.63, 0.52, 0.39, 0.00,
     // 0.34 on seeds 0–4 (mean 0.37; with a prior 100 times weaker 0.87, 0.76, 0.48, 0.25, 0.31,
-    // mean 0.53, see docs/learning.md). This floor is this seed's figure (0.63) less a margin, a
+    // mean 0.53, see docs/learning.md), and weights drawn from all that agree with every edit
+    // (information.ts) rank at 0.75, 0.66, 0.31, 0.30, 0.22: the day edits do not carry the
+    // ranking on most seeds either. This floor is this seed's figure (0.63) less a margin, a
     // guard against regressions that claims nothing general; above the current weights' τ (0.27).
     expect(c.tau).toBeGreaterThanOrEqual(0.55);
     expect(c.tau).toBeGreaterThan(c.tau0);
