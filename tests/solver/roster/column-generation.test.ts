@@ -5,7 +5,7 @@
  * for "proven best" claims on a roster HiGHS finishes.
  */
 import { describe, expect, it } from 'vitest';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
+import { makeRoster } from '../../../shared/demo/make-roster';
 import type { Roster } from '../../../shared/roster/schema';
 import { compileRoster } from '../../../solver/roster/compile';
 import { buildLagrangian, type LagrangianSetup } from '../../../solver/roster/lagrangian';
@@ -17,36 +17,21 @@ import { solveRoster } from '../../../solver/roster/solve-roster';
 import { scoreRoster } from '../../../solver/roster/score-roster';
 import { decodeAssignment } from '../../../solver/roster/decode';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
-import { bruteForceBest } from './helpers';
+import { bruteForceBest, smallWeekRoster, withNeverPairing } from './helpers';
 
 /** 3 people, 7 days, 7 seats; soft rest in half the seeds, pairings incl. a hard "never". */
 function smallRoster(seed: number): Roster {
-  const rnd = seededRandom(seed);
-  const r = makeRoster({
-    people: 3,
-    weeks: 1,
-    seed,
-    wishesPerPerson: 2,
-    pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' },
-    patterns: [
-      { label: 'early', weekdays: ['mon', 'tue', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
-      { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['mon'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
-    ],
-    rules: {
-      coverage: { weight: 2 + Math.floor(rnd() * 6), hard: rnd() < 0.2 },
-      minRest: { hard: seed % 2 === 0, weight: 3 },
-      maxConsecutiveDays: { days: 2, weight: 2 },
-      maxNightsInRow: { nights: 1, weight: 2 },
-      contractedHours: { toleranceHours: 4, weight: 0.5 },
-      fairNights: { weight: 1 },
-      fairWeekends: { weight: 2 },
-      skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
-  });
-  if (seed % 3 === 0 && r.pairings.length) r.pairings[0] = { ...r.pairings[0]!, never: true };
-  return r;
+  const { roster } = smallWeekRoster(seed, (rnd) => ({
+    coverage: { weight: 2 + Math.floor(rnd() * 6), hard: rnd() < 0.2 },
+    minRest: { hard: seed % 2 === 0, weight: 3 },
+    maxConsecutiveDays: { days: 2, weight: 2 },
+    maxNightsInRow: { nights: 1, weight: 2 },
+    contractedHours: { toleranceHours: 4, weight: 0.5 },
+    fairNights: { weight: 1 },
+    fairWeekends: { weight: 2 },
+    skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
+  }));
+  return withNeverPairing(roster, seed);
 }
 
 function setup(r: Roster): LagrangianSetup {

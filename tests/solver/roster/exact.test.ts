@@ -7,37 +7,26 @@
 import { describe, expect, it } from 'vitest';
 import computeMunkres from 'munkres-js';
 import { rosterSchema, type Roster } from '../../../shared/roster/schema';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
+import { seededRandom } from '../../../shared/demo/make-roster';
 import { compileRoster } from '../../../solver/roster/compile';
 import { decodeAssignment } from '../../../solver/roster/decode';
 import { scoreRoster } from '../../../solver/roster/score-roster';
 import { solveMapSync, enumerateModel } from '../../../solver/inference';
-import { bruteForceBest } from './helpers';
+import { bruteForceBest, smallWeekRoster } from './helpers';
 
 function smallRoster(seed: number): Roster {
-  const rnd = seededRandom(seed);
-  const r = makeRoster({
-    people: 3,
-    weeks: 1,
+  return smallWeekRoster(
     seed,
-    wishesPerPerson: 2,
-    pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-07', timeZone: 'Europe/London' },
-    patterns: [
-      { label: 'early', weekdays: ['mon', 'wed', 'thu'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
-      { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['tue'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
-    ],
-    rules: {
+    (rnd) => ({
       coverage: { weight: 5 + Math.floor(rnd() * 10), hard: rnd() < 0.3 },
       minRest: { hard: rnd() < 0.5, weight: 3 },
       maxConsecutiveDays: { days: 2, weight: 2 },
       maxHoursPer7Days: { hours: 24, hard: rnd() < 0.5, weight: 1 },
       contractedHours: { toleranceHours: 4, weight: 0.5 },
       skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
-  });
-  return r;
+    }),
+    { end: '2027-01-07', earlyDays: ['mon', 'wed', 'thu'], nightDay: 'tue' },
+  ).roster;
 }
 
 describe('small rosters: brute force over the roster equals the solver on the model', () => {

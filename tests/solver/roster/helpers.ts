@@ -2,7 +2,7 @@
  * Test helpers: random filled rosters and a greedy builder that respects the hard rules.
  */
 import type { Roster, RosterAssignment } from '../../../shared/roster/schema';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
+import { makeRoster, seededRandom, type MakeRosterOptions } from '../../../shared/demo/make-roster';
 import { makeRosterScorer, scoreRoster } from '../../../solver/roster/score-roster';
 import { bestAux, compileRoster, type CompiledRoster } from '../../../solver/roster/compile';
 import { decodeAssignment } from '../../../solver/roster/decode';
@@ -70,36 +70,59 @@ export function bruteForceBest(r: Roster): number {
   }
 }
 
-/** The Lagrangian tests' small roster (lagrangian.test.ts, bundle.test.ts): 3 people, 7 days, 7 seats; every rule kind on, soft rest in half the seeds (sameKey factors), pairings incl. hard "never". */
-export function lagrangianRoster(seed: number): Roster {
+type Weekday = 'mon' | 'tue' | 'wed' | 'thu' | 'fri' | 'sat' | 'sun';
+
+/**
+ * Three people over at most one week from Mon 4 Jan 2027 (two wishes each, two pairings) with
+ * the small tests' shifts: earlies on `earlyDays`, a Wednesday late with a medication seat, a
+ * night on `nightDay`. `rules` draws from the seed's random numbers, which the caller gets back
+ * to draw more (terms, a hard pairing) in the same sequence.
+ */
+export function smallWeekRoster(
+  seed: number,
+  rules: (rnd: () => number) => MakeRosterOptions['rules'],
+  o: { end?: string; earlyDays?: Weekday[]; nightDay?: Weekday } = {},
+): { roster: Roster; rnd: () => number } {
   const rnd = seededRandom(seed);
-  const r = makeRoster({
+  const ruleSet = rules(rnd);
+  const roster = makeRoster({
     people: 3,
     weeks: 1,
     seed,
     wishesPerPerson: 2,
     pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' },
+    period: { start: '2027-01-04', end: o.end ?? '2027-01-10', timeZone: 'Europe/London' },
     patterns: [
-      { label: 'early', weekdays: ['mon', 'tue', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
+      { label: 'early', weekdays: o.earlyDays ?? ['mon', 'tue', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
       { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['mon'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
+      { label: 'night', weekdays: [o.nightDay ?? 'mon'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
     ],
-    rules: {
-      coverage: { weight: 2 + Math.floor(rnd() * 6), hard: rnd() < 0.2 },
-      minRest: { hard: seed % 2 === 0, weight: 3 },
-      // weeklyRest (Art. 5) adds rest-choice variables (compile.ts AuxVariable): tested on its own below
-      weeklyRest: { enabled: false },
-      shiftsPerWindow: { enabled: true, days: 3, maxShifts: 2, hard: rnd() < 0.5, weight: 2 },
-      maxConsecutiveDays: { days: 2, weight: 2 },
-      maxNightsInRow: { nights: 1, weight: 2 },
-      maxHoursPer7Days: { hours: 24, hard: rnd() < 0.5, weight: 1 },
-      contractedHours: { toleranceHours: 4, weight: 0.5 },
-      fairNights: { weight: 1 },
-      fairWeekends: { weight: 2 },
-      skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
+    rules: ruleSet,
   });
+  return { roster, rnd };
+}
+
+/** With the first pairing made a hard "never" on every third seed. */
+export function withNeverPairing(r: Roster, seed: number): Roster {
   if (seed % 3 === 0 && r.pairings.length) r.pairings[0] = { ...r.pairings[0]!, never: true };
   return r;
+}
+
+/** The Lagrangian tests' small roster (lagrangian.test.ts, bundle.test.ts): 3 people, 7 days, 7 seats; every rule kind on, soft rest in half the seeds (sameKey factors), pairings incl. hard "never". */
+export function lagrangianRoster(seed: number): Roster {
+  const { roster } = smallWeekRoster(seed, (rnd) => ({
+    coverage: { weight: 2 + Math.floor(rnd() * 6), hard: rnd() < 0.2 },
+    minRest: { hard: seed % 2 === 0, weight: 3 },
+    // weeklyRest (Art. 5) adds rest-choice variables (compile.ts AuxVariable): tested on its own below
+    weeklyRest: { enabled: false },
+    shiftsPerWindow: { enabled: true, days: 3, maxShifts: 2, hard: rnd() < 0.5, weight: 2 },
+    maxConsecutiveDays: { days: 2, weight: 2 },
+    maxNightsInRow: { nights: 1, weight: 2 },
+    maxHoursPer7Days: { hours: 24, hard: rnd() < 0.5, weight: 1 },
+    contractedHours: { toleranceHours: 4, weight: 0.5 },
+    fairNights: { weight: 1 },
+    fairWeekends: { weight: 2 },
+    skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
+  }));
+  return withNeverPairing(roster, seed);
 }

@@ -10,7 +10,6 @@
  *    reported bound, and our score ≤ HiGHS's LP relaxation value (a proven upper bound).
  */
 import { describe, expect, it } from 'vitest';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
 import { makeWillowmereRoster } from '../../../shared/demo/willowmere';
 import type { Factor, Model } from '../../../solver/model';
 import { score as modelScore } from '../../../solver/model';
@@ -19,7 +18,7 @@ import { compileRoster } from '../../../solver/roster/compile';
 import { solveRoster } from '../../../solver/roster/solve-roster';
 import { highsOptimum } from '../../../solver/bench/highs-mip';
 import { makeRandomModel } from '../helpers/models';
-import { bruteForceBest } from './helpers';
+import { bruteForceBest, smallWeekRoster } from './helpers';
 import { rosterSchema, type Roster } from '../../../shared/roster/schema';
 
 const close = (a: number, b: number) => (b === -Infinity ? expect(a).toBe(-Infinity) : expect(a).toBeCloseTo(b, 6));
@@ -53,20 +52,9 @@ describe('HiGHS MIP encoding equals enumeration on small models', () => {
 
 /** Small rosters with every rule kind, per-person terms and an absence (issue 12). */
 function smallRoster(seed: number): Roster {
-  const rnd = seededRandom(seed);
-  const r = makeRoster({
-    people: 3,
-    weeks: 1,
+  const { roster: r, rnd } = smallWeekRoster(
     seed,
-    wishesPerPerson: 2,
-    pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' },
-    patterns: [
-      { label: 'early', weekdays: ['mon', 'wed', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
-      { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['tue'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
-    ],
-    rules: {
+    (rnd) => ({
       coverage: { weight: 5 + Math.floor(rnd() * 10), hard: rnd() < 0.3 },
       minRest: { hard: rnd() < 0.5, weight: 3 },
       maxConsecutiveDays: { days: 2, weight: 2 },
@@ -76,8 +64,9 @@ function smallRoster(seed: number): Roster {
       contractedHours: { toleranceHours: 4, weight: 0.5 },
       fairWeekends: { weight: 2 },
       skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
-  });
+    }),
+    { earlyDays: ['mon', 'wed', 'thu', 'sat'], nightDay: 'tue' },
+  );
   const [a, b, c] = r.people.map((p) => p.id);
   return rosterSchema.parse({
     ...r,

@@ -7,7 +7,7 @@
  *   scoreRoster, and its roster's model score equals scoreRoster's total.
  */
 import { describe, expect, it } from 'vitest';
-import { makeRoster, seededRandom } from '../../../shared/demo/make-roster';
+import { seededRandom } from '../../../shared/demo/make-roster';
 import type { Roster } from '../../../shared/roster/schema';
 import { enumerateModel } from '../../../solver/inference';
 import { score as modelScore } from '../../../solver/model';
@@ -17,33 +17,19 @@ import { greedyAssignment } from '../../../solver/roster/greedy';
 import { conditionModel, createLns, dayNeighbourhood, peopleNeighbourhood, rosterLayout, settleAux, solveNeighbourhood } from '../../../solver/roster/lns';
 import { loadHighsRuntime } from '../../../solver/roster/bound/highs';
 import { solveRoster } from '../../../solver/roster/solve-roster';
-import { bruteForceBest, randomValues, scoreRoster } from './helpers';
+import { bruteForceBest, randomValues, scoreRoster, smallWeekRoster } from './helpers';
 
 /** 3 people, one week, 6 seats, the weekly rest on (rest-choice aux variables), pairings, skill mix. */
 function small(seed: number): Roster {
-  const rnd = seededRandom(seed);
-  const r = makeRoster({
-    people: 3,
-    weeks: 1,
-    seed,
-    wishesPerPerson: 2,
-    pairingCount: 2,
-    period: { start: '2027-01-04', end: '2027-01-10', timeZone: 'Europe/London' },
-    patterns: [
-      { label: 'early', weekdays: ['mon', 'tue', 'thu', 'sat'], start: '07:00', end: '15:00', seats: [{ skill: null, count: 1 }] },
-      { label: 'late', weekdays: ['wed'], start: '15:00', end: '23:00', seats: [{ skill: 'medication', count: 1 }, { skill: null, count: 1 }] },
-      { label: 'night', weekdays: ['mon'], start: '22:00', end: '07:00', seats: [{ skill: null, count: 1 }] },
-    ],
-    rules: {
-      coverage: { weight: 2 + Math.floor(rnd() * 6) },
-      minRest: { hard: seed % 2 === 0, weight: 3 },
-      weeklyRest: { enabled: true, days: 3, hours: 30, hard: seed % 2 === 1, weight: 4 },
-      maxConsecutiveDays: { days: 2, weight: 2 },
-      contractedHours: { toleranceHours: 4, weight: 0.5 },
-      fairNights: { weight: 1 },
-      skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
-    },
-  });
+  const { roster: r } = smallWeekRoster(seed, (rnd) => ({
+    coverage: { weight: 2 + Math.floor(rnd() * 6) },
+    minRest: { hard: seed % 2 === 0, weight: 3 },
+    weeklyRest: { enabled: true, days: 3, hours: 30, hard: seed % 2 === 1, weight: 4 },
+    maxConsecutiveDays: { days: 2, weight: 2 },
+    contractedHours: { toleranceHours: 4, weight: 0.5 },
+    fairNights: { weight: 1 },
+    skillMix: { requirements: [{ skill: 'first-aid', min: 1 }], weight: 2 },
+  }));
   return { ...r, seats: r.seats.slice(0, 6) };
 }
 
