@@ -1,7 +1,7 @@
 import type { FieldErrors, FieldValues, Resolver } from 'react-hook-form';
 import type { z } from 'zod';
 import { ApiError } from '@/hooks/api/api-client';
-import { loadFormKit } from './form-kit';
+import { loadFormKit } from './form-kit-load';
 
 /**
  * A react-hook-form resolver that turns what was typed (numbers are text while typed) into the
