@@ -58,14 +58,7 @@ export class BeliefTops {
     for (let x = 0; x < b.length; x++) {
       const v = b[x]!;
       if (len === TOP && v <= this.val[o + TOP - 1]!) continue;
-      let p = len < TOP ? len++ : TOP - 1;
-      while (p > 0 && this.val[o + p - 1]! < v) {
-        this.val[o + p] = this.val[o + p - 1]!;
-        this.idx[o + p] = this.idx[o + p - 1]!;
-        p--;
-      }
-      this.val[o + p] = v;
-      this.idx[o + p] = x;
+      this.settle(o, len < TOP ? len++ : TOP - 1, v, x);
     }
     this.len[i] = len;
     this.valid[i] = 1;
@@ -85,14 +78,7 @@ export class BeliefTops {
         this.valid[i] = 0;
         return;
       }
-      this.val[o + p] = v;
-      while (p > 0 && this.val[o + p - 1]! < v) {
-        this.val[o + p] = this.val[o + p - 1]!;
-        this.idx[o + p] = this.idx[o + p - 1]!;
-        this.val[o + p - 1] = v;
-        this.idx[o + p - 1] = x;
-        p--;
-      }
+      this.settle(o, p, v, x);
       return;
     }
     if (len < TOP) {
@@ -101,14 +87,17 @@ export class BeliefTops {
       return;
     }
     if (v <= this.val[o + TOP - 1]!) return;
-    let q = TOP - 1;
-    while (q > 0 && this.val[o + q - 1]! < v) {
-      this.val[o + q] = this.val[o + q - 1]!;
-      this.idx[o + q] = this.idx[o + q - 1]!;
-      q--;
+    this.settle(o, TOP - 1, v, x);
+  }
+  /** Puts (x, v) at slot p of the list at o and moves it up past smaller values (insertion sort's step). */
+  private settle(o: number, p: number, v: number, x: number): void {
+    while (p > 0 && this.val[o + p - 1]! < v) {
+      this.val[o + p] = this.val[o + p - 1]!;
+      this.idx[o + p] = this.idx[o + p - 1]!;
+      p--;
     }
-    this.val[o + q] = v;
-    this.idx[o + q] = x;
+    this.val[o + p] = v;
+    this.idx[o + p] = x;
   }
   dirty(i: number): void {
     this.valid[i] = 0;
