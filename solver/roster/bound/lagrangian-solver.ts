@@ -148,6 +148,21 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
     result.timeMs = lastReading - startedAt;
     return result;
   };
+  // Every dual method runs in slices: a slice of steps, a report, a turn for the event loop; until
+  // the time is up, an abort, a proof, or the method says it has converged.
+  const runSlices = async (offset: number, slice: (sliceDeadline: number) => { best: number; iterations: number; converged: boolean }) => {
+    while (clock() < deadline && !signal?.aborted) {
+      const s = slice(Math.min(deadline, clock() + o.sliceMs));
+      report(s.best, offset + s.iterations);
+      if (done()) {
+        result.optimal = true;
+        result.stopReason = 'gap';
+        return;
+      }
+      if (s.converged) return;
+      await tick();
+    }
+  };
   const method = o.method === 'auto' ? (setup.nMu <= o.columnGenerationMaxMu ? 'columnGeneration' : o.largeMethod) : o.method;
   let dualStart = o.dualStart;
   const methods: string[] = [];
@@ -157,12 +172,10 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
     if (highs) {
       const cg = createColumnGeneration(setup, highs, { incumbent: result.score > -Infinity ? result.assignment : undefined, start: dualStart });
       try {
-        while (clock() < deadline && !signal?.aborted && !cg.converged && !cg.failed) {
-          cg.run(Math.min(deadline, clock() + o.sliceMs), clock);
-          report(cg.bound, cg.rounds);
-          if (done()) break;
-          await tick();
-        }
+        await runSlices(0, (sliceDeadline) => {
+          cg.run(sliceDeadline, clock);
+          return { best: cg.bound, iterations: cg.rounds, converged: cg.converged || Boolean(cg.failed) };
+        });
         result.iterations = cg.rounds;
         // the master's own solution, put together shift by shift, is often the optimum itself
         const x = cg.lpRoster();
@@ -179,7 +192,7 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
         }
         methods.push('column-generation');
         if (done()) (result.optimal = true), (result.stopReason = 'gap');
-        // a master HiGHS could not solve: the subgradient goes on from here (below)
+        // a master HiGHS could not solve: a dual method goes on from here (below)
         if (!cg.failed || result.optimal) {
           if (Number.isFinite(cg.bound)) result.dual = cg.dual();
           result.method = methods.join('+');
@@ -187,7 +200,7 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
         }
         if (!dualStart && Number.isFinite(cg.bound)) dualStart = cg.dual();
       } catch {
-        // HiGHS failed on the master: the bounds reported so far stay valid; the subgradient takes over
+        // HiGHS failed on the master: the bounds reported so far stay valid; a dual method takes over
       } finally {
         cg.dispose();
       }
@@ -195,20 +208,15 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
   }
   const target = result.score > -Infinity ? result.score : undefined;
   const offset = result.iterations;
+  // the multipliers to start from: an earlier run's (or the failed master's), else zero
+  const start = newLagrangianState(setup);
+  if (dualStart) applyDual(setup, dualStart, start.mu, start.nu);
   if (method === 'bundle') {
-    let start: { mu: Float64Array; nu: Float64Array[] } | undefined;
-    if (dualStart) {
-      start = { mu: new Float64Array(setup.nMu), nu: setup.people.map((plan) => new Float64Array(plan.period.length)) };
-      applyDual(setup, dualStart, start.mu, start.nu);
-    }
-    const state = newBundleState(setup, start);
-    while (clock() < deadline && !signal?.aborted && !state.converged) {
-      bundleSteps(setup, state, { deadline: Math.min(deadline, clock() + o.sliceMs), now: clock, target }, o.bundle);
-      report(state.best, offset + state.iterations);
-      if (done()) (result.optimal = true), (result.stopReason = 'gap');
-      if (result.optimal) break;
-      await tick();
-    }
+    const state = newBundleState(setup, dualStart ? start : undefined);
+    await runSlices(offset, (sliceDeadline) => {
+      bundleSteps(setup, state, { deadline: sliceDeadline, now: clock, target }, o.bundle);
+      return { best: state.best, iterations: state.iterations, converged: state.converged };
+    });
     methods.push('bundle');
     result.iterations = offset + state.iterations;
     result.method = methods.join('+');
@@ -218,18 +226,11 @@ async function solveLagrangian({ compiled, incumbent }: LagrangianInput, o: Lagr
     }
     return stop(state.converged ? 'stalled' : 'time');
   }
-  const state = newLagrangianState(setup);
-  if (dualStart) applyDual(setup, dualStart, state.mu, state.nu);
-  while (clock() < deadline && !signal?.aborted) {
-    lagrangianSteps(setup, state, { deadline: Math.min(deadline, clock() + o.sliceMs), now: clock, target, patience: o.patience > 0 ? o.patience : undefined, deflection: o.deflection });
-    report(state.best, offset + state.iterations);
-    if (done()) {
-      result.optimal = true;
-      result.stopReason = 'gap';
-      break;
-    }
-    await tick();
-  }
+  const state = start;
+  await runSlices(offset, (sliceDeadline) => {
+    lagrangianSteps(setup, state, { deadline: sliceDeadline, now: clock, target, patience: o.patience > 0 ? o.patience : undefined, deflection: o.deflection });
+    return { best: state.best, iterations: state.iterations, converged: false };
+  });
   methods.push('lagrangian');
   result.iterations = offset + state.iterations;
   result.method = methods.join('+');
