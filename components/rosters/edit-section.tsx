@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '@/constants/theme';
@@ -53,7 +53,9 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
   const [picked, setPicked] = useState<number | null>(null);
   const changed = run.assignments.filter((a) => (draft.assignment[String(a.seatId)] ?? null) !== a.personId).length;
   const conflict = save.error instanceof ApiError && save.error.status === 409;
-  useEffect(() => setPicked(null), [dayIndex]);
+  // Changing day drops the picked seat; done in the day buttons, not an effect, since a mount-time
+  // effect would also undo a tap that lands before it runs (seen on a loaded machine).
+  const goToDay = (i: number) => { setDayIndex(i); setPicked(null); };
 
   if (error) return <Notice>{`The roster could not be loaded: ${error.message}`}</Notice>;
   if (!view) return <Body muted>Loading the roster…</Body>;
@@ -92,9 +94,9 @@ function Editor({ roster, run, onSaved }: { roster: RosterDto; run: RunDetail; o
         {hard.length > 0 ? <Notice>{`Hard rules broken: ${hard.slice(0, 4).map((v) => v.message).join('; ')}${hard.length > 4 ? '; …' : ''}`}</Notice> : null}
         {soft.length > 0 ? <Body muted>{`Largest concessions now: ${soft.slice(0, 3).map((v) => `${v.message} (${points(v.points)})`).join('; ')}`}</Body> : null}
         <View style={styles.dayNav}>
-          <Button kind="quiet" label="‹ Day before" onPress={() => setDayIndex(Math.max(0, dayIndex - 1))} disabled={dayIndex === 0} />
+          <Button kind="quiet" label="‹ Day before" onPress={() => goToDay(Math.max(0, dayIndex - 1))} disabled={dayIndex === 0} />
           <Body bold style={{ textAlign: 'center', flex: 1 }}>{day ? dayWords(day) : ''}</Body>
-          <Button kind="quiet" label="Next day ›" onPress={() => setDayIndex(Math.min(days.length - 1, dayIndex + 1))} disabled={dayIndex >= days.length - 1} />
+          <Button kind="quiet" label="Next day ›" onPress={() => goToDay(Math.min(days.length - 1, dayIndex + 1))} disabled={dayIndex >= days.length - 1} />
         </View>
         {(view.byDay.get(day) ?? []).map((shift) => (
           <View key={shift.id} style={styles.shift}>

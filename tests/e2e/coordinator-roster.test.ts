@@ -207,6 +207,7 @@ describe.each([
     // (Not Hattie Lowther's seat: the first test pinned her, and leaving a pinned seat open breaks the pin.)
     const seat = page.locator('[data-testid^="edit-seat-"]').filter({ hasNotText: /^open/ }).filter({ hasNotText: 'Hattie Lowther' }).first();
     await seat.click();
+    await expect.poll(async () => seat.getAttribute('aria-pressed'), { timeout: 10_000 }).toBe('true'); // the tap picked it
     await page.getByTestId('edit-people').getByRole('button', { name: 'Leave open' }).click();
     await expect.poll(async () => score.textContent(), { timeout: 30_000 }).not.toBe(before);
     expect(await score.textContent()).toMatch(/1 seat changed/);
