@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, signIn, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, PHONE, screenshot, signIn, useBrowser, WIDE } from './helpers/browser';
 import { api, makeRoster, removePersonAndRoster } from './helpers/api';
 
 const PERSON = 'Corin Vale (browser test)';
@@ -13,16 +12,10 @@ const ROSTER = 'Willowmere House, June 2027 (wishes browser test)';
  * which the coordinator approves with one tap.
  */
 describe('absences, terms and the wishes view', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('a coordinator on a wide screen and staff on a phone', { timeout: 240_000 }, async () => {
-    const coord = await openPage(browser, WIDE);
+    const coord = await openPage(browser(), WIDE);
     const page = coord.page;
     const shot = (name: string) => screenshot(page, `absences-wide-${name}`);
     await signIn(page);
@@ -105,7 +98,7 @@ describe('absences, terms and the wishes view', () => {
     await shot('04-wishes');
 
     // Staff on a phone: the limit as the coordinator set it, and a request for time away.
-    const staff = await openPage(browser, PHONE);
+    const staff = await openPage(browser(), PHONE);
     await signIn(staff.page, 'staff@willowmere.example');
     await staff.page.goto('/wishes');
     // The rosters load first; with more than one being planned, a picker chooses ours.

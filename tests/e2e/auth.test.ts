@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { openPage, PHONE, screenshot, useBrowser, WIDE } from './helpers/browser';
 import { mailLink } from './helpers/sign-up';
 
 
@@ -36,16 +36,10 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('accounts and roles at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('signs up (making a workspace, as its admin), signs out, and signs back in with the password', async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     const email = unique('founder');
     await page.goto('/');
     await page.getByTestId('sign-up-link').click();
@@ -84,7 +78,7 @@ describe.each([
 
   it('answers a taken address as a new one and mails its owner; a link opened elsewhere asks for the password, and works once', async () => {
     // The used link's preview and finish answer 410 on purpose.
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 410: (GET|POST) .*\/api\/auth\/sign-up\/(preview|finish)/, /status of 410/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/HTTP 410: (GET|POST) .*\/api\/auth\/sign-up\/(preview|finish)/, /status of 410/]);
     const signUp = async (email: string) => {
       await page.goto('/sign-up');
       await page.getByTestId('sign-up-name').fill('Ansel Pike');
@@ -108,7 +102,7 @@ describe.each([
     const path = new URL(href!).pathname + new URL(href!).search;
 
     // Another browser (no cookie from the sign-up): the password chosen is asked for.
-    const other = await openPage(browser, viewport);
+    const other = await openPage(browser(), viewport);
     await other.page.goto(path);
     await other.page.getByRole('heading', { name: 'Finish signing up' }).waitFor();
     await other.page.getByText(`this makes the workspace Tollbridge Surgery for ${fresh}`, { exact: false }).waitFor();
@@ -129,7 +123,7 @@ describe.each([
   });
 
   it('signs in with Google through the fake, invites a coordinator, who accepts from the mailbox and sees a coordinator menu', async () => {
-    const admin = await openPage(browser, viewport);
+    const admin = await openPage(browser(), viewport);
     const adminEmail = unique('google.admin');
     await admin.page.goto('/');
     await admin.page.getByTestId('google-sign-in').click();
@@ -152,7 +146,7 @@ describe.each([
     expect(admin.problems).toEqual([]);
 
     // The invitee, in a browser of their own, opens the mail on the dev mail page and follows the link.
-    const invitee = await openPage(browser, viewport);
+    const invitee = await openPage(browser(), viewport);
     await invitee.page.goto('/dev/mail');
     const mail = invitee.page.locator('article', { hasText: coordinatorEmail }).first();
     await mail.getByText(/invited you to Tobias Wrenfield's team/).waitFor();
@@ -180,7 +174,7 @@ describe.each([
   });
 
   it('Google sign-in as the demo staff member joins their password account and shows a staff menu', async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     await page.goto('/');
     await page.getByTestId('google-sign-in').click();
     await page.getByRole('heading', { name: 'Choose an account' }).waitFor();
@@ -199,7 +193,7 @@ describe.each([
   });
 
   it('the same invitation link cannot be used twice', async () => {
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 410: GET .*\/api\/invitations\/preview/, /status of 410/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/HTTP 410: GET .*\/api\/invitations\/preview/, /status of 410/]);
     await page.goto('/dev/mail');
     const link = await page.locator('article', { hasText: 'invited you to' }).first().getByRole('link', { name: /\/invitation\?token=/ }).first().getAttribute('href');
     await page.goto(new URL(link!).pathname + new URL(link!).search);

@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE, DEMO_PASSWORD } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { DEMO_PASSWORD, openPage, PHONE, screenshot, useBrowser, WIDE } from './helpers/browser';
 import { signUpThroughMail } from './helpers/sign-up';
 
 const PASSWORD = 'a long enough test password';
@@ -22,19 +22,13 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('admin upgrades a new workspace at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('hits the free limit, is declined with one card, upgrades with the other and sees the plan change', async () => {
     // Expected refusals: the 13th person (402 plan_limit) and the declined card on the checkout page (402).
     // (Chromium also logs each as "Failed to load resource … 402"; the URL-specific lines are what pin them down.)
     // And the one checkout tried while the payment service is unreachable (503).
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /HTTP 503: POST .*\/api\/billing\/checkout$/, /^console: Failed to load resource: the server responded with a status of (402|503)/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/HTTP 402: POST .*\/api\/people$/, /HTTP 402: POST .*\/pay\/cs_test_/, /HTTP 503: POST .*\/api\/billing\/checkout$/, /^console: Failed to load resource: the server responded with a status of (402|503)/]);
     // A new workspace, signed up through the API and the e-mailed link as its admin (the browser context keeps the session cookie).
     const email = `owner.${label}.${Date.now().toString(36)}@example.test`;
     await signUpThroughMail(page, { displayName: 'Marisol Quenby', email, password: PASSWORD, workspaceName: `Hazelmere Clinic ${label}`, timeZone: 'Europe/London' });
@@ -121,16 +115,10 @@ async function renew(workspaceId: number, outcome: 'paid' | 'failed') {
 }
 
 describe('a paying workspace at phone size', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('previews and confirms a seat change, shows the overdue banner, pays in the portal, and can stop at the period end', async () => {
-    const { page, problems, close } = await openPage(browser, PHONE);
+    const { page, problems, close } = await openPage(browser(), PHONE);
     const email = `payer.${Date.now().toString(36)}@example.test`;
     const workspaceId = (await signUpThroughMail(page, { displayName: 'Oriel Fenwick', email, password: PASSWORD, workspaceName: 'Brackenfold Lab', timeZone: 'Europe/London' })).workspace.id;
     for (let i = 1; i <= 3; i++) expect((await page.request.post('/api/people', { data: { name: `Lab Person ${i}`, contractedHours: 30, skillIds: [] }, headers })).status()).toBe(201);
@@ -199,16 +187,10 @@ describe('a paying workspace at phone size', () => {
 });
 
 describe('billing is for admins only', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('a coordinator has no Plan & billing in the navigation and the page says it is for admins', async () => {
-    const { page, problems, close } = await openPage(browser, PHONE);
+    const { page, problems, close } = await openPage(browser(), PHONE);
     const res = await page.request.post('/api/auth/sign-in', { data: { email: 'coordinator@willowmere.example', password: DEMO_PASSWORD }, headers });
     expect(res.status()).toBe(200);
     await page.goto('/billing');

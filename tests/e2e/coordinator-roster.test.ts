@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
 import ICAL from 'ical.js';
-import { launch, openPage, PHONE, screenshot, WIDE, signIn } from './helpers/browser';
+import { openPage, openRosterForSolving, PHONE, screenshot, signIn, useBrowser, WIDE } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
 
@@ -32,16 +32,10 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('the coordinator plans, solves, adjusts and publishes the Willowmere roster at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('solves, reads a concession and its price, pins a seat, re-solves keeping the pin, publishes, mails and downloads a valid .ics', { timeout: 480_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     const shot = (name: string) => screenshot(page, `coordinator-roster-${label}-${name}`);
     await signIn(page);
 
@@ -185,18 +179,11 @@ describe.each([
 
   it('edits by hand with a live score, and a stale save says so and keeps the edits', { timeout: 300_000 }, async () => {
     // The refused save is an expected 409; anything else still fails the test.
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 409: POST .*\/manual-runs/, /console: Failed to load resource: the server responded with a status of 409/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/HTTP 409: POST .*\/manual-runs/, /console: Failed to load resource: the server responded with a status of 409/]);
     const shot = (name: string) => screenshot(page, `coordinator-roster-${label}-${name}`);
     await signIn(page);
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
-    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
-    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    await openRosterForSolving(page, ROSTER);
     const rosterId = page.url().match(/rosters\/(\d+)/)![1];
-    if (await page.getByText('Published and frozen').first().isVisible()) {
-      await page.getByTestId('section-publish').click();
-      await page.getByTestId('publish-reopen').click();
-      await page.getByTestId('publish-go').waitFor();
-    }
     await page.getByTestId('section-edit').click();
     await page.getByTestId('edit-panel').waitFor();
     const score = page.getByTestId('edit-score');

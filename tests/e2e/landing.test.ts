@@ -1,21 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, PHONE, screenshot, useBrowser, WIDE } from './helpers/browser';
 
 describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('signed-out pages at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('shows the landing page with the product name, its own fonts and a sign-in form', async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     await page.goto('/');
     await page.getByRole('heading', { name: /Rosters your team can trust/ }).waitFor();
     expect(await page.getByLabel('Rotaloom').first().isVisible()).toBe(true);
@@ -36,7 +29,7 @@ describe.each([
   });
 
   it('checks the sign-in form before sending anything', async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     await page.goto('/');
     await page.getByLabel('E-mail').fill('not-an-address');
     await page.getByTestId('sign-in-submit').click();
@@ -48,7 +41,7 @@ describe.each([
 
   it('answers an unknown address with 404 and its own not-found page, readable before the code runs', async () => {
     // The 404 of the page itself is the point here (RFC 9110 §15.5.5), not a failure.
-    const { page, problems, close } = await openPage(browser, viewport, [/^HTTP 404: GET \S+\/no\/such\/page$/, /^console: Failed to load resource: the server responded with a status of 404/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/^HTTP 404: GET \S+\/no\/such\/page$/, /^console: Failed to load resource: the server responded with a status of 404/]);
     const raw = await page.request.get('/no/such/page');
     expect(raw.status()).toBe(404);
     expect(raw.headers()['content-type']).toMatch(/^text\/html/);
@@ -65,16 +58,10 @@ describe.each([
 });
 
 describe("the landing page's code", () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('stays within the issue\'s 350 KB of JavaScript on a first visit, without the forms\' or charts\' chunks', async () => {
-    const { page, problems, close } = await openPage(browser, PHONE);
+    const { page, problems, close } = await openPage(browser(), PHONE);
     const scripts: Array<{ name: string; encoding: string; bytes: number }> = [];
     const sized: Array<Promise<void>> = [];
     page.on('requestfinished', (req) => {

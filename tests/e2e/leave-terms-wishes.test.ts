@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, signIn } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, PHONE, screenshot, signIn, useBrowser } from './helpers/browser';
 import { api, makeRoster, removePersonAndRoster } from './helpers/api';
 
 const PERSON = 'Wren Ashdown (no login, browser test)';
@@ -13,16 +12,10 @@ const ROSTER = 'Willowmere House, May 2027 (leave browser test)';
  * takes the first two weeks, the wishes fall in the third.
  */
 describe('a coordinator on a phone enters leave, a term and wishes for someone without a login', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('solves and every one is honoured and explained', { timeout: 300_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, PHONE);
+    const { page, problems, close } = await openPage(browser(), PHONE);
     const shot = (name: string) => screenshot(page, `leave-terms-wishes-phone-${name}`);
     await signIn(page);
     await removePersonAndRoster(page, PERSON, ROSTER);

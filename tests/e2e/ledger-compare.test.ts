@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Sequelize } from 'sequelize';
-import { readEnv } from '../../server/env';
-import { createSequelize } from '../../server/db/sequelize';
-import { initModels, Person, Workspace } from '../../server/db/models';
+import { Person } from '../../server/db/models';
+import { openDemoDatabase } from './helpers/demo-db';
 import { Roster } from '../../server/rosters/models';
 import { LedgerSettingsRow } from '../../server/swaps/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
@@ -25,9 +24,7 @@ describe('ledger charts and run comparison', () => {
 
   beforeAll(async () => {
     browser = await launch();
-    sequelize = createSequelize(readEnv({ ...process.env, ROTALOOM_DB_NAME: 'rotaloom_e2e' }).db);
-    initModels(sequelize);
-    workspaceId = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!.id;
+    ({ sequelize, workspaceId } = await openDemoDatabase());
     await Roster.destroy({ where: { workspaceId, name: ROSTER } });
     // England's public holidays (date-holidays): Good Friday 26 and Easter Monday 29 March 2027 fall in the fortnight.
     if (!(await LedgerSettingsRow.findOne({ where: { workspaceId } }))) await LedgerSettingsRow.create({ workspaceId, region: 'GB-ENG' });

@@ -2,9 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import type { Sequelize } from 'sequelize';
 import { Op } from 'sequelize';
-import { readEnv } from '../../server/env';
-import { createSequelize } from '../../server/db/sequelize';
-import { initModels, Person, Workspace } from '../../server/db/models';
+import { Person } from '../../server/db/models';
+import { openDemoDatabase } from './helpers/demo-db';
 import { AssignmentRow, Roster, SeatRow, ShiftRow, WishRow } from '../../server/rosters/models';
 import { HolidayRow, LedgerSettingsRow } from '../../server/swaps/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
@@ -39,9 +38,7 @@ describe('my ledger in the browser', () => {
 
   beforeAll(async () => {
     browser = await launch();
-    sequelize = createSequelize(readEnv({ ...process.env, ROTALOOM_DB_NAME: 'rotaloom_e2e' }).db);
-    initModels(sequelize);
-    workspaceId = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!.id;
+    ({ sequelize, workspaceId } = await openDemoDatabase());
     hattie = (await Person.findOne({ where: { workspaceId, name: 'Hattie Lowther' } }))!;
     await Roster.destroy({ where: { workspaceId, name: [FORTNIGHT, PAIR_WEEK] } });
     const settings = await LedgerSettingsRow.findOne({ where: { workspaceId } });

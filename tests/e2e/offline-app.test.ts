@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import type { Sequelize } from 'sequelize';
-import { readEnv } from '../../server/env';
-import { createSequelize } from '../../server/db/sequelize';
-import { initModels, Person, Workspace } from '../../server/db/models';
+import { Person } from '../../server/db/models';
+import { openDemoDatabase } from './helpers/demo-db';
 import { Roster } from '../../server/rosters/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
 import { publishDirectly, seatsOf } from '../server/staff/publish-helper';
@@ -37,10 +36,7 @@ describe('an app staff can install and read offline', () => {
 
   beforeAll(async () => {
     browser = await launch();
-    sequelize = createSequelize(readEnv({ ...process.env, ROTALOOM_DB_NAME: 'rotaloom_e2e' }).db);
-    initModels(sequelize);
-    const workspace = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!;
-    workspaceId = workspace.id;
+    ({ sequelize, workspaceId } = await openDemoDatabase());
     const hattie = (await Person.findOne({ where: { workspaceId, name: 'Hattie Lowther' } }))!;
     await Roster.destroy({ where: { workspaceId, name: ROSTER } });
     const roster = await createRoster(workspaceId, { name: ROSTER, periodStart: '2027-03-01', periodEnd: '2027-03-07', timeZone: 'Europe/London' });

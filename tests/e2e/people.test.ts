@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { baseUrl, launch, openPage, PHONE, screenshot, WIDE, signIn, DEMO_PASSWORD } from './helpers/browser';
+import { baseUrl, DEMO_PASSWORD, openPage, PHONE, screenshot, signIn, useBrowser, WIDE } from './helpers/browser';
 
 
 // Invented names, one set per screen size, so both runs can share the demo database.
@@ -39,18 +39,12 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('coordinator: people, CSV import and pairings at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('imports people from a CSV file (a row error first, then the fixed file), finds them, pairs two and approves a request', async () => {
     const [first, second, third] = NAMES[label];
     // The preview of the first file is a 200 with row errors; nothing on the page may fail.
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     await signIn(page, 'coordinator@willowmere.example');
     await removeEarlierRuns(page, NAMES[label]);
 
@@ -98,7 +92,7 @@ describe.each([
     await screenshot(page, `people-5-found-${label}`);
 
     // Pairings: two of the new people should share shifts.
-    await staffRequestsApart(browser, third, 'We keep arguing at handover');
+    await staffRequestsApart(browser(), third, 'We keep arguing at handover');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Pairings' }).click();
     await page.getByRole('heading', { name: 'Pairings', exact: true }).waitFor();
     await page.getByTestId('pairing-a').fill(first.split(' ')[0]);
@@ -143,7 +137,7 @@ describe.each([
 
   it('keeps what was typed when someone else saved the person first', async () => {
     const [first] = NAMES[label];
-    const { page, problems, close } = await openPage(browser, viewport, [/HTTP 409: PATCH .*\/api\/people\/\d+/, /status of 409/]);
+    const { page, problems, close } = await openPage(browser(), viewport, [/HTTP 409: PATCH .*\/api\/people\/\d+/, /status of 409/]);
     await signIn(page, 'coordinator@willowmere.example');
     await page.goto('/people');
     await page.getByTestId('people-search').fill(first.split(' ')[0]);

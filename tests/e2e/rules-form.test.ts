@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, signIn, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, PHONE, screenshot, signIn, useBrowser, WIDE } from './helpers/browser';
 import { api, makeRoster } from './helpers/api';
 
 /**
@@ -13,16 +12,10 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('the rules form at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('names each rule and its source, refuses a bad number in words, saves a good one', { timeout: 180_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     const shot = (name: string) => screenshot(page, `rules-form-${label}-${name}`);
     await signIn(page);
     const name = `Rules form browser test (${label})`;

@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, screenshot, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, screenshot, useBrowser, WIDE } from './helpers/browser';
 import { api, solveThroughApi } from './helpers/api';
 import { signUpThroughMail } from './helpers/sign-up';
 import { RULE_NAMES, rosterSchema } from '../../shared/roster/schema';
@@ -16,16 +15,10 @@ type Rules = Record<string, { enabled: boolean; hard: boolean; weight: number }>
  * leaves one seat open once it costs more (worked by hand: -20 vs -100, then -150 vs -100).
  */
 describe('the rules form changes a weight the solver uses', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('a minimum-rest weight raised on the form shows in the compiled factor and turns the result from a short rest into an open seat', { timeout: 240_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, WIDE);
+    const { page, problems, close } = await openPage(browser(), WIDE);
     const shot = (name: string) => screenshot(page, `rules-weight-${name}`);
     await signUpThroughMail(page, { displayName: 'Tamsin Oakridge', email: `weights.${Date.now().toString(36)}@example.test`, password: 'a long enough test password', workspaceName: 'Oakridge Weights House', timeZone: 'Europe/London' });
     const person = await api<{ id: number }>(page, 'POST', '/people', { name: 'Solo Nightingale', contractedHours: 40, skillIds: [] });

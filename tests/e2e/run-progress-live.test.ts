@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, openRosterForSolving, PHONE, screenshot, WIDE, signIn } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, openRosterForSolving, PHONE, screenshot, signIn, useBrowser, WIDE } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
 
@@ -12,16 +11,10 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('live run progress at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('follows the run through its event stream and shows the finished run', { timeout: 300_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     const streams: Array<{ status: number; type: string }> = [];
     const polls: number[] = [];
     page.on('response', (res) => {

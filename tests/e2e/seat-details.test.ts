@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE, signIn } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, openRosterForSolving, PHONE, screenshot, signIn, solveAndOpenResult, useBrowser, WIDE } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
 
@@ -13,35 +12,17 @@ describe.each([
   ['phone', PHONE],
   ['wide', WIDE],
 ] as const)('seat details at %s size', (label, viewport) => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('shows who is on a seat, how contested it is and the alternatives with both figures', { timeout: 300_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     const shot = (name: string) => screenshot(page, `seat-details-${label}-${name}`);
     await signIn(page);
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
-    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
-    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    await openRosterForSolving(page, ROSTER);
 
     // A fresh solved run (the newest one may be a hand-edited save, which has no marginals);
     // a roster published by the workflow test is reopened first, as that test does.
-    if (await page.getByText('Published and frozen').first().isVisible()) {
-      await page.getByTestId('section-publish').click();
-      await page.getByTestId('publish-reopen').click();
-      await page.getByTestId('publish-go').waitFor();
-    }
-    await page.getByTestId('section-solve').click();
-    await page.getByTestId('solve-seconds').fill('3');
-    await page.getByTestId('solve-start').click();
-    await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
-    await page.getByTestId('run-show-result').click();
-    await page.getByTestId('result-summary').waitFor();
+    await solveAndOpenResult(page);
     // The result opens on the grid; the month and day list is the other view.
     await page.getByRole('radio', { name: 'Show the roster as: Month and days' }).click();
     await page.getByTestId('day-list').waitFor();

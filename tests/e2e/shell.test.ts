@@ -1,21 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, PHONE, screenshot, WIDE } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, PHONE, screenshot, useBrowser, WIDE } from './helpers/browser';
 
 describe('signed-in navigation shell', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it.each([
     ['phone', PHONE, 'bottom-tabs', 'side-nav'],
     ['wide', WIDE, 'side-nav', 'bottom-tabs'],
   ] as const)('at %s size puts the navigation where it belongs', async (label, viewport, shown, hidden) => {
-    const { page, problems, close } = await openPage(browser, viewport);
+    const { page, problems, close } = await openPage(browser(), viewport);
     await page.goto('/');
     await page.getByLabel('E-mail').fill('coordinator@willowmere.example');
     await page.getByLabel('Password').fill('willowmere-demo');

@@ -2,9 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import type { Sequelize } from 'sequelize';
 import ICAL from 'ical.js';
-import { readEnv } from '../../server/env';
-import { createSequelize } from '../../server/db/sequelize';
-import { initModels, Person, Workspace } from '../../server/db/models';
+import { Person } from '../../server/db/models';
+import { openDemoDatabase } from './helpers/demo-db';
 import { Roster } from '../../server/rosters/models';
 import { CalendarFeedRow } from '../../server/staff/models';
 import { PairingRow } from '../../server/rosters/models';
@@ -49,10 +48,7 @@ describe('staff on their phones', () => {
 
   beforeAll(async () => {
     browser = await launch();
-    sequelize = createSequelize(readEnv({ ...process.env, ROTALOOM_DB_NAME: 'rotaloom_e2e' }).db);
-    initModels(sequelize);
-    const workspace = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!;
-    workspaceId = workspace.id;
+    ({ sequelize, workspaceId } = await openDemoDatabase());
     hattie = (await Person.findOne({ where: { workspaceId, name: 'Hattie Lowther' } }))!;
     expect(hattie.userId).not.toBeNull();
     // A roster of its own (not the demo's January one other browser tests publish), open for wishes.

@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launch, openPage, screenshot, WIDE, signIn } from './helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { openPage, openRosterForSolving, screenshot, signIn, solveAndOpenResult, useBrowser, WIDE } from './helpers/browser';
 
 const ROSTER = 'Willowmere House, January 2027';
 
@@ -10,33 +9,15 @@ const ROSTER = 'Willowmere House, January 2027';
  * rules then carry the suggested weights and the suggestion says who adopted it.
  */
 describe('weight suggestion from real edits', () => {
-  let browser: Browser;
-  beforeAll(async () => {
-    browser = await launch();
-  });
-  afterAll(async () => {
-    await browser.close();
-  });
+  const browser = useBrowser();
 
   it('suggests weights after five saved edits, and adopting changes the rules on record', { timeout: 400_000 }, async () => {
-    const { page, problems, close } = await openPage(browser, WIDE);
+    const { page, problems, close } = await openPage(browser(), WIDE);
     const shot = (name: string) => screenshot(page, `suggestion-${name}`);
     await signIn(page);
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Rosters' }).click();
-    await page.getByRole('link', { name: `Open roster ${ROSTER}` }).click();
-    await page.getByRole('heading', { name: ROSTER }).waitFor();
+    await openRosterForSolving(page, ROSTER);
     const rosterId = page.url().match(/rosters\/(\d+)/)![1];
-    if (await page.getByText('Published and frozen').first().isVisible()) {
-      await page.getByTestId('section-publish').click();
-      await page.getByTestId('publish-reopen').click();
-      await page.getByTestId('publish-go').waitFor();
-    }
-    await page.getByTestId('section-solve').click();
-    await page.getByTestId('solve-seconds').fill('3');
-    await page.getByTestId('solve-start').click();
-    await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
-    await page.getByTestId('run-show-result').click();
-    await page.getByTestId('result-summary').waitFor();
+    await solveAndOpenResult(page);
     const before = await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json();
 
     for (let i = 0; i < 5; i++) {

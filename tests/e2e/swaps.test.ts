@@ -2,9 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import bcrypt from 'bcryptjs';
 import type { Browser, Page } from 'playwright-core';
 import type { Sequelize } from 'sequelize';
-import { readEnv } from '../../server/env';
-import { createSequelize } from '../../server/db/sequelize';
-import { initModels, Membership, Person, User, Workspace } from '../../server/db/models';
+import { Membership, Person, User } from '../../server/db/models';
+import { openDemoDatabase } from './helpers/demo-db';
 import { AssignmentRow, Roster } from '../../server/rosters/models';
 import { OfferRow, SwapRow } from '../../server/swaps/models';
 import { createPattern, createRoster } from '../../server/rosters/repository';
@@ -32,10 +31,7 @@ describe('swaps and open shifts in the browser', () => {
 
   beforeAll(async () => {
     browser = await launch();
-    sequelize = createSequelize(readEnv({ ...process.env, ROTALOOM_DB_NAME: 'rotaloom_e2e' }).db);
-    initModels(sequelize);
-    const workspace = (await Workspace.findOne({ where: { name: 'Willowmere House' } }))!;
-    workspaceId = workspace.id;
+    ({ sequelize, workspaceId } = await openDemoDatabase());
     hattie = (await Person.findOne({ where: { workspaceId, name: 'Hattie Lowther' } }))!;
     rosalind = (await Person.findOne({ where: { workspaceId, name: 'Rosalind Fairhurst' } }))!;
     const old = await Roster.findAll({ where: { workspaceId, name: ROSTER } });

@@ -1,6 +1,7 @@
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
 
 export const PHONE = { width: 390, height: 844 } as const;
 export const WIDE = { width: 1280, height: 800 } as const;
@@ -19,6 +20,21 @@ export async function launch(): Promise<Browser> {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-quic', '--no-first-run', '--disable-component-update', '--disable-sync'],
   });
+}
+
+/** One Chromium for the enclosing describe block: launched before its tests, closed after them. */
+export function useBrowser(): () => Browser {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+  return () => {
+    if (!browser) throw new Error('useBrowser: the browser is only there inside the tests of its describe block');
+    return browser;
+  };
 }
 
 export interface WatchedPage {
@@ -97,4 +113,14 @@ export async function openRosterForSolving(page: Page, roster: string): Promise<
     await page.getByTestId('publish-reopen').click();
     await page.getByTestId('publish-go').waitFor();
   }
+}
+
+/** Starts a run of `seconds` from the Solve section and opens its result once the worker has finished it. */
+export async function solveAndOpenResult(page: Page, seconds = 3): Promise<void> {
+  await page.getByTestId('section-solve').click();
+  await page.getByTestId('solve-seconds').fill(String(seconds));
+  await page.getByTestId('solve-start').click();
+  await page.getByTestId('run-show-result').waitFor({ timeout: 120_000 });
+  await page.getByTestId('run-show-result').click();
+  await page.getByTestId('result-summary').waitFor();
 }
