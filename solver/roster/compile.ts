@@ -123,6 +123,43 @@ function exactArray<T>(n: number, at: (k: number) => T): T[] {
   return out;
 }
 
+const NO_SEATS = new Int32Array(0);
+
+/**
+ * The aux choices' seat lists, in choice order, in one Int32Array; `share` makes each choice's
+ * `seats` a view into it. One small Int32Array per choice cost ~190 bytes beside its data
+ * (60 people × 13 weeks: 100,000 choices, 31 MB in all; 20 MB as views).
+ */
+function seatPool() {
+  let pool = new Int32Array(1 << 16);
+  let used = 0;
+  const lengths: number[] = [];
+  return {
+    add(seats: readonly number[]) {
+      if (used + seats.length > pool.length) {
+        const grown = new Int32Array(Math.max(pool.length * 2, used + seats.length));
+        grown.set(pool.subarray(0, used));
+        pool = grown;
+      }
+      for (let k = 0; k < seats.length; k++) pool[used + k] = seats[k];
+      used += seats.length;
+      lengths.push(seats.length);
+    },
+    share(auxVars: AuxVariable[]) {
+      const exact = pool.slice(0, used);
+      let at = 0;
+      let c = 0;
+      for (const a of auxVars)
+        for (const choice of a.choices) {
+          const n = lengths[c++];
+          choice.seats = n ? exact.subarray(at, at + n) : NO_SEATS;
+          at += n;
+        }
+      pool = NO_SEATS;
+    },
+  };
+}
+
 function seatValueLookup(table: Int32Array, nPeople: number): (seat: number, person: number) => number {
   return (s, p) => table[s * nPeople + p];
 }
@@ -318,13 +355,14 @@ export function compileRoster(roster: Roster): CompiledRoster {
     }
   const capFor = (spanDays: number, minutesWeighted: boolean) => capForRules(roster, days, spanDays, minutesWeighted, unit, minShiftMinutes, maxShiftMinutes);
 
-  // [[x, w]] lists shared between factors: the same person in the same seat weighs the same in
-  // every window (saves millions of tiny arrays on large rosters).
-  const onesCache: ([number, number][] | undefined)[] = [];
-  const weightList = (s: number, x: number, w: number): [number, number][] => {
-    if (w !== 1) return [[x, w]];
-    const key = s * (nPeople + 1) + x;
-    return (onesCache[key] ??= [[x, 1]]);
+  // [[x, w]] lists shared between factors: a list says only "value x weighs w", so every factor
+  // and seat with that value and weight shares one (60 people × 13 weeks: 4.3 M entries, ~330,000
+  // lists per seat and value, 39 MB; now a few hundred). Nothing writes a weight list after compiling.
+  const listsByWeight = new Map<number, [number, number][][]>();
+  const weightList = (x: number, w: number): [number, number][] => {
+    let byValue = listsByWeight.get(w);
+    if (!byValue) listsByWeight.set(w, (byValue = []));
+    return (byValue[x] ??= [[x, w]]);
   };
 
   /** Merged counting factors: same person, same vars and weights (e.g. shifts per window and 7-day hours with equal shifts). */
@@ -342,7 +380,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
       const w = weightOf(s);
       if (w === 0) continue;
       vars.push(s);
-      weights.push(weightList(s, x, w));
+      weights.push(weightList(x, w));
       maxSum += w;
       if (w !== 1) allOnes = false;
     }
@@ -379,6 +417,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
   };
 
   const auxVars: AuxVariable[] = [];
+  const auxPool = seatPool();
   const auxLabels: string[][] = [];
   const auxNames: string[] = [];
   // 0 up to M, −∞ past it; one shared read-only table per M (factor tables are never written
@@ -397,28 +436,30 @@ export function compileRoster(roster: Roster): CompiledRoster {
       term,
       first,
       last,
-      choices: choices.map((c) => {
-        const seats = c.seats.filter((s) => valueAt(s, p) >= 0);
-        return { seats: Int32Array.from(seats), score: c.score };
-      }),
+      // seats: views into one pool, set when compiling ends (see auxPool)
+      choices: choices.map((c) => ({ seats: NO_SEATS, score: c.score })),
     };
     auxVars.push(entry);
     auxLabels.push(choices.map((c) => c.label));
     auxNames.push(`${term}:${detail}`);
-    entry.choices.forEach((c, j) => {
-      if (!c.seats.length) return;
+    choices.forEach((c, j) => {
+      const seats = c.seats.filter((s) => valueAt(s, p) >= 0);
+      auxPool.add(seats);
+      if (!seats.length) return;
       // value j weighs M (more than every seat together): sum ≤ M ⇔ not (aux = j and one of the seats held)
-      const M = c.seats.length + 1;
-      const auxWeights: [number, number][] = [[j, M]];
+      const M = seats.length + 1;
+      const auxWeights = weightList(j, M);
       const score = forbidScore(M);
       factors.push({
         kind: 'counting',
-        vars: exactArray(c.seats.length + 1, (k) => (k === 0 ? v : c.seats[k - 1])),
-        weights: exactArray(c.seats.length + 1, (k) => (k === 0 ? auxWeights : weightList(c.seats[k - 1], valueAt(c.seats[k - 1], p), 1))),
+        vars: exactArray(seats.length + 1, (k) => (k === 0 ? v : seats[k - 1])),
+        weights: exactArray(seats.length + 1, (k) => (k === 0 ? auxWeights : weightList(valueAt(seats[k - 1], p), 1))),
         score,
         hard: true,
-        id: `${term}:${detail}:${j}`,
-        label: `${label}: ${choices[j].label}`,
+        // joined, not template strings: a join is one flat string, a template a tree of pieces
+        // (85,872 weekly-rest factors on 60 × 13 weeks)
+        id: [term, detail, j].join(':'),
+        label: [label, choices[j].label].join(': '),
       } satisfies CountingFactor);
     });
     if (entry.choices.some((c) => c.score !== 0)) {
@@ -473,6 +514,7 @@ export function compileRoster(roster: Roster): CompiledRoster {
     labels: domains[s].map((p) => (p === OPEN ? 'open' : roster.people[p].name)),
     keys: Int32Array.from(domains[s]),
   }));
+  auxPool.share(auxVars);
   auxVars.forEach((a, k) => {
     const n = a.choices.length;
     variables.push({ name: auxNames[k], cardinality: n, labels: auxLabels[k], keys: new Int32Array(n).fill(OPEN) });

@@ -37,6 +37,10 @@ export const weeklyRest = defineRule({
       for (const f of facts) bySeat[f.index] = ctx.seatsOfShift[f.index].filter((s) => ctx.valueAt(s, p) >= 0);
       return bySeat;
     });
+    // one label string per shift and per day, shared by every window and person that names it
+    // (60 people × 13 weeks: 100,000 choices)
+    const afterShift: string[] = [];
+    const fromDay: string[] = [];
     for (const w of rollingWindows(ctx.days, r.days)) {
       if (w.last - w.first + 1 < r.days) continue; // a period shorter than the window: the rest may fall outside it
       const ws = dayStartMs(roster, w.first);
@@ -48,8 +52,8 @@ export const weeklyRest = defineRule({
         if (!mine.length) return;
         // candidate starts: the window's start, or the end of a shift (named by that shift: formatting
         // instants in the zone for thousands of labels was a fifth of the demo's compile time)
-        const byStart = new Map<number, string>([[ws, `rest from the start of day ${w.first + 1}`]]);
-        for (const f of mine) if (f.endMs >= ws && f.endMs + H <= we && !byStart.has(f.endMs)) byStart.set(f.endMs, `rest after ${describeShift(f)}`);
+        const byStart = new Map<number, string>([[ws, (fromDay[w.first] ??= `rest from the start of day ${w.first + 1}`)]]);
+        for (const f of mine) if (f.endMs >= ws && f.endMs + H <= we && !byStart.has(f.endMs)) byStart.set(f.endMs, (afterShift[f.index] ??= `rest after ${describeShift(f)}`));
         const cands = [...byStart.keys()].sort((a, b) => a - b).map((c) => ({ c, label: byStart.get(c)!, block: mine.filter((f) => f.startMs < c + H && f.endMs > c).map((f) => f.index) }));
         if (cands.some((k) => k.block.length === 0)) return; // some rest the person always keeps
         const subset = (a: number[], b: number[]) => a.every((x) => b.includes(x));
