@@ -31,6 +31,13 @@
  * curvature bound ‖S dᵢy‖²/λ, clipped to its box. S = diag(s) scales the prior (options.priorScale:
  * the regulariser is ‖S⁻¹(w − w0)‖²; S = I gives the plain ‖w − w0‖²). Preconditions: every preference's rosters belong
  * to its roster (seat and person ids), and the rule set is the one being tuned.
+ *
+ * options.formulation 'oneSlack' solves the same problem with one slack shared by all edits
+ * (Joachims, Finley & Yu 2009): min λ/2 ‖S⁻¹(w − w0)‖² + ξ over constraints
+ * (1/n) Σᵢ [w·dᵢ(ȳᵢ) + eᵢ(ȳᵢ)] ≥ (1/n) Σᵢ Δᵢ(ȳᵢ) − ξ, one per choice of a rival ȳᵢ (or y⁺ᵢ
+ * itself) for every edit. Over the same rivals its optimum is the n-slack's; what differs is the
+ * working set (a few dense constraints, each built from the most violating found rival of every
+ * edit at the current w) and so the dual the coordinate ascent has to settle.
  */
 import type { Roster, RosterAssignment } from '../../shared/roster/schema';
 import { solveRoster } from '../roster/solve-roster';
@@ -94,25 +101,29 @@ function leads(examples: Example[], w: readonly number[]): number[] {
   return examples.map((ex) => dot(w, ex.rivals[0].d) + ex.rivals[0].e);
 }
 
-/** The working-set QP, in the dual (see the file comment). Returns w(α) and the primal objective. */
-function solveWorkingSet(examples: Example[], w0: readonly number[], o: LearnOptions): { w: number[]; objective: number } {
-  const n = examples.length;
+const violation = (r: Rival, w: readonly number[]) => r.loss - r.e - dot(w, r.d);
+
+/**
+ * The working-set QP, in the dual (see the file comment), over groups of constraints that share a
+ * slack: an edit's rivals (n-slack) or the one list of aggregated constraints (1-slack). Each
+ * group's α sum to at most 1/groups. Returns w(α) and the primal objective.
+ */
+function solveWorkingSet(groups: readonly { rivals: Rival[] }[], w0: readonly number[], s2: readonly number[], o: LearnOptions, pairs = o.dualPairSteps): { w: number[]; objective: number } {
+  const n = groups.length;
   const lambda = o.priorStrength;
   const K = w0.length;
-  // s²: the prior's scale per weight (options.priorScale)
-  const s2 = w0.map((x) => (o.priorScale === 'relative' ? Math.max(x, 1) ** 2 : 1));
   const v = new Array<number>(K).fill(0); // Σ α d
-  for (const ex of examples) for (const r of ex.rivals) r.d.forEach((x, k) => (v[k] += r.alpha * x));
+  for (const ex of groups) for (const r of ex.rivals) r.d.forEach((x, k) => (v[k] += r.alpha * x));
   const wOf = () => w0.map((x, k) => Math.max(0, x + (s2[k] * v[k]) / lambda));
   const primal = (w: number[]) => {
     let data = 0;
-    for (const ex of examples) data += Math.max(0, ...ex.rivals.map((r) => r.loss - r.e - dot(w, r.d)));
+    for (const ex of groups) data += Math.max(0, ...ex.rivals.map((r) => r.loss - r.e - dot(w, r.d)));
     return (lambda / 2) * w.reduce((m, x, k) => m + (x - w0[k]) ** 2 / s2[k], 0) + data / n;
   };
   let w = wOf();
   for (let sweep = 0; sweep < o.dualSweeps; sweep++) {
     let moved = 0;
-    for (const ex of examples) {
+    for (const ex of groups) {
       let used = ex.rivals.reduce((m, r) => m + r.alpha, 0);
       for (const r of ex.rivals) {
         const norm = r.d.reduce((m, x, k) => m + s2[k] * x * x, 0);
@@ -127,10 +138,97 @@ function solveWorkingSet(examples: Example[], w0: readonly number[], o: LearnOpt
         w = wOf();
         moved = Math.max(moved, Math.abs(step) * n);
       }
+      // once a group's α reach their sum's cap, no single α can rise: move α from the group's least
+      // violated constraint to its most violated one (the pair step of SMO, Platt 1998)
+      for (let rep = 0; pairs && used >= 1 / n - 1e-12 && rep < ex.rivals.length; rep++) {
+        let hi = -1;
+        let lo = -1;
+        let gHi = -Infinity;
+        let gLo = Infinity;
+        ex.rivals.forEach((r, j) => {
+          const g = violation(r, w);
+          if (g > gHi) [gHi, hi] = [g, j];
+          if (r.alpha > 0 && g < gLo) [gLo, lo] = [g, j];
+        });
+        if (hi < 0 || lo < 0 || hi === lo || gHi - gLo <= 1e-12) break;
+        const a = ex.rivals[hi];
+        const b = ex.rivals[lo];
+        const norm = a.d.reduce((m, x, k) => m + s2[k] * (x - b.d[k]) ** 2, 0);
+        if (norm === 0) break;
+        const t = Math.min(b.alpha, ((gHi - gLo) * lambda) / norm);
+        a.alpha += t;
+        b.alpha -= t;
+        a.d.forEach((x, k) => (v[k] += t * (x - b.d[k])));
+        w = wOf();
+        moved = Math.max(moved, t * n);
+      }
     }
     if (moved < 1e-7) break;
   }
   return { w, objective: primal(w) };
+}
+
+/**
+ * s² of the prior per weight (options.priorScale). The spread is taken over the edits' proposed
+ * rosters only (what every learner sees before any oracle call); a rule no edit moves gets σ̄.
+ */
+function priorScales(examples: readonly Example[], w0: readonly number[], scale: LearnOptions['priorScale']): number[] {
+  const relative = w0.map((x) => (scale === 'relative' || scale === 'relativeSpread' ? Math.max(x, 1) : 1));
+  if (scale === 'relative' || scale === 'absolute') return relative.map((x) => x * x);
+  const rms = w0.map((_, k) => Math.sqrt(examples.reduce((m, ex) => m + ex.rivals[0].d[k] ** 2, 0) / Math.max(1, examples.length)));
+  const positive = rms.filter((x) => x > 0);
+  const mean = positive.length ? Math.exp(positive.reduce((m, x) => m + Math.log(x), 0) / positive.length) : 1;
+  return relative.map((x, k) => (x * mean / (rms[k] > 0 ? rms[k] : mean)) ** 2);
+}
+
+/**
+ * The 1-slack working set (Joachims, Finley & Yu 2009, margin rescaling): each constraint is the
+ * mean over the edits of one rival each, an edit adding nothing where its kept roster beats all its
+ * rivals by their margins (ȳᵢ = y⁺ᵢ). `tighten` adds, from the rivals found so far, the most
+ * violated such constraint at the current w until none violates by more than the tolerance (at
+ * most cacheRounds), so the oracle is asked again only once the found rivals are used up.
+ */
+function oneSlack(examples: readonly Example[], w0: readonly number[], s2: readonly number[], o: LearnOptions) {
+  const group = { rivals: [] as Rival[] };
+  const keys = new Set<string>();
+  const K = w0.length;
+  let w = [...w0];
+  let objective = 0;
+  const aggregate = (): Rival => {
+    const d = new Array<number>(K).fill(0);
+    let e = 0;
+    let loss = 0;
+    const picks: number[] = [];
+    for (const ex of examples) {
+      let best = -1;
+      let most = 0;
+      ex.rivals.forEach((r, j) => {
+        const x = violation(r, w);
+        if (x > most) [best, most] = [j, x];
+      });
+      picks.push(best);
+      if (best < 0) continue;
+      const r = ex.rivals[best];
+      r.d.forEach((x, k) => (d[k] += x / examples.length));
+      e += r.e / examples.length;
+      loss += r.loss / examples.length;
+    }
+    return { d, e, loss, alpha: 0, key: picks.join(',') };
+  };
+  const tighten = (): number => {
+    let added = 0;
+    for (let i = 0; i < o.cacheRounds; i++) {
+      const c = aggregate();
+      const slack = Math.max(0, ...group.rivals.map((q) => violation(q, w)));
+      if (keys.has(c.key) || violation(c, w) <= slack + o.violationTolerance) break;
+      keys.add(c.key);
+      group.rivals.push(c);
+      added++;
+      ({ w, objective } = solveWorkingSet([group], w0, s2, o, true));
+    }
+    return added;
+  };
+  return { tighten, w: () => w, objective: () => objective, constraints: () => group.rivals.length };
 }
 
 /** The oracle's roster: the rule set at w, every seat the coordinator did not change pinned as kept, and the Hamming loss as avoid wishes. */
@@ -183,7 +281,9 @@ export async function learnWeights(rules: RuleSetLike, preferences: readonly Pre
     }
   });
 
-  let { w, objective } = examples.length ? solveWorkingSet(examples, w0, o) : { w: [...w0], objective: 0 };
+  const s2 = priorScales(examples, w0, o.priorScale);
+  const one = o.formulation === 'oneSlack' ? oneSlack(examples, w0, s2, o) : null;
+  let { w, objective } = examples.length ? (one ? (one.tighten(), { w: one.w(), objective: one.objective() }) : solveWorkingSet(examples, w0, s2, o)) : { w: [...w0], objective: 0 };
   let rounds = 0;
   let oracleCalls = 0;
   let stopReason: LearnResult['stopReason'] = o.rounds === 0 ? 'rounds' : 'converged';
@@ -205,13 +305,17 @@ export async function learnWeights(rules: RuleSetLike, preferences: readonly Pre
       const differing = ex.changed.filter((s) => !sameHolder(y[s], ex.pref.kept[s])).length;
       if (differing === 0) continue;
       const r = rival(ex, ex.featurize(y), differing, o.marginPerSeat, key);
-      const slack = Math.max(0, ...ex.rivals.map((q) => q.loss - q.e - dot(w, q.d)));
-      if (r.loss - r.e - dot(w, r.d) > slack + o.violationTolerance) {
+      const slack = Math.max(0, ...ex.rivals.map((q) => violation(q, w)));
+      // 1-slack: every rival found is kept for the aggregated constraints (the shared slack decides)
+      if (one ? violation(r, w) > o.violationTolerance : violation(r, w) > slack + o.violationTolerance) {
         ex.rivals.push(r);
         added++;
       }
     }
-    if (added > 0) ({ w, objective } = solveWorkingSet(examples, w0, o));
+    if (one) {
+      added = added > 0 ? one.tighten() : 0;
+      ({ w, objective } = { w: one.w(), objective: one.objective() });
+    } else if (added > 0) ({ w, objective } = solveWorkingSet(examples, w0, s2, o));
     if (stopReason === 'time') break;
     if (added === 0) {
       stopReason = 'converged';
@@ -234,7 +338,7 @@ export async function learnWeights(rules: RuleSetLike, preferences: readonly Pre
     objective,
     rounds,
     oracleCalls,
-    constraints: examples.reduce((m, e) => m + e.rivals.length, 0),
+    constraints: one ? one.constraints() : examples.reduce((m, e) => m + e.rivals.length, 0),
     timeMs: now() - t0,
     stopReason,
   };

@@ -8,9 +8,21 @@ export interface LearnOptions {
   /**
    * 'relative': the prior is Σ ((w_k − w0_k) / s_k)² with s_k = max(w0_k, 1), so a weight of 100
    * may move by 10 as cheaply as a weight of 1 by 0.1 (weights of different rules live on very
-   * different scales); 'absolute': the plain ‖w − w0‖².
+   * different scales); 'absolute': the plain ‖w − w0‖²; 'spread': s_k = σ̄ / σ_k with σ_k the
+   * root mean square over the edits of rule k's count change (kept − proposed) and σ̄ their
+   * geometric mean, so that the prior is on the points a rule moves in a typical edit (a rule
+   * counted in hours does not outweigh one counted in weekends); 'relativeSpread': both factors.
    */
-  priorScale: 'relative' | 'absolute';
+  priorScale: 'relative' | 'absolute' | 'spread' | 'relativeSpread';
+  /**
+   * 'nSlack': one slack per edit, each edit's rivals its own constraints (Tsochantaridis et al. 2005);
+   * 'oneSlack': one slack shared by all edits, each constraint the mean over the edits of a rival
+   * each (Joachims, Finley & Yu, "Cutting-plane training of structural SVMs", Machine Learning 2009),
+   * built from every rival found so far before the oracle is asked again.
+   */
+  formulation: 'nSlack' | 'oneSlack';
+  /** oneSlack: most aggregated constraints added from the found rivals between two oracle rounds. */
+  cacheRounds: number;
   /** Margin asked of each kept roster over a rival, per seat where they differ (points): Δ of margin rescaling. */
   marginPerSeat: number;
   /** Cutting-plane rounds: each asks the solver once per edit for its most violating roster. 0 = only the proposed rosters. */
@@ -21,6 +33,12 @@ export interface LearnOptions {
   timeLimitMs: number;
   /** Most sweeps of dual coordinate ascent per solve of the working-set problem (it stops earlier once α settles). */
   dualSweeps: number;
+  /**
+   * Dual coordinate ascent also moves α between two constraints of an edit whose α sum is at its
+   * cap (single steps cannot move then). The 1-slack formulation always does, its one group being
+   * at the cap whenever the slack is positive.
+   */
+  dualPairSteps: boolean;
   /** A rival joins the working set when it violates its margin by more than this (points). */
   violationTolerance: number;
   /** Weights below this are reported as 0 (a rule the edits say not to weigh at all). */
@@ -36,11 +54,14 @@ export interface LearnOptions {
 export const DEFAULT_LEARN_OPTIONS: Readonly<LearnOptions> = Object.freeze({
   priorStrength: 1,
   priorScale: 'relative',
+  formulation: 'nSlack',
+  cacheRounds: 200,
   marginPerSeat: 1,
   rounds: 3,
   oracleTimeLimitMs: 250,
   timeLimitMs: 20_000,
   dualSweeps: 2000,
+  dualPairSteps: false,
   violationTolerance: 1e-3,
   zeroBelow: 1e-3,
   seed: 1,
