@@ -78,6 +78,9 @@ function OpenSuggestion({ roster, s }: { roster: RosterDto; s: SuggestionDto }) 
           <Pill tone={c.to > c.from ? 'warn' : 'plain'}>{`${c.from} → ${c.to}`}</Pill>
         </View>
       ))}
+      {(r.cautions ?? []).map((c) => (
+        <Notice key={c} kind="caution">{c}</Notice>
+      ))}
       {r.contradictions.length ? <Notice kind="caution">{`Edits that undo others: ${r.contradictions.join('; ')}.`}</Notice> : null}
       {r.unexplained.length ? <Notice kind="info">{`No rule weights can explain: ${r.unexplained.join('; ')}.`}</Notice> : null}
       <Body bold>On past rosters</Body>

@@ -5,6 +5,7 @@
 import type { Roster as RosterJson, RosterAssignment, RuleSet } from '../../shared/roster/schema';
 import { TERM_LABELS } from '../../shared/api/rosters';
 import { MIN_EDITS_FOR_SUGGESTION, type PastRosterEffect, type SuggestionReport, type WeightChange } from '../../shared/api/suggestion';
+import { suggestionCautions } from './cautions';
 import { disagreements, learnWeights, replayWithWeights, type LearnOptions, type Preference } from '../../solver/learn';
 
 export type StoredEdit = { id: number; rosterId: number; rosterName: string; roster: RosterJson; kept: RosterAssignment; proposed: RosterAssignment };
@@ -109,6 +110,7 @@ export async function computeSuggestion(rules: RuleSet, allEdits: StoredEdit[], 
       agreeAfter: after.counted - after.disagree.length,
       skipped: result.skipped.length,
       contradictions: reversed,
+      cautions: suggestionCautions(changes, { before: before.counted - before.disagree.length, after: after.counted - after.disagree.length, of: after.counted }),
       unexplained: result.unexplainable.map((i) => `edit ${edits[i].id} on ${edits[i].rosterName} breaks no rule less and honours no more wishes or pairings than the roster it replaced`),
       past,
       learner: { method: 'structured SVM (margin rescaling, cutting planes; solveRoster as oracle)', timeMs: result.timeMs, oracleCalls: result.oracleCalls, rounds: result.rounds, stopReason: result.stopReason },

@@ -39,6 +39,8 @@ export type SuggestionReport = {
   skipped: number;
   /** Pairs of edits that undo each other, left out of the learning. */
   contradictions: string[];
+  /** What to weigh before adopting (explains no more edits than now; lowers a rule on rest, hours or staffing). Absent on reports stored before it existed. */
+  cautions?: string[];
   unexplained: string[];
   past: PastRosterEffect[];
   learner: { method: string; timeMs: number; oracleCalls: number; rounds: number; stopReason: string };

@@ -123,6 +123,9 @@ describe('weight suggestions API', () => {
     // each edit gives up a seat (coverage) for 7 wish points and up to 8 hours nearer Cleo's contract
     expect(cov.to / Math.max(contracted.to, 1e-9)).toBeLessThan(cov.from / contracted.from);
     expect(s.report.agreeAfter).toBeGreaterThan(s.report.agreeBefore);
+    // the suggestion explains more edits, so no 'no better' caution; a lowered open-seat weight is cautioned
+    expect(s.report.cautions.join(' ')).not.toMatch(/no more than the current ones/);
+    if (cov.to < cov.from) expect(s.report.cautions.join(' ')).toMatch(/Lower weights on .*every seat filled.*local law/);
     expect(s.report.past[0]).toMatchObject({ rosterId, rosterName: 'Sallowfield, first week' });
 
     const rulesBefore = (await coordinator.get(`/api/rosters/${rosterId}/rules`)).body.rules;
