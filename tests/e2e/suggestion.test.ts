@@ -46,6 +46,10 @@ describe('weight suggestion from real edits', () => {
     const open = (await (await page.request.get(`/api/rosters/${rosterId}/suggestion`)).json()).suggestion;
     const rulesBefore = (await (await page.request.get(`/api/rosters/${rosterId}/rules`)).json()).rules;
     expect(open.status).toBe('open');
+    // leaving seats open lowers 'every seat filled': the card says what that risks before adopting
+    if (open.weights.some((w: { key: string; from: number; to: number }) => w.key === 'coverage' && w.to < w.from)) {
+      await page.getByTestId('suggestion-open').getByText(/^Lower weights on .*every seat filled.*licensed practice/).waitFor();
+    }
     await page.getByTestId('suggestion-adopt').click();
     await page.getByTestId('suggestion-decided').getByText(/adopted by/).waitFor({ timeout: 30_000 });
     await shot('2-adopted');
