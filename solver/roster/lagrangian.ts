@@ -53,10 +53,13 @@ interface PeriodFactor {
   tmax?: number;
 }
 
+/** State indexes of one day's transitions: 16 bits when every day has under 65,536 states. */
+type StateIndexes = Uint16Array | Int32Array;
+
 interface Transitions {
-  from: Int32Array[];
+  from: StateIndexes[];
   opt: Uint8Array[];
-  to: Int32Array[];
+  to: StateIndexes[];
   fixed: Float64Array[];
   nStates: number[];
 }
@@ -70,9 +73,9 @@ interface PersonPlan {
   seatsOfShift: Map<number, { seat: number; value: number }[]>;
   period: PeriodFactor[];
   /** Transitions per day: from state index, option, to state index, fixed score. */
-  from: Int32Array[];
+  from: StateIndexes[];
   opt: Uint8Array[];
-  to: Int32Array[];
+  to: StateIndexes[];
   fixed: Float64Array[];
   nStates: number[];
 }
@@ -512,6 +515,8 @@ export function buildLagrangian(compiled: CompiledRoster, opts: LagrangianOption
           nStates.push(nextCodes.length);
           prevCodes = nextCodes;
         }
+        // 60 people × 13 weeks: 6.5 M transitions, every day under 65,536 states (halves from and to)
+        if (Math.max(1, ...nStates) < 65_536) return { from: from.map((a) => Uint16Array.from(a)), opt, to: to.map((a) => Uint16Array.from(a)), fixed, nStates };
         return { from, opt, to, fixed, nStates };
       })();
       if (!built) return { unsupported: 'person schedule states too many to encode' };
