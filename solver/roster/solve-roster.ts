@@ -81,9 +81,14 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   if (reasons.length) return { status: 'infeasible', reasons };
   const now = options.clock ?? Date.now;
   const t0 = now();
+  const wall0 = Date.now();
   const compiled = compileRoster(roster);
   const { start, lagrangianShare = 0.45, dualStart, lnsShare = 0.9, engineMaxFactors = ENGINE_MAX_FACTORS, proofShare = 0.5, proofMaxValues = PROVE_SMALL_MAX_VALUES, ...mapOptions } = options;
   const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
+  // small rosters get the proof step after the search; their HiGHS stays on the baseline compiler
+  // (bound/highs.ts baselineWasm: a cold start costs less there, and small rosters only start it)
+  const proving = lagrangianShare > 0 && proofShare > 0 && seatValues(compiled) <= proofMaxValues;
+  if (proving) await loadHighsRuntime({ baseline: true }).catch(() => null);
   let initial = greedyAssignment(compiled);
   if (start) {
     // The given roster (e.g. the previous run), with today's pins, wins unless greedy scores better:
@@ -121,8 +126,11 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   // −36.5 against −34, so the decomposition is then skipped and LNS gets its time: a roster
   // reaching the MIP's bound is proven best)
   let mipBounded = false;
-  if (share > 0 && proofShare > 0 && !result.optimal && !signal?.aborted && result.score > -Infinity && seatValues(compiled) <= proofMaxValues) {
-    mipBounded = await proveByMip(roster, compiled, result, (t0 + timeLimitMs - now()) * Math.min(1, proofShare), now, t0, grid);
+  if (proving && !result.optimal && !signal?.aborted && result.score > -Infinity) {
+    // HiGHS counts wall-clock time: its limit follows the pace of the caller's clock so far (a CPU
+    // clock on a loaded machine runs slower than the wall), between 1 and 4 wall ms per clock ms
+    const pace = Math.min(4, Math.max(1, (Date.now() - wall0) / Math.max(1, now() - t0)));
+    mipBounded = await proveByMip(roster, compiled, result, (t0 + timeLimitMs - now()) * Math.min(1, proofShare), pace, now, t0, grid);
   }
   let dual: DualStart | undefined;
   if (share > 0 && !mipBounded && !result.optimal && !signal?.aborted) dual = await tightenWithLagrangian(compiled, result, t0, timeLimitMs, now, mapOptions, grid, dualStart, signal);
@@ -185,13 +193,13 @@ async function improveByLns(compiled: CompiledRoster, result: MapResult, deadlin
 }
 
 /**
- * The proof step (bound/prove-small.ts) for up to `budgetMs`: HiGHS's roster when better, its
+ * The proof step (bound/prove-small.ts) for up to `budgetMs` (× `pace` wall ms each): HiGHS's roster when better, its
  * bound when lower; proven best when the rounded bound meets the score. True when HiGHS gave a bound.
  */
-async function proveByMip(roster: Roster, compiled: CompiledRoster, result: MapResult, budgetMs: number, now: () => number, t0: number, grid: number): Promise<boolean> {
+async function proveByMip(roster: Roster, compiled: CompiledRoster, result: MapResult, budgetMs: number, pace: number, now: () => number, t0: number, grid: number): Promise<boolean> {
   // under this HiGHS does not get through its root (12 × 2 weeks: 0.2 s from the optimum, warm)
   if (budgetMs < 150) return false;
-  const proof = await proveSmall(roster, compiled, result, { timeLimitMs: budgetMs, grid });
+  const proof = await proveSmall(roster, compiled, result, { timeLimitMs: budgetMs * pace, grid });
   if (!proof) return false;
   if (proof.improved) {
     result.assignment = proof.assignment;

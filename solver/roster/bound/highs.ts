@@ -40,20 +40,25 @@ export interface HighsRuntime {
 
 let loading: Promise<HighsRuntime> | null = null;
 
-/** The HiGHS WebAssembly runtime (instantiated on first use). */
-export function loadHighsRuntime(): Promise<HighsRuntime> {
-  loading ??= baselineWasm().then(() => import('highs')).then((m) => (m.default as unknown as () => Promise<HighsRuntime>)());
+/**
+ * The HiGHS WebAssembly runtime (instantiated on first use). `baseline` (read on the first call
+ * only) keeps its code on V8's baseline compiler, see baselineWasm.
+ */
+export function loadHighsRuntime(opts: { baseline?: boolean } = {}): Promise<HighsRuntime> {
+  loading ??= (opts.baseline ? baselineWasm() : Promise.resolve()).then(() => import('highs')).then((m) => (m.default as unknown as () => Promise<HighsRuntime>)());
   return loading;
 }
 
 /**
  * Keep HiGHS's WebAssembly on V8's baseline compiler (Liftoff) instead of letting hot functions
- * tier up to TurboFan. Every solve runs in a fresh thread, so HiGHS starts cold each time, and
- * the tier-up compiles on background threads that count against a CPU budget. Measured on
- * 12 people × 2 weeks (CPU, 2026-12-03): the first MIP of a process 2.2 → 0.9 s, LNS reaching
- * the optimum at 3.9 → 1.2 s; a long MIP run once warm is ~30 % slower (2.9 → 3.7 s). The flag
- * is process-wide and only read when WebAssembly is compiled, so it is set before HiGHS loads;
- * where V8 refuses it, HiGHS runs as before.
+ * tier up to TurboFan. A solve thread starts HiGHS cold, and the tier-up compiles on background
+ * threads that count against a CPU budget. Measured on 12 people × 2 weeks (CPU, 2026-12-03): the
+ * first MIP of a process 2.2 → 0.9 s, LNS reaching the optimum −36.5 at 3.9 → 1.2 s, proven best
+ * at 2.0–2.8 s instead of not at all in 4 s; a long MIP once warm is ~30 % slower (2.9 → 3.7 s).
+ * On the demo (10 s, LNS for seconds) it costs: 14.75–16.75 against 16.75–17.75 without, so
+ * solveRoster asks for it only on rosters small enough for the proof step. The flag is
+ * process-wide and read when WebAssembly is compiled: it is set before HiGHS loads, and whatever
+ * the first load in a process chose holds for what that process compiles after it.
  */
 async function baselineWasm(): Promise<void> {
   try {
