@@ -86,7 +86,7 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   const { start, lagrangianShare = 0.45, dualStart, lnsShare = 0.9, engineMaxFactors = ENGINE_MAX_FACTORS, proofShare = 0.5, proofMaxValues = PROVE_SMALL_MAX_VALUES, ...mapOptions } = options;
   const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
   // small rosters get the proof step after the search; their HiGHS stays on the baseline compiler
-  // (bound/highs.ts baselineWasm: a cold start costs less there, and small rosters only start it)
+  // (bound/highs.ts wasmTiering: a cold start costs less there, and small rosters only start it)
   const proving = lagrangianShare > 0 && proofShare > 0 && seatValues(compiled) <= proofMaxValues;
   if (proving) await loadHighsRuntime({ baseline: true }).catch(() => null);
   let initial = greedyAssignment(compiled);

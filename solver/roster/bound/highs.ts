@@ -42,10 +42,10 @@ let loading: Promise<HighsRuntime> | null = null;
 
 /**
  * The HiGHS WebAssembly runtime (instantiated on first use). `baseline` (read on the first call
- * only) keeps its code on V8's baseline compiler, see baselineWasm.
+ * only) keeps its code on V8's baseline compiler, see wasmTiering.
  */
 export function loadHighsRuntime(opts: { baseline?: boolean } = {}): Promise<HighsRuntime> {
-  loading ??= (opts.baseline ? baselineWasm() : Promise.resolve()).then(() => import('highs')).then((m) => (m.default as unknown as () => Promise<HighsRuntime>)());
+  loading ??= wasmTiering(opts.baseline === true).then(() => import('highs')).then((m) => (m.default as unknown as () => Promise<HighsRuntime>)());
   return loading;
 }
 
@@ -57,13 +57,14 @@ export function loadHighsRuntime(opts: { baseline?: boolean } = {}): Promise<Hig
  * at 2.0–2.8 s instead of not at all in 4 s; a long MIP once warm is ~30 % slower (2.9 → 3.7 s).
  * On the demo (10 s, LNS for seconds) it costs: 14.75–16.75 against 16.75–17.75 without, so
  * solveRoster asks for it only on rosters small enough for the proof step. The flag is
- * process-wide and read when WebAssembly is compiled: it is set before HiGHS loads, and whatever
- * the first load in a process chose holds for what that process compiles after it.
+ * process-wide and read when WebAssembly is compiled, and the product's worker solves each run in
+ * a thread of one process, so every load sets it, one way or the other: a small roster solved
+ * first must not leave the next demo-sized run on the baseline compiler.
  */
-async function baselineWasm(): Promise<void> {
+async function wasmTiering(baseline: boolean): Promise<void> {
   try {
     const v8 = await import('node:v8');
-    v8.setFlagsFromString('--liftoff-only');
+    v8.setFlagsFromString(baseline ? '--liftoff-only' : '--no-liftoff-only');
   } catch {
     // not on Node (or flags frozen): the default tiering stays
   }
