@@ -61,6 +61,8 @@ export async function executeRun(
       seed: params.seed,
       start,
       dualStart,
+      // the worker solves every run in a thread of one process: a baseline HiGHS would stay for all later runs
+      highsBaseline: false,
       progressEveryMs: 250,
       onProgress: (p) => onProgress({ iteration: p.iteration, score: p.score, bound: p.bound, gap: p.gap, elapsedMs: p.timeMs }),
     },

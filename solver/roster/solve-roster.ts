@@ -69,6 +69,13 @@ export type SolveRosterOptions = Partial<MapOptions> & {
   proofShare?: number;
   /** Largest roster that gets the proof step, in seat values (Σ over seats of who may take it, open included; default PROVE_SMALL_MAX_VALUES). */
   proofMaxValues?: number;
+  /**
+   * Load HiGHS on V8's baseline compiler for rosters that get the proof step (default true). Only for a
+   * process that solves one roster: once loaded that way, later loads in the same process, other threads
+   * included, keep baseline speed (measured: 12 × 2 weeks' cold MIP 3.1–3.25 s in a thread after one,
+   * 2.0–2.8 s without), and demo-sized rosters lose by it (bound/highs.ts).
+   */
+  highsBaseline?: boolean;
 };
 
 /**
@@ -83,12 +90,12 @@ export async function solveRoster(roster: Roster, options: SolveRosterOptions = 
   const t0 = now();
   const wall0 = Date.now();
   const compiled = compileRoster(roster);
-  const { start, lagrangianShare = 0.45, dualStart, lnsShare = 0.9, engineMaxFactors = ENGINE_MAX_FACTORS, proofShare = 0.5, proofMaxValues = PROVE_SMALL_MAX_VALUES, ...mapOptions } = options;
+  const { start, lagrangianShare = 0.45, dualStart, lnsShare = 0.9, engineMaxFactors = ENGINE_MAX_FACTORS, proofShare = 0.5, proofMaxValues = PROVE_SMALL_MAX_VALUES, highsBaseline = true, ...mapOptions } = options;
   const timeLimitMs = mapOptions.timeLimitMs ?? DEFAULT_MAP_OPTIONS.timeLimitMs;
   // small rosters get the proof step after the search; their HiGHS stays on the baseline compiler
   // (bound/highs.ts wasmTiering: a cold start costs less there, and small rosters only start it)
   const proving = lagrangianShare > 0 && proofShare > 0 && seatValues(compiled) <= proofMaxValues;
-  if (proving) await loadHighsRuntime({ baseline: true }).catch(() => null);
+  if (proving && highsBaseline) await loadHighsRuntime({ baseline: true }).catch(() => null);
   let initial = greedyAssignment(compiled);
   if (start) {
     // The given roster (e.g. the previous run), with today's pins, wins unless greedy scores better:

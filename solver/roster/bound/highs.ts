@@ -56,10 +56,12 @@ export function loadHighsRuntime(opts: { baseline?: boolean } = {}): Promise<Hig
  * first MIP of a process 2.2 → 0.9 s, LNS reaching the optimum −36.5 at 3.9 → 1.2 s, proven best
  * at 2.0–2.8 s instead of not at all in 4 s; a long MIP once warm is ~30 % slower (2.9 → 3.7 s).
  * On the demo (10 s, LNS for seconds) it costs: 14.75–16.75 against 16.75–17.75 without, so
- * solveRoster asks for it only on rosters small enough for the proof step. The flag is
- * process-wide and read when WebAssembly is compiled, and the product's worker solves each run in
- * a thread of one process, so every load sets it, one way or the other: a small roster solved
- * first must not leave the next demo-sized run on the baseline compiler.
+ * solveRoster asks for it only on rosters small enough for the proof step, and only where asked
+ * (`highsBaseline`, off in the product's worker). The flag is process-wide: every load sets it one
+ * way or the other, but that is not enough. Measured (12 × 2 weeks' cold MIP, 2026-12-03): in a
+ * thread after one that loaded HiGHS on the baseline compiler it takes 3.1–3.25 s even with
+ * --no-liftoff-only, as on the baseline itself (2.0–2.8 s in a process that never used it): V8 keeps
+ * the compiled module for the whole process.
  */
 async function wasmTiering(baseline: boolean): Promise<void> {
   try {
