@@ -333,6 +333,38 @@ export interface HighsReference {
   timeMs: number;
 }
 
+/** The two calls of a HiGHS model that put a roster into it and read one back. */
+type MipColumns = { getColByName(name: string): number; setSolution(s: { indices: Int32Array; values: Float64Array }): unknown };
+
+/** Start the MIP from `x` (a value index per model variable): each x_i_v column 1 when v is x[i], else 0. */
+export function setMipStart(enc: MipEncoding, model: Model, mip: MipColumns, x: ArrayLike<number>): void {
+  const idx: number[] = [];
+  const val: number[] = [];
+  model.variables.forEach((v, i) => {
+    for (let a = 0; a < v.cardinality; a++) {
+      const n = enc.xName(i, a);
+      const c = n ? mip.getColByName(n) : -1;
+      if (c >= 0) idx.push(c), val.push(a === x[i] ? 1 : 0);
+    }
+  });
+  mip.setSolution({ indices: Int32Array.from(idx), values: Float64Array.from(val) });
+}
+
+/** The MIP's solution as a value index per variable (the value with the largest column; `fallback[i]` when none is above −1). */
+export function readMipAssignment(enc: MipEncoding, model: Model, mip: MipColumns, col: Float64Array, fallback: ArrayLike<number>): number[] {
+  return model.variables.map((v, i) => {
+    let best = fallback[i]!;
+    let bv = -1;
+    for (let a = 0; a < v.cardinality; a++) {
+      const n = enc.xName(i, a);
+      const c = n ? mip.getColByName(n) : -1;
+      const p = c >= 0 ? col[c]! : -1;
+      if (p > bv) (bv = p), (best = a);
+    }
+    return best;
+  });
+}
+
 type HighsModel = {
   options: { set(values: Record<string, unknown>): unknown };
   info: { get(name: string): number | bigint };

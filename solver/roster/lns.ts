@@ -21,7 +21,7 @@
  */
 import type { CountingFactor, Factor, Model, Variable } from '../model';
 import { countingMaxSum, countingScoreAt, factorScore, factorsByVariable, keyOf, score as modelScore } from '../model';
-import { encodeMip } from '../bench/highs-mip';
+import { encodeMip, readMipAssignment, setMipStart } from '../bench/highs-mip';
 import { OPEN, type CompiledRoster } from './compile';
 import type { HighsRuntime } from './bound/highs';
 
@@ -283,30 +283,12 @@ export function solveNeighbourhood(compiled: CompiledRoster, L: RosterLayout, hi
   const m = (highs as unknown as { createModel(s: { format: 'lp'; data: string }): HighsMip }).createModel({ format: 'lp', data: enc.lp });
   try {
     m.options.set({ output_flag: false, mip_max_nodes: maxNodes, time_limit: 30, mip_rel_gap: 0, mip_abs_gap: 1e-6 });
-    const idx: number[] = [];
-    const val: number[] = [];
-    sub.model.variables.forEach((v, k) => {
-      for (let a = 0; a < v.cardinality; a++) {
-        const n = enc.xName(k, a);
-        const c = n ? m.getColByName(n) : -1;
-        if (c >= 0) idx.push(c), val.push(a === sub.start[k] ? 1 : 0);
-      }
-    });
-    m.setSolution({ indices: Int32Array.from(idx), values: Float64Array.from(val) });
+    setMipStart(enc, sub.model, m, sub.start);
     m.run();
     if (Number(m.info.get('primal_solution_status')) !== 2) return 'unsolved';
-    const col = m.getSolution().colValue;
+    const picked = readMipAssignment(enc, sub.model, m, m.getSolution().colValue, sub.start);
     const y = Int32Array.from(x);
-    sub.model.variables.forEach((v, k) => {
-      let best = sub.start[k]!, bv = -1;
-      for (let a = 0; a < v.cardinality; a++) {
-        const n = enc.xName(k, a);
-        const c = n ? m.getColByName(n) : -1;
-        const p = c >= 0 ? col[c]! : -1;
-        if (p > bv) (bv = p), (best = a);
-      }
-      y[sub.vars[k]!] = sub.values[k]![best]!;
-    });
+    picked.forEach((best, k) => (y[sub.vars[k]!] = sub.values[k]![best]!));
     // the sub-model's score is the whole model's; the whole scorer has the last word
     const sc = modelScore(sub.model, Array.from(sub.vars, (i, k) => sub.values[k]!.indexOf(y[i]!)));
     if (!(sc > current + 1e-9)) return null;

@@ -13,7 +13,7 @@
  * decoded, scored with the model and with scoreRoster, and taken only when both agree.
  */
 import type { Roster } from '../../../shared/roster/schema';
-import { encodeMip } from '../../bench/highs-mip';
+import { encodeMip, readMipAssignment, setMipStart } from '../../bench/highs-mip';
 import { score as modelScore } from '../../model/score';
 import type { CompiledRoster } from '../compile';
 import { decodeAssignment } from '../decode';
@@ -100,19 +100,7 @@ function solveMip(
       // presolve stays on: measured on 12 × 2 weeks (warm, CPU), from a roster one point below the
       // optimum 1.1 s with it against 1.65 s without; from the optimum itself 0.7 s against 0.3 s
     });
-    const idx: number[] = [];
-    const val: number[] = [];
-    const cols: number[][] = model.variables.map((v, i) => {
-      const at: number[] = [];
-      for (let x = 0; x < v.cardinality; x++) {
-        const name = enc.xName(i, x);
-        const c = name ? mip.getColByName(name) : -1;
-        at.push(c);
-        if (c >= 0) idx.push(c), val.push(x === incumbent.assignment[i] ? 1 : 0);
-      }
-      return at;
-    });
-    mip.setSolution({ indices: Int32Array.from(idx), values: Float64Array.from(val) });
+    setMipStart(enc, model, mip, incumbent.assignment);
     const { modelStatus } = mip.run();
     const status = Object.entries(highs.constants.modelStatus).find(([, v]) => v === modelStatus)?.[0] ?? String(modelStatus);
     // the incumbent is feasible, so "infeasible" can only be numerical trouble: nothing is learnt
@@ -121,12 +109,7 @@ function solveMip(
     let score = incumbent.score;
     let improved = false;
     if (Number(mip.info.get('primal_solution_status')) === 2) {
-      const col = mip.getSolution().colValue;
-      const x = cols.map((at) => {
-        let best = 0;
-        for (let v = 1; v < at.length; v++) if ((at[v]! >= 0 ? col[at[v]!]! : -1) > (at[best]! >= 0 ? col[at[best]!]! : -1)) best = v;
-        return best;
-      });
+      const x = readMipAssignment(enc, model, mip, mip.getSolution().colValue, new Array<number>(model.variables.length).fill(0));
       const s = modelScore(model, x);
       if (s > score) {
         // taken only when the roster's own scorer agrees with the model on HiGHS's roster
